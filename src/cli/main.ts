@@ -1,0 +1,36 @@
+#!/usr/bin/env node
+/** fractozone command-line entry. Exit codes: 0 ok, 1 processing/input error, 2 usage error. */
+import { CommanderError } from 'commander';
+import { isFractozoneError } from '../core/errors.js';
+import { buildProgram, exitCodeFor } from './program.js';
+
+async function main(argv: string[]): Promise<number> {
+  const program = buildProgram();
+  try {
+    await program.parseAsync(argv);
+    return typeof process.exitCode === 'number' ? process.exitCode : 0;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // commander already printed its message (help, version or usage error)
+      return e.exitCode === 0 ? 0 : 2;
+    }
+    if (isFractozoneError(e)) {
+      process.stderr.write(`fractozone: error [${e.code}]: ${e.message}\n`);
+      return exitCodeFor(e);
+    }
+    const msg = e instanceof Error ? e.message : String(e);
+    process.stderr.write(`fractozone: internal error: ${msg}\n`);
+    if (process.env.FRACTOZONE_DEBUG) process.stderr.write(`${(e as Error)?.stack ?? ''}\n`);
+    return 1;
+  }
+}
+
+main(process.argv).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e) => {
+    process.stderr.write(`fractozone: internal error: ${String(e)}\n`);
+    process.exitCode = 1;
+  },
+);

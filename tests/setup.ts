@@ -1,0 +1,3 @@
+import { loadCvNode } from '../src/cli/cv-node.js';
+
+loadCvNode();
