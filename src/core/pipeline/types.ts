@@ -1,0 +1,88 @@
+/**
+ * The serialisable parameter object and the versioned result schema shared by the CLI, the batch
+ * runner, the reports and the web app. One schema for all: `fractozone.result/1`.
+ * Every length a user sees is in µm (names end in `Um`), pixel quantities end in `Px`.
+ */
+
+export const RESULT_SCHEMA = 'fractozone.result/1' as const;
+
+export interface PointPx {
+  x: number;
+  y: number;
+}
+
+/** How the scale is set. Precedence: typed pixel size > two points > scale bar (length given) > metadata. */
+export interface ScaleParams {
+  /** Typed pixel size, µm per pixel (X; Y equal unless `pixelSizeYUm`). */
+  pixelSizeUm?: number;
+  pixelSizeYUm?: number;
+  /** Real length of the burned-in scale bar, µm: the bar is found automatically. */
+  barLengthUm?: number;
+  /** Two points on the image and their real distance. */
+  twoPoint?: { p0: PointPx; p1: PointPx; distanceUm: number };
+  /** Take the pixel size from TIFF/PNG metadata when it describes a physical size (default true). */
+  useMetadata?: boolean;
+}
+
+export interface MaterialParams {
+  /** Resolved values (the CLI reads a material sheet; the app fills a form). */
+  name?: string;
+  toughnessMPaSqrtM?: number;
+  toughnessSdMPaSqrtM?: number;
+  strengthMPa?: number;
+  strengthSdMPa?: number;
+  /** Strain-rate law of L and σ0, if dynamic. */
+  dynamic?: unknown;
+  sources?: Record<string, string>;
+}
+
+export interface MeasureParams {
+  scale: ScaleParams;
+  /** Texture window side in µm; null = automatic from the specimen size (rule in DEVELOPERS.md). */
+  windowUm: number | null;
+  /** Roughness features combined for the classification. */
+  features: string[];
+  /** Number of rays around the circumference. */
+  nRays: number;
+  /** Angular exclusion sectors, degrees [from, to], wrap-around allowed. */
+  exclude: [number, number][];
+  /** Drop MAD outliers from the statistics (they always stay flagged in the profile). */
+  dropOutliers: boolean;
+  /** Outlier threshold k in |w − median| > k·1.4826·MAD. */
+  outlierK: number;
+  /** Bootstrap resamples for the CI of the median, and the seed. */
+  bootstrap: number;
+  seed: number;
+  /** Manual boundary polygon (px) in place of the automatic one: re-measured without re-segmenting. */
+  boundaryPolygon: PointPx[] | null;
+  /** Pixel budget for decoding. */
+  maxPixels: number;
+  /** Critical-distance comparison (optional). */
+  material: MaterialParams | null;
+  strainRatePerS: number | null;
+  reference: 'L' | 'L/2' | '2L';
+  tolerancePct: number;
+}
+
+export interface WidthStats {
+  n: number;
+  nEff: number;
+  mean: number;
+  median: number;
+  sd: number;
+  min: number;
+  max: number;
+  p05: number;
+  p95: number;
+  ci95: [number, number];
+  medianCi95: [number, number];
+}
+
+export interface RayResult {
+  angleDeg: number;
+  widthUm: number | null;
+  valid: boolean;
+  reason?: string;
+  outerRadiusUm?: number | null;
+  boundaryRadiusUm?: number | null;
+}
