@@ -1,0 +1,293 @@
+/**
+ * Radial band-width profile: rays from a centre, outer radius R_o(θ) and rim/core boundary
+ * radius R_b(θ) from polygon intersections, width w(θ) = R_o − R_b converted to µm, validity per
+ * ray, robust outlier flags and statistics. Pure geometry: no image access, so a manual
+ * boundary is re-measured in milliseconds.
+ */
+import { FractozoneError } from '../errors.js';
+import {
+  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, distanceToPolygon,
+} from './geometry.js';
+import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
+
+/** Why a ray carries no width (or, for 'outlier', why it is flagged but kept). */
+export type RayReason =
+  | 'excluded'
+  | 'outer-edge-at-frame'
+  | 'no-outer-edge'
+  | 'no-boundary'
+  | 'boundary-outside-outer'
+  | 'outlier';
+
+/** One ray of the profile. Radii in px from the centre, widths in px and µm. */
+export interface RayMeasure {
+  thetaDeg: number;
+  outerRadiusPx: number | null;
+  boundaryRadiusPx: number | null;
+  widthPx: number | null;
+  widthUm: number | null;
+  /** false → the ray is left out of the statistics (see reason). */
+  valid: boolean;
+  /** Set for invalid rays, and 'outlier' for valid rays flagged as outliers. */
+  reason?: RayReason;
+  outlier: boolean;
+}
+
+/** Pixel size: one number for square pixels, or separate x / y sizes (µm per px). */
+export type PixelSize = number | { x: number; y: number };
+
+/** Parameters of {@link measureBand} besides the polygons. */
+export interface MeasureParams {
+  /** Pixel size, µm/px (number, or {x, y} for non-square pixels). */
+  umPerPx: PixelSize;
+  /** Number of rays, evenly spaced from 0° (default 360). */
+  nRays?: number;
+  /** Angular exclusion sectors [fromDeg, toDeg], counter-clockwise; wrap-around allowed ([350, 10]). */
+  exclude?: ReadonlyArray<readonly [number, number]>;
+  /** Image size; when given, rays whose outer end lies within `frameMarginPx` of the frame are invalid. */
+  imageSize?: { width: number; height: number };
+  /** Distance from the frame (px) under which an outer end counts as "at the frame" (default 1.5). */
+  frameMarginPx?: number;
+  /** Outlier threshold k in robust σ (1.4826·MAD), default 3.5. */
+  outlierK?: number;
+  /** Leave flagged outliers out of the statistics (default false: flag only). */
+  dropOutliers?: boolean;
+  /** Bootstrap seed and count for the CI of the median (defaults 1 and 2000). */
+  seed?: number;
+  bootstrap?: number;
+}
+
+/** Input of {@link measureBand}. */
+export interface MeasureBandInput extends MeasureParams {
+  /** Outer contour of the specimen, px. */
+  outer: readonly Point[];
+  /** Rim/core boundary polygon, px (null → every ray 'no-boundary'). */
+  boundary: readonly Point[] | null;
+  /** Ray origin, px (usually the fitted circle centre). */
+  center: Point;
+}
+
+/** Result of {@link measureBand}. */
+export interface BandProfile {
+  center: Point;
+  rays: RayMeasure[];
+  /** Statistics of the valid ray widths, µm. */
+  stats: WidthStatistics;
+  nValid: number;
+  nOutliers: number;
+  /** Width along the inward normal: distance (µm) from boundary points of valid rays to the outer contour. */
+  normalWidth: { meanUm: number; medianUm: number; n: number };
+  /**
+   * Area-equivalent width R_eq,outer − R_eq,core with R_eq = √(A/π), µm (polygon areas). Only
+   * meaningful when the whole section is in the frame and no sector is excluded (`areaWidthComplete`).
+   */
+  areaWidthUm: number | null;
+  areaWidthComplete: boolean;
+}
+
+/** µm per px along a direction (dx, dy) in px: |(dx·sx, dy·sy)| for a unit vector. */
+function umPerPxAlong(dx: number, dy: number, s: PixelSize): number {
+  if (typeof s === 'number') return s;
+  return Math.hypot(dx * s.x, dy * s.y);
+}
+
+/**
+ * Whether θ lies in any exclusion sector. A sector [a, b] runs counter-clockwise from a to b;
+ * a > b wraps through 0° (e.g. [350, 10]). Bounds are inclusive.
+ *
+ * @param thetaDeg - angle, degrees
+ * @param sectors - [fromDeg, toDeg] pairs
+ */
+export function isExcluded(thetaDeg: number, sectors: ReadonlyArray<readonly [number, number]> | undefined): boolean {
+  if (!sectors) return false;
+  const t = ((thetaDeg % 360) + 360) % 360;
+  for (const [a0, b0] of sectors) {
+    const a = ((a0 % 360) + 360) % 360;
+    const b = ((b0 % 360) + 360) % 360;
+    if (a <= b ? t >= a && t <= b : t >= a || t <= b) return true;
+    if (b0 - a0 >= 360) return true;
+  }
+  return false;
+}
+
+function checkParams(p: MeasureParams, center: Point): void {
+  const s = p.umPerPx;
+  const ok = typeof s === 'number' ? s > 0 && Number.isFinite(s) : s && s.x > 0 && s.y > 0 && Number.isFinite(s.x) && Number.isFinite(s.y);
+  if (!ok) throw new FractozoneError('BAD_SCALE', 'The pixel size must be a positive finite number of micrometres per pixel.');
+  const n = p.nRays ?? 360;
+  if (!Number.isInteger(n) || n < 4 || n > 100000) {
+    throw new FractozoneError('BAD_PARAMETER', `The number of rays must be an integer from 4 to 100000, got ${n}.`);
+  }
+  if (!Number.isFinite(center.x) || !Number.isFinite(center.y)) {
+    throw new FractozoneError('BAD_PARAMETER', 'The measurement centre must be a finite point.');
+  }
+  for (const sec of p.exclude ?? []) {
+    if (sec.length !== 2 || !Number.isFinite(sec[0]) || !Number.isFinite(sec[1])) {
+      throw new FractozoneError('BAD_PARAMETER', 'Each exclusion sector must be a pair of finite angles in degrees.');
+    }
+  }
+}
+
+function checkPolygon(poly: readonly Point[], what: string): void {
+  if (poly.length < 3) throw new FractozoneError('BAD_BOUNDARY', `The ${what} polygon needs at least 3 points.`);
+  for (const q of poly) {
+    if (!Number.isFinite(q.x) || !Number.isFinite(q.y)) {
+      throw new FractozoneError('BAD_BOUNDARY', `The ${what} polygon has a point that is not a finite number.`);
+    }
+  }
+}
+
+/**
+ * A reusable measurer for one outer contour and centre: the outer contour's ray index and radii
+ * are computed once, so re-measuring edited boundaries costs only the boundary intersections.
+ *
+ * @param outer - outer contour, px
+ * @param center - ray origin, px
+ * @param params - measurement parameters (pixel size, rays, sectors, frame)
+ * @returns a function boundary → profile
+ */
+export function createBandMeasurer(
+  outer: readonly Point[],
+  center: Point,
+  params: MeasureParams,
+): (boundary: readonly Point[] | null) => BandProfile {
+  checkParams(params, center);
+  checkPolygon(outer, 'outer');
+  const nRays = params.nRays ?? 360;
+  const outerIdx = buildRayIndex(outer, center);
+  const margin = params.frameMarginPx ?? 1.5;
+  const size = params.imageSize;
+  const thetas: number[] = [];
+  const outerR: (number | null)[] = [];
+  const atFrame: boolean[] = [];
+  for (let i = 0; i < nRays; i++) {
+    const th = (360 * i) / nRays;
+    thetas.push(th);
+    const hits = castRay(outerIdx, th);
+    const r = hits.length ? hits[hits.length - 1] : null;
+    outerR.push(r);
+    let f = false;
+    if (r !== null && size) {
+      const d = rayDirection(th);
+      const x = center.x + r * d.x;
+      const y = center.y + r * d.y;
+      f = x <= margin || y <= margin || x >= size.width - 1 - margin || y >= size.height - 1 - margin;
+    }
+    atFrame.push(f);
+  }
+  const outerArea = polygonArea(outer);
+  const anyFrame = atFrame.some((v) => v);
+  // outer edges lying on the frame are not real edges: skip them for the normal width
+  const frameEdge = (i: number): boolean => {
+    if (!size) return false;
+    const a = outer[i];
+    const b = outer[(i + 1) % outer.length];
+    const onF = (q: Point): boolean =>
+      q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin;
+    return onF(a) && onF(b);
+  };
+  const sx = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.x;
+  const sy = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.y;
+
+  return (boundary) => {
+    if (boundary) checkPolygon(boundary, 'boundary');
+    const bIdx: RayIndex | null = boundary ? buildRayIndex(boundary, center) : null;
+    const rays: RayMeasure[] = [];
+    for (let i = 0; i < nRays; i++) {
+      const th = thetas[i];
+      const ro = outerR[i];
+      const hits = bIdx ? castRay(bIdx, th) : [];
+      const rb = hits.length ? hits[hits.length - 1] : null;
+      const ray: RayMeasure = { thetaDeg: th, outerRadiusPx: ro, boundaryRadiusPx: rb, widthPx: null, widthUm: null, valid: false, outlier: false };
+      if (ro !== null && rb !== null) {
+        const d = rayDirection(th);
+        ray.widthPx = ro - rb;
+        ray.widthUm = ray.widthPx * umPerPxAlong(d.x, d.y, params.umPerPx);
+      }
+      if (isExcluded(th, params.exclude)) ray.reason = 'excluded';
+      else if (ro === null) ray.reason = 'no-outer-edge';
+      else if (atFrame[i]) ray.reason = 'outer-edge-at-frame';
+      else if (rb === null) ray.reason = 'no-boundary';
+      else if (ray.widthPx !== null && ray.widthPx < 0) ray.reason = 'boundary-outside-outer';
+      else ray.valid = true;
+      rays.push(ray);
+    }
+    const k = params.outlierK ?? 3.5;
+    const flags = robustOutlierFlags(rays.map((r) => (r.valid ? (r.widthUm as number) : NaN)), k);
+    let nOut = 0;
+    rays.forEach((r, i) => {
+      if (flags[i]) {
+        r.outlier = true;
+        r.reason = 'outlier';
+        nOut++;
+      }
+    });
+    const use = rays.map((r) => (r.valid && !(params.dropOutliers && r.outlier) ? (r.widthUm as number) : NaN));
+    const stats = widthStatistics(use, { seed: params.seed, bootstrap: params.bootstrap, circular: true });
+    // normal width: distance from the boundary point of each valid ray to the outer contour
+    const nw: number[] = [];
+    rays.forEach((r, i) => {
+      if (!Number.isFinite(use[i]) || r.boundaryRadiusPx === null) return;
+      const d = rayDirection(r.thetaDeg);
+      const p = { x: center.x + r.boundaryRadiusPx * d.x, y: center.y + r.boundaryRadiusPx * d.y };
+      nw.push(distanceToPolygon(p, outer, sx, sy, frameEdge));
+    });
+    nw.sort((a, b) => a - b);
+    const nMean = nw.length ? nw.reduce((a, b) => a + b, 0) / nw.length : NaN;
+    const nMed = nw.length ? (nw.length % 2 ? nw[(nw.length - 1) / 2] : 0.5 * (nw[nw.length / 2 - 1] + nw[nw.length / 2])) : NaN;
+    let areaWidthUm: number | null = null;
+    if (boundary) {
+      const scale = Math.sqrt(sx * sy); // area-preserving length scale for non-square pixels
+      areaWidthUm = (Math.sqrt(outerArea / Math.PI) - Math.sqrt(polygonArea(boundary) / Math.PI)) * scale;
+    }
+    return {
+      center,
+      rays,
+      stats,
+      nValid: rays.filter((r) => r.valid).length,
+      nOutliers: nOut,
+      normalWidth: { meanUm: nMean, medianUm: nMed, n: nw.length },
+      areaWidthUm,
+      areaWidthComplete: boundary !== null && !anyFrame && !(params.exclude && params.exclude.length),
+    };
+  };
+}
+
+/**
+ * Measure the band: rays every 360/nRays degrees from `center` (angle convention 0° = +x,
+ * counter-clockwise on screen, direction (cos θ, −sin θ)). R_o(θ) is the OUTERMOST crossing of the
+ * ray with the outer contour and R_b(θ) the OUTERMOST crossing with the boundary polygon (a wavy
+ * boundary crossed several times is measured at its crossing nearest the rim, i.e. the rim width
+ * is never over-estimated by a core finger). w(θ) = R_o − R_b; for non-square pixels the px
+ * length along the ray direction d is converted with |(d.x·umPerPxX, d.y·umPerPxY)| (θ is the
+ * angle on the pixel grid).
+ *
+ * Invalid rays: 'excluded' (in a sector), 'no-outer-edge', 'outer-edge-at-frame' (the outer end
+ * is within frameMarginPx of the image frame: the true edge is cut off), 'no-boundary',
+ * 'boundary-outside-outer'. Outliers (|w − median| > k·1.4826·MAD) stay valid with
+ * reason 'outlier' and leave the statistics only with dropOutliers.
+ *
+ * @param input - polygons (px), centre (px) and parameters
+ * @returns the ray profile with statistics in µm
+ */
+export function measureBand(input: MeasureBandInput): BandProfile {
+  return createBandMeasurer(input.outer, input.center, input)(input.boundary);
+}
+
+/**
+ * Same as {@link measureBand} with positional polygons; meant for a manual (user-drawn) boundary.
+ * Pure geometry: ~ms for 360 rays even on 12-MP contours.
+ *
+ * @param outerPolygon - outer contour, px
+ * @param boundaryPolygon - rim/core boundary, px
+ * @param center - ray origin, px
+ * @param params - pixel size (µm/px), rays, sectors, frame size
+ */
+export function measureFromPolygons(
+  outerPolygon: readonly Point[],
+  boundaryPolygon: readonly Point[],
+  center: Point,
+  params: MeasureParams,
+): BandProfile {
+  return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);
+}

@@ -1,0 +1,9 @@
+/** Band-width measurement: ray geometry, width profile, statistics. */
+export type { Point, RayIndex } from './geometry.js';
+export { rayDirection, angleOf, buildRayIndex, castRay, polygonArea, distanceToPolygon } from './geometry.js';
+export type { RayReason, RayMeasure, PixelSize, MeasureParams, MeasureBandInput, BandProfile } from './band.js';
+export { measureBand, measureFromPolygons, createBandMeasurer, isExcluded } from './band.js';
+export type { WidthStatistics, WidthStatisticsOptions } from './statistics.js';
+export { widthStatistics, lag1Autocorrelation, effectiveSampleSize, robustOutlierFlags } from './statistics.js';
+export { studentTCdf, studentTInv, incompleteBeta, lnGamma } from './tdist.js';
+export { seededUniform } from './rng.js';

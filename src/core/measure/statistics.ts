@@ -1,0 +1,177 @@
+/**
+ * Summary statistics of a width profile (values in angular order), with confidence intervals
+ * that respect the correlation between neighbouring rays.
+ */
+import { mean as ssMean, median as ssMedian, quantileSorted, sampleStandardDeviation, medianAbsoluteDeviation } from 'simple-statistics';
+import { seededUniform } from './rng.js';
+import { studentTInv } from './tdist.js';
+
+/** Options of {@link widthStatistics}. */
+export interface WidthStatisticsOptions {
+  /** Seed of the bootstrap PRNG (default 1). */
+  seed?: number;
+  /** Number of bootstrap resamples for the CI of the median (default 2000; 0 → skip). */
+  bootstrap?: number;
+  /** Treat the profile as circular (last value neighbours the first) for the autocorrelation (default true). */
+  circular?: boolean;
+}
+
+/** Result of {@link widthStatistics}; all lengths in the unit of the input values (µm in the tool). */
+export interface WidthStatistics {
+  /** Number of finite values used. */
+  n: number;
+  /** Effective sample size n·(1−ρ₁)/(1+ρ₁), clamped to [min(n, 2), n]. */
+  nEff: number;
+  /** Lag-1 autocorrelation of the profile (pairs of neighbouring finite values). */
+  rho1: number;
+  mean: number;
+  median: number;
+  /** Sample standard deviation (n − 1). */
+  sd: number;
+  min: number;
+  max: number;
+  /** 5 % and 95 % quantiles (simple-statistics `quantileSorted` definition). */
+  p05: number;
+  p95: number;
+  /** 95 % CI of the mean: mean ± t₀.₉₇₅(nEff − 1)·sd/√nEff. */
+  ci95Mean: [number, number];
+  /** Student t quantile used for ci95Mean. */
+  tQuantile: number;
+  /** Naive 95 % CI of the mean using n (for comparison only; too narrow for correlated rays). */
+  ci95MeanNaive: [number, number];
+  /** Seeded percentile-bootstrap 95 % CI of the median (null when bootstrap = 0 or n < 2). */
+  ci95Median: [number, number] | null;
+}
+
+/**
+ * Lag-1 autocorrelation of an ordered profile. Non-finite entries are gaps: pairs across a gap
+ * are skipped. ρ₁ = Σ(xᵢ−x̄)(xᵢ₊₁−x̄) / Σ(xᵢ−x̄)² (the usual biased estimator, e.g. Box & Jenkins,
+ * Time Series Analysis, §2.1.5).
+ *
+ * @param values - profile in angular order (NaN = gap)
+ * @param circular - whether the last value neighbours the first
+ */
+export function lag1Autocorrelation(values: readonly number[], circular = true): number {
+  const fin = values.filter((v) => Number.isFinite(v));
+  if (fin.length < 3) return 0;
+  const m = ssMean(fin);
+  let den = 0;
+  for (const v of fin) den += (v - m) * (v - m);
+  if (den <= 0) return 0;
+  let num = 0;
+  let pairs = 0;
+  const n = values.length;
+  const last = circular ? n : n - 1;
+  for (let i = 0; i < last; i++) {
+    const a = values[i];
+    const b = values[(i + 1) % n];
+    if (Number.isFinite(a) && Number.isFinite(b)) {
+      num += (a - m) * (b - m);
+      pairs++;
+    }
+  }
+  if (pairs === 0) return 0;
+  // scale the pair sum to the number of values so gaps do not shrink ρ₁
+  return (num / pairs) * fin.length / den;
+}
+
+/**
+ * Effective sample size of an AR(1)-like profile: n_eff = n·(1−ρ₁)/(1+ρ₁) (the variance of the
+ * mean of an AR(1) series with lag-1 correlation ρ₁ equals σ²/n_eff for large n; e.g. Wilks,
+ * Statistical Methods in the Atmospheric Sciences, 3rd ed., eq. 5.12). Negative ρ₁ is taken as 0
+ * (no inflation of n), the result is clamped to [min(n, 2), n].
+ *
+ * @param n - number of values
+ * @param rho1 - lag-1 autocorrelation
+ */
+export function effectiveSampleSize(n: number, rho1: number): number {
+  const r = Math.min(Math.max(rho1, 0), 0.999999);
+  const ne = (n * (1 - r)) / (1 + r);
+  return Math.min(n, Math.max(Math.min(n, 2), ne));
+}
+
+/**
+ * Robust outlier flags: |x − median| > k·1.4826·MAD (MAD about the median; 1.4826 makes the
+ * MAD a consistent estimator of σ for normal data — Rousseeuw & Croux, JASA 88 (1993) 1273;
+ * k = 3.5 follows Iglewicz & Hoaglin, How to Detect and Handle Outliers, ASQC 1993).
+ * Non-finite values are never flagged. When MAD = 0 nothing is flagged.
+ *
+ * @param values - data (any unit)
+ * @param k - threshold in robust standard deviations (default 3.5)
+ */
+export function robustOutlierFlags(values: readonly number[], k = 3.5): boolean[] {
+  const fin = values.filter((v) => Number.isFinite(v));
+  if (fin.length < 3) return values.map(() => false);
+  const med = ssMedian(fin);
+  const mad = medianAbsoluteDeviation(fin);
+  if (!(mad > 0)) return values.map(() => false);
+  const lim = k * 1.4826 * mad;
+  return values.map((v) => Number.isFinite(v) && Math.abs(v - med) > lim);
+}
+
+function medianOfSorted(a: Float64Array): number {
+  const n = a.length;
+  return n % 2 ? a[(n - 1) / 2] : 0.5 * (a[n / 2 - 1] + a[n / 2]);
+}
+
+/**
+ * Statistics of a width profile: n, mean, median, sample sd, min, max, p05/p95
+ * (simple-statistics), a 95 % CI of the mean with Student t on the effective sample size
+ * (see {@link effectiveSampleSize}) and a seeded percentile-bootstrap 95 % CI of the median
+ * (Efron & Tibshirani, An Introduction to the Bootstrap, 1993, §13.3). The bootstrap resamples
+ * values independently, so for strongly correlated profiles it is also optimistic; it is
+ * reported as a descriptive interval.
+ *
+ * @param values - widths in angular order (µm); NaN entries are ignored (gaps)
+ * @param opts - seed, bootstrap count, circularity
+ * @returns the statistics (NaN fields when there are no finite values)
+ */
+export function widthStatistics(values: readonly number[], opts: WidthStatisticsOptions = {}): WidthStatistics {
+  const fin = values.filter((v) => Number.isFinite(v));
+  const n = fin.length;
+  if (n === 0) {
+    return {
+      n: 0, nEff: 0, rho1: 0, mean: NaN, median: NaN, sd: NaN, min: NaN, max: NaN, p05: NaN, p95: NaN,
+      ci95Mean: [NaN, NaN], tQuantile: NaN, ci95MeanNaive: [NaN, NaN], ci95Median: null,
+    };
+  }
+  const sorted = Float64Array.from(fin).sort();
+  const sortedArr = Array.from(sorted);
+  const mean = ssMean(fin);
+  const median = ssMedian(fin);
+  const sd = n > 1 ? sampleStandardDeviation(fin) : 0;
+  const rho1 = lag1Autocorrelation(values, opts.circular ?? true);
+  const nEff = effectiveSampleSize(n, rho1);
+  let ci95Mean: [number, number] = [NaN, NaN];
+  let ci95MeanNaive: [number, number] = [NaN, NaN];
+  let tq = NaN;
+  if (n > 1) {
+    tq = studentTInv(0.975, Math.max(nEff - 1, 1));
+    const h = (tq * sd) / Math.sqrt(nEff);
+    ci95Mean = [mean - h, mean + h];
+    const tn = studentTInv(0.975, n - 1);
+    const hn = (tn * sd) / Math.sqrt(n);
+    ci95MeanNaive = [mean - hn, mean + hn];
+  }
+  const B = opts.bootstrap ?? 2000;
+  let ci95Median: [number, number] | null = null;
+  if (B > 0 && n >= 2) {
+    const rnd = seededUniform(opts.seed ?? 1);
+    const meds = new Float64Array(B);
+    const buf = new Float64Array(n);
+    for (let b = 0; b < B; b++) {
+      for (let i = 0; i < n; i++) buf[i] = sorted[Math.floor(rnd() * n)];
+      buf.sort();
+      meds[b] = medianOfSorted(buf);
+    }
+    meds.sort();
+    const m = Array.from(meds);
+    ci95Median = [quantileSorted(m, 0.025), quantileSorted(m, 0.975)];
+  }
+  return {
+    n, nEff, rho1, mean, median, sd,
+    min: sorted[0], max: sorted[n - 1],
+    p05: quantileSorted(sortedArr, 0.05), p95: quantileSorted(sortedArr, 0.95),
+    ci95Mean, tQuantile: tq, ci95MeanNaive, ci95Median,
+  };
+}
