@@ -1,0 +1,33 @@
+/** Texture (roughness) features: public API. */
+export type { FeatureDefinition, FeatureOptions } from './types.js';
+export { localStd, localVariance } from './localStd.js';
+export {
+  localEntropy,
+  intensityRange,
+  DEFAULT_ENTROPY_BINS,
+  DEFAULT_ENTROPY_PERCENTILES,
+  type LocalEntropyOptions,
+} from './localEntropy.js';
+export { gradientEnergy, gradientEnergyPointwise } from './gradientEnergy.js';
+export { highPassEnergy, highPassEnergyPointwise } from './highPassEnergy.js';
+export { boxMean } from './boxMean.js';
+export { downsample } from './resample.js';
+export {
+  windowPxFromUm,
+  defaultWindowUm,
+  DEFAULT_WINDOW_MIN_PX,
+  DEFAULT_WINDOW_MAX_PX,
+  DEFAULT_WINDOW_RADIUS_FRACTION,
+  ASSUMED_RADIUS_FRACTION_OF_IMAGE,
+  type DefaultWindowInput,
+} from './window.js';
+export {
+  FEATURES,
+  CORE_FEATURES,
+  computeFeature,
+  computeFeaturesAt,
+  isFeatureName,
+  type FeatureName,
+  type FeaturesAt,
+  type FeaturesAtOptions,
+} from './registry.js';
