@@ -1,0 +1,17 @@
+/** Module declarations for Vite asset imports used by the app (tsc does not load vite/client). */
+declare module '*?url' {
+  const url: string;
+  export default url;
+}
+declare module '*?raw' {
+  const text: string;
+  export default text;
+}
+declare module '*.css' {
+  const css: string;
+  export default css;
+}
+interface ImportMeta {
+  /** Vite: lazy importers of the files matching `pattern` at build time (empty if none exist). */
+  glob(pattern: string, options?: { eager?: boolean }): Record<string, () => Promise<unknown>>;
+}
