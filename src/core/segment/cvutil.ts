@@ -1,0 +1,203 @@
+/** Small OpenCV helpers shared by the segmentation stages (every Mat is freed by the caller or here). */
+import { getCv } from '../cv.js';
+import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
+import type { Point } from '../measure/geometry.js';
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type Mat = any;
+
+/** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
+export function rasterToMat(r: GrayRaster): Mat {
+  const cv = getCv();
+  const m = new cv.Mat(r.height, r.width, cv.CV_32F);
+  m.data32F.set(r.data);
+  return m;
+}
+
+/** Copy a Mask into a new CV_8U Mat with values 0/255 (caller deletes). */
+export function maskToMat(mask: Mask): Mat {
+  const cv = getCv();
+  const m = new cv.Mat(mask.height, mask.width, cv.CV_8U);
+  const d = m.data;
+  const s = mask.data;
+  for (let i = 0; i < s.length; i++) d[i] = s[i] ? 255 : 0;
+  return m;
+}
+
+/** Read a CV_8U Mat (non-zero = inside) into a Mask. */
+export function matToMask(m: Mat): Mask {
+  const out = createMask(m.cols, m.rows);
+  const d = m.data;
+  for (let i = 0; i < out.data.length; i++) out.data[i] = d[i] ? 1 : 0;
+  return out;
+}
+
+/** Apply a morphological operation with an elliptical kernel of radius r px (in place on a CV_8U Mat). */
+export function morph(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: number, shape: 'ellipse' | 'rect' = 'ellipse'): void {
+  if (r < 1) return;
+  const cv = getCv();
+  const k = cv.getStructuringElement(shape === 'rect' ? cv.MORPH_RECT : cv.MORPH_ELLIPSE, new cv.Size(2 * r + 1, 2 * r + 1));
+  try {
+    if (op === 'erode') cv.erode(m, m, k);
+    else if (op === 'dilate') cv.dilate(m, m, k);
+    else cv.morphologyEx(m, m, op === 'open' ? cv.MORPH_OPEN : cv.MORPH_CLOSE, k);
+  } finally {
+    k.delete();
+  }
+}
+
+/** Fill holes of a mask in place: background not 4-connected to the frame becomes inside. */
+export function fillHoles(mask: Mask): void {
+  const { width: W, height: H, data } = mask;
+  const seen = new Uint8Array(W * H);
+  const stack = new Int32Array(W * H);
+  let sp = 0;
+  const push = (i: number): void => {
+    if (!data[i] && !seen[i]) {
+      seen[i] = 1;
+      stack[sp++] = i;
+    }
+  };
+  for (let x = 0; x < W; x++) {
+    push(x);
+    push((H - 1) * W + x);
+  }
+  for (let y = 0; y < H; y++) {
+    push(y * W);
+    push(y * W + W - 1);
+  }
+  while (sp > 0) {
+    const i = stack[--sp];
+    const x = i % W;
+    if (x > 0) push(i - 1);
+    if (x < W - 1) push(i + 1);
+    if (i >= W) push(i - W);
+    if (i < W * (H - 1)) push(i + W);
+  }
+  for (let i = 0; i < data.length; i++) if (!data[i] && !seen[i]) data[i] = 1;
+}
+
+/**
+ * Keep one connected component (8-connectivity): among components of at least `minFraction` of
+ * the largest one, the one whose centroid is nearest `target` (or containing it). Returns the
+ * kept mask, or null when the mask is empty.
+ */
+export function keepComponent(mask: Mask, target: Point, minFraction = 0.25): Mask | null {
+  const cv = getCv();
+  const m = maskToMat(mask);
+  const labels = new cv.Mat();
+  const stats = new cv.Mat();
+  const cents = new cv.Mat();
+  try {
+    const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
+    if (n <= 1) return null;
+    let maxA = 0;
+    for (let l = 1; l < n; l++) maxA = Math.max(maxA, stats.intAt(l, cv.CC_STAT_AREA));
+    const lab = labels.data32S as Int32Array;
+    const tx = Math.min(mask.width - 1, Math.max(0, Math.round(target.x)));
+    const ty = Math.min(mask.height - 1, Math.max(0, Math.round(target.y)));
+    const atTarget = lab[ty * mask.width + tx];
+    let best = -1;
+    if (atTarget > 0 && stats.intAt(atTarget, cv.CC_STAT_AREA) >= minFraction * maxA) best = atTarget;
+    else {
+      let bestD = Infinity;
+      for (let l = 1; l < n; l++) {
+        if (stats.intAt(l, cv.CC_STAT_AREA) < minFraction * maxA) continue;
+        const d = Math.hypot(cents.doubleAt(l, 0) - target.x, cents.doubleAt(l, 1) - target.y);
+        if (d < bestD) {
+          bestD = d;
+          best = l;
+        }
+      }
+    }
+    const out = createMask(mask.width, mask.height);
+    for (let i = 0; i < lab.length; i++) out.data[i] = lab[i] === best ? 1 : 0;
+    return out;
+  } finally {
+    m.delete();
+    labels.delete();
+    stats.delete();
+    cents.delete();
+  }
+}
+
+/** Outer contour (largest external contour, every boundary pixel) of a mask, px. */
+export function outerContour(mask: Mask): Point[] {
+  const cv = getCv();
+  const m = maskToMat(mask);
+  const contours = new cv.MatVector();
+  const hier = new cv.Mat();
+  try {
+    cv.findContours(m, contours, hier, cv.RETR_EXTERNAL, cv.CHAIN_APPROX_NONE);
+    let best = -1;
+    let bestA = -1;
+    for (let i = 0; i < contours.size(); i++) {
+      const c = contours.get(i);
+      const a = c.rows;
+      if (a > bestA) {
+        bestA = a;
+        best = i;
+      }
+      c.delete();
+    }
+    if (best < 0) return [];
+    const c = contours.get(best);
+    const d = c.data32S as Int32Array;
+    const pts: Point[] = [];
+    for (let i = 0; i < c.rows; i++) pts.push({ x: d[2 * i], y: d[2 * i + 1] });
+    c.delete();
+    return pts;
+  } finally {
+    m.delete();
+    contours.delete();
+    hier.delete();
+  }
+}
+
+/** Otsu threshold of values (Otsu, IEEE Trans. SMC 9 (1979) 62) on a 256-bin histogram over [lo, hi]. */
+export function otsuThreshold(values: ArrayLike<number>, lo: number, hi: number, bins = 256): number {
+  const h = new Float64Array(bins);
+  const span = hi - lo || 1;
+  let n = 0;
+  for (let i = 0; i < values.length; i++) {
+    const v = values[i];
+    if (!Number.isFinite(v)) continue;
+    let b = Math.floor(((v - lo) / span) * bins);
+    b = b < 0 ? 0 : b >= bins ? bins - 1 : b;
+    h[b]++;
+    n++;
+  }
+  let sumAll = 0;
+  for (let b = 0; b < bins; b++) sumAll += b * h[b];
+  let w0 = 0;
+  let s0 = 0;
+  let best = 0;
+  let bestT = bins / 2;
+  for (let b = 0; b < bins - 1; b++) {
+    w0 += h[b];
+    s0 += b * h[b];
+    const w1 = n - w0;
+    if (w0 === 0 || w1 === 0) continue;
+    const m0 = s0 / w0;
+    const m1 = (sumAll - s0) / w1;
+    const between = w0 * w1 * (m0 - m1) * (m0 - m1);
+    if (between > best) {
+      best = between;
+      bestT = b + 1;
+    }
+  }
+  return lo + (bestT / bins) * span;
+}
+
+/** Quantile (0..1) of the finite values of an array (sorts a copy). */
+export function quantile(values: ArrayLike<number>, q: number): number {
+  // large arrays: a deterministic stride subsample of ≤ 50 000 values is plenty for a threshold
+  const stride = Math.max(1, Math.floor(values.length / 50000));
+  const tmp: number[] = [];
+  for (let i = 0; i < values.length; i += stride) if (Number.isFinite(values[i])) tmp.push(values[i]);
+  const a = Float64Array.from(tmp);
+  if (a.length === 0) return NaN;
+  a.sort();
+  const i = Math.min(a.length - 1, Math.max(0, Math.round(q * (a.length - 1))));
+  return a[i];
+}

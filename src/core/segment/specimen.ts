@@ -1,0 +1,223 @@
+/**
+ * Specimen outline: separate the fracture surface from a dark or bright background, fill holes,
+ * keep the specimen component, trace its outer contour and fit a circle and an ellipse.
+ */
+import { getCv } from '../cv.js';
+import { FractozoneError } from '../errors.js';
+import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
+import type { Point } from '../measure/geometry.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morph, otsuThreshold, outerContour, quantile, rasterToMat } from './cvutil.js';
+import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
+
+/** Options of {@link findSpecimen}. */
+export interface SpecimenOptions {
+  /** Longest side of the working image for the coarse segmentation (default 1024 px). */
+  workSizePx?: number;
+  /** Use local texture as well as intensity to find the surface (default true). */
+  useTexture?: boolean;
+  /** Components smaller than this fraction of the largest are ignored (default 0.25). */
+  minComponentFraction?: number;
+}
+
+/** Result of {@link findSpecimen}; all coordinates px at full resolution. */
+export interface Specimen {
+  mask: Mask;
+  /** Outer contour, every boundary pixel (pixel centres of the outermost specimen pixels). */
+  contour: Point[];
+  circle: CircleFit;
+  ellipse: EllipseFit;
+  areaPx: number;
+  /** √(area/π), px. */
+  equivalentRadiusPx: number;
+  background: 'dark' | 'bright';
+  touchesFrame: boolean;
+  /** Fraction of contour points lying on the image frame (excluded from the fits). */
+  frameContactFraction: number;
+  /** Intensity level (0..1) separating background and surface at full resolution. */
+  thresholdLevel: number;
+}
+
+/**
+ * Find the specimen (fracture surface) in a fractograph.
+ *
+ * Method: (1) downsample to ≤ workSizePx (area average) and smooth (Gaussian σ = 1.5 px);
+ * (2) Otsu threshold (Otsu 1979) of the intensity; the background polarity is the class holding
+ * most of the image border; (3) optionally add pixels whose local standard deviation (7 px box)
+ * is clearly above the background's (Otsu on log-std and > 3× the border median), so a textured
+ * surface darker/brighter than the background in places is kept; (4) close, fill holes (pits and
+ * macro-cracks inside the section become specimen), open; (5) keep the component of at least
+ * `minComponentFraction` of the largest that contains / is nearest the image centre (so a
+ * scale-bar plate in a corner is not taken); (6) at full resolution, pixels within a few px of the
+ * coarse edge are re-decided by the intensity threshold on a lightly smoothed image (σ = 1 px),
+ * keeping the outline accurate to ~1 px; (7) outer contour by cv.findContours, circle (Kåsa +
+ * geometric refinement) and ellipse (cv.fitEllipse) fitted to contour points not on the frame.
+ *
+ * @param r - gray raster 0..1, full resolution
+ * @param opts - see {@link SpecimenOptions}
+ * @returns the specimen outline and fits
+ * @throws FractozoneError NO_SPECIMEN when no surface is found
+ */
+export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specimen {
+  const cv = getCv();
+  const W = r.width;
+  const H = r.height;
+  if (W < 16 || H < 16) throw new FractozoneError('NO_SPECIMEN', `The image (${W}×${H} px) is too small to hold a specimen.`);
+  const work = opts.workSizePx ?? 1024;
+  const f = Math.max(1, Math.max(W, H) / work);
+  const w = Math.max(8, Math.round(W / f));
+  const h = Math.max(8, Math.round(H / f));
+  const sx = W / w;
+  const sy = H / h;
+
+  const full = rasterToMat(r);
+  const small = new cv.Mat();
+  let coarse: Mask;
+  let level = 0.5;
+  let bright = false;
+  try {
+    if (w !== W || h !== H) cv.resize(full, small, new cv.Size(w, h), 0, 0, cv.INTER_AREA);
+    else full.copyTo(small);
+    cv.GaussianBlur(small, small, new cv.Size(0, 0), 1.5, 1.5, cv.BORDER_REFLECT_101);
+    const sd = small.data32F as Float32Array;
+    const lo = quantile(sd, 0.001);
+    const hi = quantile(sd, 0.999);
+    if (!(hi - lo > 1e-4)) throw new FractozoneError('NO_SPECIMEN', 'The image has no contrast: no specimen can be separated from the background.');
+    level = otsuThreshold(sd, lo, hi);
+    // border polarity
+    let nb = 0;
+    let nBright = 0;
+    const border: number[] = [];
+    for (let x = 0; x < w; x++) for (const y of [0, h - 1]) { border.push(sd[y * w + x]); }
+    for (let y = 1; y < h - 1; y++) for (const x of [0, w - 1]) { border.push(sd[y * w + x]); }
+    for (const v of border) {
+      nb++;
+      if (v > level) nBright++;
+    }
+    bright = nBright > nb / 2;
+    const m = createMask(w, h);
+    for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
+    if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
+    const mm = maskToMat(m);
+    try {
+      const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
+      morph(mm, 'close', rad * 2);
+      const tmp = matToMask(mm);
+      fillHoles(tmp);
+      const mm2 = maskToMat(tmp);
+      try {
+        morph(mm2, 'open', rad * 2);
+        coarse = matToMask(mm2);
+      } finally {
+        mm2.delete();
+      }
+    } finally {
+      mm.delete();
+    }
+    const kept = keepComponent(coarse, { x: (w - 1) / 2, y: (h - 1) / 2 }, opts.minComponentFraction ?? 0.25);
+    if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
+    coarse = kept;
+    fillHoles(coarse);
+  } finally {
+    full.delete();
+    small.delete();
+  }
+  // band: the texture window (7 px) + smoothing can push the coarse edge ~6 work px outwards
+  const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2);
+  let area = 0;
+  for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
+  if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
+  const contour = outerContour(mask);
+  const onFrame = (p: Point): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
+  const inner = contour.filter((p) => !onFrame(p));
+  const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
+  const circle = fitCircle(inner);
+  const ellipse = fitEllipseToPoints(inner);
+  if (!circle || !ellipse) throw new FractozoneError('NO_SPECIMEN', 'The specimen outline is too short to fit a circle or ellipse.');
+  return {
+    mask, contour, circle, ellipse, areaPx: area, equivalentRadiusPx: Math.sqrt(area / Math.PI),
+    background: bright ? 'bright' : 'dark', touchesFrame: frameContactFraction > 0, frameContactFraction,
+    thresholdLevel: level,
+  };
+}
+
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+function addTexture(small: any, m: Mask, _nBorder: number, w: number, h: number): void {
+  const cv = getCv();
+  const mean = new cv.Mat();
+  const sq = new cv.Mat();
+  const mean2 = new cv.Mat();
+  try {
+    const k = new cv.Size(7, 7);
+    cv.boxFilter(small, mean, -1, k, new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
+    cv.multiply(small, small, sq);
+    cv.boxFilter(sq, mean2, -1, k, new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
+    const a = mean.data32F as Float32Array;
+    const b = mean2.data32F as Float32Array;
+    const ls = new Float32Array(a.length);
+    for (let i = 0; i < a.length; i++) ls[i] = 0.5 * Math.log(Math.max(b[i] - a[i] * a[i], 1e-12));
+    const border: number[] = [];
+    for (let x = 0; x < w; x++) border.push(ls[x], ls[(h - 1) * w + x]);
+    for (let y = 0; y < h; y++) border.push(ls[y * w], ls[y * w + w - 1]);
+    const bMed = quantile(border, 0.5);
+    const t = Math.max(otsuThreshold(ls, quantile(ls, 0.001), quantile(ls, 0.999)), bMed + Math.log(3));
+    // the intensity step of the edge itself has a high local std: those pixels are re-decided
+    // at full resolution later, so adding them here is harmless
+    for (let i = 0; i < ls.length; i++) if (ls[i] > t) m.data[i] = 1;
+  } finally {
+    mean.delete();
+    sq.delete();
+    mean2.delete();
+  }
+}
+
+/** Upsample the coarse mask and re-decide pixels near its edge by the intensity threshold. */
+function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, bright: boolean, band: number): Mask {
+  const cv = getCv();
+  const W = r.width;
+  const H = r.height;
+  const c = maskToMat(coarse);
+  const up = new cv.Mat();
+  const inner = new cv.Mat();
+  const outer = new cv.Mat();
+  const img = rasterToMat(r);
+  try {
+    if (coarse.width !== W || coarse.height !== H) cv.resize(c, up, new cv.Size(W, H), 0, 0, cv.INTER_LINEAR);
+    else c.copyTo(up);
+    cv.threshold(up, up, 127, 255, cv.THRESH_BINARY);
+    up.copyTo(inner);
+    up.copyTo(outer);
+    morph(inner, 'erode', band, 'rect');
+    morph(outer, 'dilate', band, 'rect');
+    cv.GaussianBlur(img, img, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT_101);
+    const d = img.data32F as Float32Array;
+    const a = inner.data as Uint8Array;
+    const b = outer.data as Uint8Array;
+    const out = createMask(W, H);
+    for (let i = 0; i < out.data.length; i++) {
+      if (a[i]) out.data[i] = 1;
+      else if (b[i]) out.data[i] = (d[i] > level) !== bright ? 1 : 0;
+    }
+    fillHoles(out);
+    let sxm = 0;
+    let sym = 0;
+    let nm = 0;
+    for (let i = 0; i < coarse.data.length; i++) {
+      if (coarse.data[i]) {
+        sxm += i % coarse.width;
+        sym += Math.floor(i / coarse.width);
+        nm++;
+      }
+    }
+    const target = nm ? { x: ((sxm / nm + 0.5) * W) / coarse.width - 0.5, y: ((sym / nm + 0.5) * H) / coarse.height - 0.5 } : { x: W / 2, y: H / 2 };
+    const kept = keepComponent(out, target, 0.25);
+    if (!kept) return out;
+    fillHoles(kept);
+    return kept;
+  } finally {
+    c.delete();
+    up.delete();
+    inner.delete();
+    outer.delete();
+    img.delete();
+  }
+}
