@@ -35,6 +35,7 @@ export {
   type NotchFit,
   type FitNotchesOptions,
 } from './notch-fit.js';
+export { parseRatePairsCsv, type RatePairs } from './rate-csv.js';
 export { fitPowerLaw, evaluateRateLaw, type RateLaw, type PowerLawFit, type PowerFitStats, type RateValue } from './dynamic.js';
 export { studentTQuantile, studentTCdf } from './student-t.js';
 export { criticalDistanceUncertainty, scatterMoments, type Scatter, type DistanceUncertainty } from './uncertainty.js';
