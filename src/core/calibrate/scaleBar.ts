@@ -107,9 +107,9 @@ export function detectScaleBar(raster: GrayRaster, options: ScaleBarOptions = {}
   const { maxImg, minImg, w, h } = _pool(raster, f);
   const range = _robustRange(maxImg, minImg);
   if (range < 0.05) return null;
-  const delta = Math.max(0.04, 0.2 * range);
+  const delta = Math.max(0.05, 0.3 * range);
   const maxTW = Math.ceil(maxT / f);
-  let win = 4 * maxTW + 1;
+  let win = 2 * maxTW + 1;
   win = Math.max(15, win | 1);
 
   const ctx: Ctx = { raster, f, w, h, minT, maxT, minLenFrac, maxTW };
@@ -253,35 +253,40 @@ function _candidates(ctx: Ctx, labels: Int32Array, stats: Int32Array, n: number)
     if (area < 0.5 * long) continue;
     // ends must not reach the frame: the length could not be measured
     if (horizontal ? left <= 0 || left + bw >= w : top <= 0 || top + bh >= h) continue;
-    // thickness per position along the bar
-    const heights = new Int32Array(long);
-    const starts = new Int32Array(long).fill(-1);
+    // the bar band: rows (across positions) covered over most of the length; labels, caps and
+    // merged neighbours cover only part of it
+    const counts = new Int32Array(short);
     for (let yy = 0; yy < bh; yy++) {
       const row = (top + yy) * w + left;
-      for (let xx = 0; xx < bw; xx++) {
-        if (labels[row + xx] !== id) continue;
-        const u = horizontal ? xx : yy;
-        const v = horizontal ? yy : xx;
-        heights[u]++;
-        if (starts[u] < 0 || v < starts[u]) starts[u] = v;
-      }
+      for (let xx = 0; xx < bw; xx++) if (labels[row + xx] === id) counts[horizontal ? yy : xx]++;
     }
-    const sorted = Array.from(heights).sort((a, b) => a - b);
-    const tW = sorted[sorted.length >> 1];
+    let r0 = -1;
+    let r1 = -2;
+    for (let k = 0; k < short; k++) {
+      if (counts[k] < 0.6 * long) continue;
+      let e = k;
+      while (e + 1 < short && counts[e + 1] >= 0.6 * long) e++;
+      if (e - k > r1 - r0) (r0 = k), (r1 = e);
+      k = e;
+    }
+    const tW = r1 - r0 + 1;
     if (tW < 1 || tW > maxTW + 2) continue;
-    const tol = Math.max(1, Math.round(0.3 * tW));
-    let within = 0;
-    let thinner = 0;
+    // columns that hold the whole band
+    // (partly covered edge rows may be on in some columns only: allow two rows short)
+    let full = 0;
+    const need = Math.max(1, tW - 2);
     for (let u = 0; u < long; u++) {
-      if (Math.abs(heights[u] - tW) <= tol) within++;
-      else if (heights[u] < tW - tol) thinner++;
+      let on = 0;
+      for (let v = r0; v <= r1; v++) {
+        const x = horizontal ? left + u : left + v;
+        const y = horizontal ? top + v : top + u;
+        if (labels[y * w + x] === id) on++;
+      }
+      if (on >= need) full++;
     }
-    if (within < 0.5 * long || thinner > 0.15 * long) continue;
-    if (long < 6 * tW) continue;
-    const st = Array.from(starts).filter((s) => s >= 0).sort((a, b) => a - b);
-    const acrossStart = st[st.length >> 1] + (horizontal ? top : left);
+    if (full < 0.8 * long || long < 6 * tW) continue;
+    const acrossStart = r0 + (horizontal ? top : left);
     out.push({ id, orientation: horizontal ? 'horizontal' : 'vertical', left, top, bw, bh, tW, acrossStart, area });
-    void f;
   }
   out.sort((a, b) => b.area - a.area);
   return out.slice(0, 40);
@@ -448,8 +453,8 @@ function _refine(
   const inAlong = _median(centre);
   const outLevel = (outA + outB) / 2;
   const lvl = (q: number) => outLevel + q * (inAlong - outLevel);
-  const sL = Math.min(uA + 2 * f + 2, cu0) - u0;
-  const sR = Math.max(uB - 2 * f - 2, cu1) - u0;
+  const sL = cu0 - u0;
+  const sR = cu1 - u0;
   const left = _crossing(along, sL, -1, lvl(0.5), sign);
   const right = _crossing(along, sR, 1, lvl(0.5), sign);
   if (!Number.isFinite(left) || !Number.isFinite(right)) return null; // runs into the frame
@@ -467,7 +472,7 @@ function _refine(
   const sStraight = clamp01(1 - (edgeStd - 0.35) / 0.65) * clamp01(1 - (edgeOutliers - 0.05) / 0.25);
   const sUni = clamp01(1 - (uni - 0.1) / 0.25);
   const sSur = Math.sqrt(clamp01(1 - (sur - 0.15) / 0.6));
-  const sEnd = Number.isFinite(endW) ? clamp01(1 - (endW - 3) / 5) : 0;
+  const sEnd = Number.isFinite(endW) ? clamp01(1 - (endW - 4) / 5) : 0;
   const cx = (horiz ? (left + right) / 2 + u0 : mid) / W;
   const cy = (horiz ? mid : (left + right) / 2 + u0) / H;
   const margin = Math.min(cx, 1 - cx, cy, 1 - cy);
@@ -504,11 +509,7 @@ function _findLabel(ctx: Ctx, c: Candidate, labels: Int32Array, stats: Int32Arra
   const ry0 = c.top - m;
   const rx1 = c.left + c.bw + m;
   const ry1 = c.top + c.bh + m;
-  let x0 = Infinity;
-  let y0 = Infinity;
-  let x1 = -Infinity;
-  let y1 = -Infinity;
-  let count = 0;
+  const glyphs: { l: number; t: number; r: number; b: number }[] = [];
   for (let id = 1; id < n; id++) {
     if (id === c.id) continue;
     const l = stats[id * 5 + ST_LEFT];
@@ -517,14 +518,23 @@ function _findLabel(ctx: Ctx, c: Candidate, labels: Int32Array, stats: Int32Arra
     const bh = stats[id * 5 + ST_H];
     const area = stats[id * 5 + ST_AREA];
     if (l < rx0 || t < ry0 || l + bw > rx1 || t + bh > ry1) continue;
-    if (area < 3 || Math.max(bw, bh) > 0.8 * len || Math.max(bw, bh) < 2) continue;
-    count++;
-    x0 = Math.min(x0, l);
-    y0 = Math.min(y0, t);
-    x1 = Math.max(x1, l + bw);
-    y1 = Math.max(y1, t + bh);
+    if (area < 3 || Math.max(bw, bh) > 0.4 * len || Math.max(bw, bh) < 2 || bw > 3 * bh) continue;
+    glyphs.push({ l, t, r: l + bw, b: t + bh });
   }
-  if (count < 2 || count > 60) return undefined;
+  if (glyphs.length < 2) return undefined;
+  // keep one text line: glyphs of similar height whose centres line up (horizontal text)
+  const hs = glyphs.map((g) => g.b - g.t);
+  const hMed = _median(hs);
+  const cMed = _median(glyphs.map((g) => (g.t + g.b) / 2));
+  const line = glyphs.filter((g) => {
+    const gh = g.b - g.t;
+    return gh >= 0.5 * hMed && gh <= 2 * hMed && Math.abs((g.t + g.b) / 2 - cMed) <= 0.6 * hMed;
+  });
+  if (line.length < 2 || line.length > 60) return undefined;
+  const x0 = Math.min(...line.map((g) => g.l));
+  const y0 = Math.min(...line.map((g) => g.t));
+  const x1 = Math.max(...line.map((g) => g.r));
+  const y1 = Math.max(...line.map((g) => g.b));
   void labels;
   return { x: x0 * f, y: y0 * f, w: (x1 - x0) * f, h: (y1 - y0) * f };
 }
