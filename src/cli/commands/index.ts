@@ -3,7 +3,10 @@ import type { Command } from 'commander';
 import { register as criticalDistance } from './critical-distance.js';
 import { register as fitNotches } from './fit-notches.js';
 import { register as fitRate } from './fit-rate.js';
+import { register as batch } from './batch.js';
+import { register as merge } from './merge.js';
+import { register as report } from './report.js';
 
 export type RegisterCommand = (program: Command) => void;
 
-export const commands: RegisterCommand[] = [criticalDistance, fitNotches, fitRate];
+export const commands: RegisterCommand[] = [batch, merge, report, criticalDistance, fitNotches, fitRate];

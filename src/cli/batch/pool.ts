@@ -1,0 +1,137 @@
+/**
+ * A fixed-size pool of batch worker threads (node:worker_threads). Each worker loads OpenCV and
+ * the processor once. Tasks are handed out one at a time to the first free worker. When a worker
+ * dies while processing (uncaught error, out of memory, process.exit in native code), that image
+ * is reported failed and a fresh worker replaces the dead one. A worker that cannot start (the
+ * processor module fails to load) stops the whole batch with that reason.
+ */
+import { Worker } from 'node:worker_threads';
+import type { MeasureParams } from '../../core/pipeline/types.js';
+import type { ProcessInput } from './processor.js';
+
+export interface PoolTask {
+  bytes: Uint8Array;
+  input: ProcessInput;
+  params: MeasureParams;
+}
+
+export type PoolOutcome =
+  | { ok: true; result: Record<string, unknown>; overlayPng: Uint8Array | null }
+  | { ok: false; error: { code: string; message: string } };
+
+interface Slot {
+  worker: Worker;
+  ready: boolean;
+  busy: { id: number; resolve: (o: PoolOutcome) => void } | null;
+}
+
+export interface PoolOptions {
+  jobs: number;
+  processorModule: string;
+  /** Heap limit per worker, MB (Node `resourceLimits.maxOldGenerationSizeMb`); undefined = Node default. */
+  workerMemoryMb?: number;
+}
+
+export class WorkerPool {
+  private readonly slots: Slot[] = [];
+  private readonly queue: { id: number; task: PoolTask; resolve: (o: PoolOutcome) => void }[] = [];
+  private nextId = 1;
+  private fatal: Error | null = null;
+  private fatalReject: ((e: Error) => void)[] = [];
+  private closed = false;
+  /** Number of workers replaced after a crash. */
+  replaced = 0;
+
+  constructor(private readonly opts: PoolOptions) {
+    for (let i = 0; i < Math.max(1, opts.jobs); i++) this.slots.push(this.spawn());
+  }
+
+  private spawn(): Slot {
+    const worker = new Worker(new URL('./worker.js', import.meta.url), {
+      workerData: { processorModule: this.opts.processorModule },
+      ...(this.opts.workerMemoryMb ? { resourceLimits: { maxOldGenerationSizeMb: this.opts.workerMemoryMb } } : {}),
+      stderr: false,
+    });
+    const slot: Slot = { worker, ready: false, busy: null };
+    worker.on('message', (msg: { type: string; id?: number; ok?: boolean; message?: string } & Record<string, unknown>) => {
+      if (msg.type === 'ready') {
+        slot.ready = true;
+        this.pump();
+      } else if (msg.type === 'startup-failed') {
+        this.fail(new Error(`a batch worker could not start: ${msg.message}`));
+      } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
+        const b = slot.busy;
+        slot.busy = null;
+        const overlay = msg.overlayPng as Uint8Array | null | undefined;
+        b.resolve(
+          msg.ok
+            ? { ok: true, result: msg.result as Record<string, unknown>, overlayPng: overlay ? new Uint8Array(overlay) : null }
+            : { ok: false, error: msg.error as { code: string; message: string } },
+        );
+        this.pump();
+      }
+    });
+    let why = '';
+    worker.on('error', (e) => {
+      why = e instanceof Error ? `${(e as NodeJS.ErrnoException).code ?? e.name}: ${e.message}` : String(e);
+    });
+    worker.on('exit', (code) => {
+      if (this.closed) return;
+      const idx = this.slots.indexOf(slot);
+      if (idx < 0) return;
+      if (!slot.ready && !slot.busy) {
+        this.fail(new Error(`a batch worker stopped during start-up (${why || `exit code ${code}`})`));
+        return;
+      }
+      if (slot.busy) {
+        const b = slot.busy;
+        slot.busy = null;
+        b.resolve({
+          ok: false,
+          error: { code: 'PROCESSING_FAILED', message: `the worker stopped while processing this image (${why || `exit code ${code}`})` },
+        });
+      }
+      this.replaced++;
+      this.slots[idx] = this.spawn();
+    });
+    return slot;
+  }
+
+  private fail(e: Error): void {
+    if (this.fatal) return;
+    this.fatal = e;
+    for (const r of this.fatalReject) r(e);
+    this.fatalReject = [];
+  }
+
+  private pump(): void {
+    for (const slot of this.slots) {
+      if (!slot.ready || slot.busy || this.queue.length === 0) continue;
+      const job = this.queue.shift()!;
+      slot.busy = { id: job.id, resolve: job.resolve };
+      const b = job.task.bytes;
+      const whole = b.byteOffset === 0 && b.byteLength === b.buffer.byteLength;
+      slot.worker.postMessage({ type: 'task', id: job.id, bytes: b, input: job.task.input, params: job.task.params }, whole ? [b.buffer as ArrayBuffer] : []);
+    }
+  }
+
+  /** Queues one image; resolves with its outcome, rejects only when the pool cannot run at all. */
+  run(task: PoolTask): Promise<PoolOutcome> {
+    if (this.fatal) return Promise.reject(this.fatal);
+    return new Promise<PoolOutcome>((resolve, reject) => {
+      this.fatalReject.push(reject);
+      this.queue.push({ id: this.nextId++, task, resolve });
+      this.pump();
+    });
+  }
+
+  /** Number of tasks waiting or running. */
+  get pending(): number {
+    return this.queue.length + this.slots.filter((s) => s.busy).length;
+  }
+
+  async close(): Promise<void> {
+    this.closed = true;
+    await Promise.all(this.slots.map((s) => s.worker.terminate()));
+  }
+}

@@ -1,0 +1,21 @@
+/** `fractozone report`: rebuild results.csv, results.jsonl and report.html from a batch output folder. */
+import type { Command } from 'commander';
+import { resolve, join } from 'node:path';
+import { existsSync } from 'node:fs';
+import { FractozoneError } from '../../core/errors.js';
+import { rebuildOutputs } from '../batch/outputs.js';
+
+export function register(program: Command): void {
+  program
+    .command('report')
+    .description('Rebuild OUT/results.csv, OUT/results.jsonl and OUT/report.html from the per-image result files of a batch output folder.')
+    .argument('<folder>', 'batch output folder')
+    .option('--json', 'print a JSON summary on stdout')
+    .action((folder: string, opts: { json?: boolean }) => {
+      const out = resolve(folder);
+      if (!existsSync(join(out, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${folder}" is not a batch output folder (no results/ inside)`, 'usage');
+      const entries = rebuildOutputs(out, (m) => process.stderr.write(`report: warning: ${m}\n`));
+      process.stderr.write(`report: ${entries.length} images → ${join(out, 'report.html')}\n`);
+      if (opts.json) process.stdout.write(JSON.stringify({ schema: 'fractozone.report-summary/1', out, images: entries.length, report: 'report.html' }, null, 2) + '\n');
+    });
+}
