@@ -1,0 +1,134 @@
+/**
+ * Doc → MeasureParams: the one parameter object the engine (and the CLI) understands. The app and
+ * the CLI give the same numbers for the same image and the same parameter object.
+ */
+import type { MaterialParams, MeasureParams, ScaleParams } from '../../core/pipeline/types.js';
+import type { Doc, MaterialForm, Outline } from './document.js';
+import type { PointPx } from '../../core/pipeline/types.js';
+
+/** Default parameters, identical to core's `defaultParams()` (checked in tests/app/params.test.ts). */
+export function baseParams(): MeasureParams {
+  return {
+    scale: { useMetadata: true },
+    windowUm: null,
+    features: ['localStd', 'localEntropy', 'gradientEnergy'],
+    nRays: 360,
+    exclude: [],
+    dropOutliers: false,
+    outlierK: 3.5,
+    bootstrap: 2000,
+    seed: 1,
+    boundaryPolygon: null,
+    maxPixels: 100_000_000,
+    material: null,
+    strainRatePerS: null,
+    reference: 'L',
+    tolerancePct: 20,
+  };
+}
+
+export function scaleParamsOf(doc: Doc): ScaleParams {
+  const s = doc.scale;
+  switch (s.source) {
+    case 'none':
+      return { useMetadata: false };
+    case 'metadata':
+      return { useMetadata: true };
+    case 'typed':
+      return { pixelSizeUm: s.umPerPx, useMetadata: false };
+    case 'two-point':
+      return { twoPoint: { p0: { ...s.p0 }, p1: { ...s.p1 }, distanceUm: s.distanceUm }, useMetadata: false };
+    case 'scale-bar':
+      return { barLengthUm: s.barLengthUm, useMetadata: false };
+  }
+}
+
+/** Material form → MaterialParams, or null when toughness and strength are not both given. */
+export function materialParamsOf(m: MaterialForm): MaterialParams | null {
+  if (m.toughnessMPaSqrtM === null || m.strengthMPa === null) return null;
+  const out: MaterialParams = {
+    name: m.name || 'typed in the app',
+    toughnessMPaSqrtM: m.toughnessMPaSqrtM,
+    strengthMPa: m.strengthMPa,
+  };
+  if (m.toughnessSdMPaSqrtM !== null) out.toughnessSdMPaSqrtM = m.toughnessSdMPaSqrtM;
+  if (m.strengthSdMPa !== null) out.strengthSdMPa = m.strengthSdMPa;
+  if (m.rateLawA !== null && m.rateLawB !== null) {
+    out.dynamic = { L: { law: 'power', A: m.rateLawA, B: m.rateLawB, source: 'typed in the app' } };
+  }
+  return out;
+}
+
+/**
+ * The full parameter object for a document. `withBoundary` sends the edited boundary polygon
+ * (manual boundary, re-measured without re-segmenting).
+ */
+export function paramsOf(doc: Doc, opts: { withBoundary?: boolean } = {}): MeasureParams {
+  const p = baseParams();
+  p.scale = scaleParamsOf(doc);
+  p.windowUm = doc.settings.windowUm;
+  p.features = [...doc.settings.features];
+  p.nRays = doc.settings.nRays;
+  p.dropOutliers = doc.settings.dropOutliers;
+  p.outlierK = doc.settings.outlierK;
+  p.bootstrap = doc.settings.bootstrap;
+  p.seed = doc.settings.seed;
+  p.exclude = doc.exclude.map(([a, b]) => [a, b] as [number, number]);
+  p.material = materialParamsOf(doc.material);
+  p.strainRatePerS = doc.material.strainRatePerS;
+  p.reference = doc.material.reference;
+  p.tolerancePct = doc.material.tolerancePct;
+  if ((opts.withBoundary ?? doc.boundaryEdited) && doc.boundary) p.boundaryPolygon = doc.boundary.map((q) => ({ x: q.x, y: q.y }));
+  return p;
+}
+
+/** Polygon (px) of an ellipse outline, `n` vertices, counter-clockwise on screen from 0°. */
+export function ellipsePolygon(o: Outline, n = 360): PointPx[] {
+  const out: PointPx[] = [];
+  const a = (o.angleDeg * Math.PI) / 180;
+  const ca = Math.cos(a);
+  const sa = Math.sin(a);
+  for (let i = 0; i < n; i++) {
+    const t = (2 * Math.PI * i) / n;
+    // ellipse in its own frame (x along the major axis), rotated CCW on screen by angleDeg
+    const ex = o.rx * Math.cos(t);
+    const ey = o.ry * Math.sin(t);
+    out.push({ x: o.cx + ex * ca - ey * sa, y: o.cy - (ex * sa + ey * ca) });
+  }
+  return out;
+}
+
+/** Ellipse outline from a polygon: centroid and mean radii along the principal axes (moments). */
+export function outlineFromPolygon(poly: PointPx[]): Outline | null {
+  if (poly.length < 3) return null;
+  let cx = 0;
+  let cy = 0;
+  for (const q of poly) {
+    cx += q.x;
+    cy += q.y;
+  }
+  cx /= poly.length;
+  cy /= poly.length;
+  let sxx = 0;
+  let syy = 0;
+  let sxy = 0;
+  for (const q of poly) {
+    const dx = q.x - cx;
+    const dy = -(q.y - cy);
+    sxx += dx * dx;
+    syy += dy * dy;
+    sxy += dx * dy;
+  }
+  const angle = 0.5 * Math.atan2(2 * sxy, sxx - syy);
+  const c = Math.cos(angle);
+  const s = Math.sin(angle);
+  let ra = 0;
+  let rb = 0;
+  for (const q of poly) {
+    const dx = q.x - cx;
+    const dy = -(q.y - cy);
+    ra = Math.max(ra, Math.abs(dx * c + dy * s));
+    rb = Math.max(rb, Math.abs(-dx * s + dy * c));
+  }
+  return { cx, cy, rx: ra, ry: rb, angleDeg: (angle * 180) / Math.PI };
+}
