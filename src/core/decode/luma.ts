@@ -49,6 +49,17 @@ export function samplesToRaster(
   rowStride = width * spp,
 ): GrayRaster {
   const out = new Float32Array(width * height);
+  if (maxValue <= 255 && samples instanceof Uint8Array) {
+    // 8-bit fast path: per-channel look-up tables, monomorphic Uint8Array access
+    const [lr, lg, lb] = [WR, WG, WB].map((w) => Float64Array.from({ length: 256 }, (_, v) => (colour ? w : 1) * v / maxValue));
+    let o = 0;
+    for (let y = 0; y < height; y++) {
+      let i = y * rowStride;
+      if (colour) for (let x = 0; x < width; x++, i += spp) out[o++] = lr[samples[i]] + lg[samples[i + 1]] + lb[samples[i + 2]];
+      else for (let x = 0; x < width; x++, i += spp) out[o++] = lr[samples[i]];
+    }
+    return createRaster(width, height, out);
+  }
   const inv = 1 / maxValue;
   const wr = WR * inv;
   const wg = WG * inv;
