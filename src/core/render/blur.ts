@@ -26,15 +26,17 @@ export function gaussianBlurInPlace(data: Float32Array, width: number, height: n
       data[o + x] = acc;
     }
   }
-  // columns
-  for (let x = 0; x < width; x++) {
-    for (let i = 0; i < rad; i++) line[i] = data[x];
-    for (let y = 0; y < height; y++) line[rad + y] = data[y * width + x];
-    for (let i = 0; i < rad; i++) line[rad + height + i] = data[(height - 1) * width + x];
-    for (let y = 0; y < height; y++) {
-      let acc = 0;
-      for (let j = 0; j < k.length; j++) acc += k[j] * line[y + j];
-      data[y * width + x] = acc;
+  // columns, processed row by row (cache friendly): out row y = Σ_j k[j] · in row clamp(y + j − rad)
+  const src = data.slice();
+  for (let y = 0; y < height; y++) {
+    const o = y * width;
+    for (let x = 0; x < width; x++) data[o + x] = 0;
+    for (let j = 0; j < k.length; j++) {
+      let yy = y + j - rad;
+      yy = yy < 0 ? 0 : yy >= height ? height - 1 : yy;
+      const kj = k[j];
+      const so = yy * width;
+      for (let x = 0; x < width; x++) data[o + x] += kj * src[so + x];
     }
   }
 }

@@ -240,6 +240,13 @@ export function renderFractograph(options: RenderOptions = {}): RenderResult {
     }
   }
 
+  const hx = (W - 1) / 2;
+  const hy = (H - 1) / 2;
+  const iDiag2 = 1 / (hx * hx + hy * hy);
+  const vig = o.vignetting;
+  const glowPx = Math.max(1.5, 25 / pxUm);
+  const semEdge = o.semEdge * 0.5;
+
   // Pass 2: shading (Lambert + ambient) with a zone albedo
   const az = (o.light.azimuthDeg * Math.PI) / 180;
   const el = (o.light.elevationDeg * Math.PI) / 180;
@@ -267,7 +274,10 @@ export function renderFractograph(options: RenderOptions = {}): RenderResult {
       let nl = (-gx * lx - gy * ly + lz) * inv;
       if (nl < 0) nl = 0;
       const m = blend[i];
-      out[i] = (baseCore + m * (baseRim - baseCore)) * (amb + diff * nl);
+      let v = (baseCore + m * (baseRim - baseCore)) * (amb + diff * nl);
+      if (semEdge > 0) v += semEdge * Math.exp(-Math.max(0, edge[i]) / glowPx);
+      const d2 = ((x - hx) * (x - hx) + (y - hy) * (y - hy)) * iDiag2;
+      out[i] = v * (1 - vig * d2);
     }
   }
 
@@ -281,24 +291,6 @@ export function renderFractograph(options: RenderOptions = {}): RenderResult {
         const i = (cov.y0 + yy) * W + cov.x0 + xx;
         out[i] *= 1 - c.depth * v * (1 - blend[i]);
       }
-    }
-  }
-
-  // Vignetting and SEM edge glow (specimen part only for the glow)
-  const hx = (W - 1) / 2;
-  const hy = (H - 1) / 2;
-  const iDiag2 = 1 / (hx * hx + hy * hy);
-  const vig = o.vignetting;
-  const glowPx = Math.max(1.5, 25 / pxUm);
-  for (let y = 0; y < H; y++) {
-    for (let x = 0; x < W; x++) {
-      const i = y * W + x;
-      const e = edge[i];
-      if (e < -1.5) continue;
-      let v = out[i];
-      if (o.semEdge > 0) v += o.semEdge * 0.5 * Math.exp(-Math.max(0, e) / glowPx);
-      const d2 = ((x - hx) * (x - hx) + (y - hy) * (y - hy)) * iDiag2;
-      out[i] = v * (1 - vig * d2);
     }
   }
 
