@@ -42,11 +42,12 @@ export interface Manifest {
   rows: Map<string, ImageSettings>;
 }
 
-function positiveNumber(text: string, where: string, col: string): number {
+/** `where` names the place, e.g. `manifest.csv line 4, column strain_rate_per_s`. */
+function positiveNumber(text: string, where: string): number {
   const t = text.trim();
   const v = Number(t);
-  if (t === '' || !Number.isFinite(v)) throw new FractozoneError('BAD_MANIFEST', `${where}, column ${col}: "${text}" is not a number`);
-  if (v <= 0) throw new FractozoneError('BAD_MANIFEST', `${where}, column ${col}: ${t} must be greater than 0`);
+  if (t === '' || !Number.isFinite(v)) throw new FractozoneError('BAD_MANIFEST', `${where}: "${text}" is not a number`);
+  if (v <= 0) throw new FractozoneError('BAD_MANIFEST', `${where}: ${t} must be greater than 0`);
   return v;
 }
 
@@ -66,7 +67,7 @@ function settingsFrom(values: Record<string, string>, where: (col: string) => st
     const v = raw.trim();
     if (v === '') continue;
     if (NUMERIC.has(col)) {
-      const x = positiveNumber(raw, where(col), col);
+      const x = positiveNumber(raw, where(col));
       if (col === 'strain_rate_per_s') s.strainRatePerS = x;
       else if (col === 'pixel_size_um') s.pixelSizeUm = x;
       else if (col === 'bar_length_um') s.barLengthUm = x;

@@ -7,9 +7,9 @@
  * or an input file, or be an existing file. OUT inside an input folder is allowed and is skipped by
  * the discovery.
  */
-import { existsSync, realpathSync, statSync } from 'node:fs';
+import { existsSync, readdirSync, realpathSync, rmSync, statSync } from 'node:fs';
 import { availableParallelism } from 'node:os';
-import { dirname, relative, resolve, sep } from 'node:path';
+import { dirname, join, relative, resolve, sep } from 'node:path';
 import { FractozoneError, isFractozoneError } from '../../core/errors.js';
 import { canonicalJson, validateParams } from '../../core/pipeline/params.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
@@ -97,6 +97,14 @@ function applySettings(defaults: MeasureParams, s: ImageSettings, materialRef: s
   return validateParams(p);
 }
 
+/** Temp files of writes cut short by a kill (`.<name>.<pid>.<n>.tmp`, see io.ts writeFileAtomic). */
+function removeStaleTemps(out: string): void {
+  for (const d of [out, join(out, 'results'), join(out, 'overlays')]) {
+    if (!existsSync(d)) continue;
+    for (const n of readdirSync(d)) if (/^\..+\.\d+\.\d+\.tmp$/.test(n)) rmSync(join(d, n), { force: true });
+  }
+}
+
 async function eachLimited<T>(items: readonly T[], limit: number, fn: (item: T) => Promise<void>): Promise<void> {
   let next = 0;
   const runners = Array.from({ length: Math.min(limit, items.length) }, async () => {
@@ -141,6 +149,7 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
   const names = assignSafeNames(inputs);
   const selected = inputs.map((inp, k) => ({ inp, safe: names[k], k })).filter((x) => inShard(x.k, o.shard));
 
+  removeStaleTemps(out);
   writeBatchFile(out, o.defaults);
   const materials = new MaterialResolver();
   const counts: ProgressCounts = { done: 0, total: selected.length, ok: 0, noBand: 0, failed: 0, skipped: 0 };
