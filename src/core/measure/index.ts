@@ -4,6 +4,6 @@ export { rayDirection, angleOf, buildRayIndex, castRay, polygonArea, distanceToP
 export type { RayReason, RayMeasure, PixelSize, MeasureParams, MeasureBandInput, BandProfile } from './band.js';
 export { measureBand, measureFromPolygons, createBandMeasurer, isExcluded } from './band.js';
 export type { WidthStatistics, WidthStatisticsOptions } from './statistics.js';
-export { widthStatistics, lag1Autocorrelation, effectiveSampleSize, robustOutlierFlags } from './statistics.js';
+export { widthStatistics, autocorrelation, lag1Autocorrelation, effectiveSampleSize, effectiveSampleSizeOf, robustOutlierFlags } from './statistics.js';
 export { studentTCdf, studentTInv, incompleteBeta, lnGamma } from './tdist.js';
 export { seededUniform } from './rng.js';

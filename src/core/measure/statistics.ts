@@ -20,8 +20,10 @@ export interface WidthStatisticsOptions {
 export interface WidthStatistics {
   /** Number of finite values used. */
   n: number;
-  /** Effective sample size n·(1−ρ₁)/(1+ρ₁), clamped to [min(n, 2), n]. */
+  /** Effective sample size n/τ (integrated autocorrelation time τ, see effectiveSampleSizeOf). */
   nEff: number;
+  /** Integrated autocorrelation time τ (rays). */
+  tau: number;
   /** Lag-1 autocorrelation of the profile (pairs of neighbouring finite values). */
   rho1: number;
   mean: number;
@@ -44,14 +46,15 @@ export interface WidthStatistics {
 }
 
 /**
- * Lag-1 autocorrelation of an ordered profile. Non-finite entries are gaps: pairs across a gap
- * are skipped. ρ₁ = Σ(xᵢ−x̄)(xᵢ₊₁−x̄) / Σ(xᵢ−x̄)² (the usual biased estimator, e.g. Box & Jenkins,
- * Time Series Analysis, §2.1.5).
+ * Lag-k autocorrelation of an ordered profile. Non-finite entries are gaps: pairs across a gap
+ * are skipped. ρ_k = [Σ(xᵢ−x̄)(xᵢ₊ₖ−x̄) / #pairs] / [Σ(xᵢ−x̄)² / n] (the usual estimator, e.g.
+ * Box & Jenkins, Time Series Analysis, §2.1.5, rescaled to the number of available pairs).
  *
  * @param values - profile in angular order (NaN = gap)
+ * @param lag - k ≥ 1
  * @param circular - whether the last value neighbours the first
  */
-export function lag1Autocorrelation(values: readonly number[], circular = true): number {
+export function autocorrelation(values: readonly number[], lag: number, circular = true): number {
   const fin = values.filter((v) => Number.isFinite(v));
   if (fin.length < 3) return 0;
   const m = ssMean(fin);
@@ -61,25 +64,53 @@ export function lag1Autocorrelation(values: readonly number[], circular = true):
   let num = 0;
   let pairs = 0;
   const n = values.length;
-  const last = circular ? n : n - 1;
+  const last = circular ? n : n - lag;
   for (let i = 0; i < last; i++) {
     const a = values[i];
-    const b = values[(i + 1) % n];
+    const b = values[(i + lag) % n];
     if (Number.isFinite(a) && Number.isFinite(b)) {
       num += (a - m) * (b - m);
       pairs++;
     }
   }
   if (pairs === 0) return 0;
-  // scale the pair sum to the number of values so gaps do not shrink ρ₁
-  return (num / pairs) * fin.length / den;
+  return ((num / pairs) * fin.length) / den;
+}
+
+/** Lag-1 autocorrelation, see {@link autocorrelation}. */
+export function lag1Autocorrelation(values: readonly number[], circular = true): number {
+  return autocorrelation(values, 1, circular);
 }
 
 /**
- * Effective sample size of an AR(1)-like profile: n_eff = n·(1−ρ₁)/(1+ρ₁) (the variance of the
- * mean of an AR(1) series with lag-1 correlation ρ₁ equals σ²/n_eff for large n; e.g. Wilks,
- * Statistical Methods in the Atmospheric Sciences, 3rd ed., eq. 5.12). Negative ρ₁ is taken as 0
- * (no inflation of n), the result is clamped to [min(n, 2), n].
+ * Effective sample size n_eff = n / τ with the integrated autocorrelation time
+ * τ = 1 + 2·Σ_{k≥1} ρ_k, the sum truncated before the first non-positive ρ_k (initial positive
+ * sequence, Geyer, Statistical Science 7 (1992) 473; Sokal's integrated autocorrelation time).
+ * For an AR(1) profile this equals n·(1−ρ₁)/(1+ρ₁) (Wilks, Statistical Methods in the Atmospheric
+ * Sciences, 3rd ed., eq. 5.12); for a smooth periodic profile (an ellipse, a lobed boundary) it
+ * counts about one independent value per half-lobe instead of collapsing to ~1. Clamped to
+ * [min(n, 2), n].
+ *
+ * @param values - profile in angular order (NaN = gap)
+ * @param circular - whether the profile wraps around
+ * @returns { nEff, tau }
+ */
+export function effectiveSampleSizeOf(values: readonly number[], circular = true): { nEff: number; tau: number } {
+  const n = values.filter((v) => Number.isFinite(v)).length;
+  if (n < 3) return { nEff: n, tau: 1 };
+  let tau = 1;
+  const maxLag = Math.floor(values.length / 2);
+  for (let k = 1; k < maxLag; k++) {
+    const r = autocorrelation(values, k, circular);
+    if (!(r > 0)) break;
+    tau += 2 * r;
+  }
+  return { nEff: Math.min(n, Math.max(Math.min(n, 2), n / tau)), tau };
+}
+
+/**
+ * AR(1) effective sample size n·(1−ρ₁)/(1+ρ₁) (Wilks, eq. 5.12); negative ρ₁ is taken as 0, the
+ * result is clamped to [min(n, 2), n].
  *
  * @param n - number of values
  * @param rho1 - lag-1 autocorrelation
@@ -117,7 +148,7 @@ function medianOfSorted(a: Float64Array): number {
 /**
  * Statistics of a width profile: n, mean, median, sample sd, min, max, p05/p95
  * (simple-statistics), a 95 % CI of the mean with Student t on the effective sample size
- * (see {@link effectiveSampleSize}) and a seeded percentile-bootstrap 95 % CI of the median
+ * (see {@link effectiveSampleSizeOf}) and a seeded percentile-bootstrap 95 % CI of the median
  * (Efron & Tibshirani, An Introduction to the Bootstrap, 1993, §13.3). The bootstrap resamples
  * values independently, so for strongly correlated profiles it is also optimistic; it is
  * reported as a descriptive interval.
@@ -131,7 +162,7 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
   const n = fin.length;
   if (n === 0) {
     return {
-      n: 0, nEff: 0, rho1: 0, mean: NaN, median: NaN, sd: NaN, min: NaN, max: NaN, p05: NaN, p95: NaN,
+      n: 0, nEff: 0, tau: 1, rho1: 0, mean: NaN, median: NaN, sd: NaN, min: NaN, max: NaN, p05: NaN, p95: NaN,
       ci95Mean: [NaN, NaN], tQuantile: NaN, ci95MeanNaive: [NaN, NaN], ci95Median: null,
     };
   }
@@ -141,7 +172,7 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
   const median = ssMedian(fin);
   const sd = n > 1 ? sampleStandardDeviation(fin) : 0;
   const rho1 = lag1Autocorrelation(values, opts.circular ?? true);
-  const nEff = effectiveSampleSize(n, rho1);
+  const { nEff, tau } = effectiveSampleSizeOf(values, opts.circular ?? true);
   let ci95Mean: [number, number] = [NaN, NaN];
   let ci95MeanNaive: [number, number] = [NaN, NaN];
   let tq = NaN;
@@ -169,7 +200,7 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
     ci95Median = [quantileSorted(m, 0.025), quantileSorted(m, 0.975)];
   }
   return {
-    n, nEff, rho1, mean, median, sd,
+    n, nEff, tau, rho1, mean, median, sd,
     min: sorted[0], max: sorted[n - 1],
     p05: quantileSorted(sortedArr, 0.05), p95: quantileSorted(sortedArr, 0.95),
     ci95Mean, tQuantile: tq, ci95MeanNaive, ci95Median,

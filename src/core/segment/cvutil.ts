@@ -46,6 +46,41 @@ export function morph(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: numb
   }
 }
 
+/**
+ * Isotropic erosion / dilation of a 0/255 CV_8U Mat in place by a disc of radius r px, through
+ * the Euclidean distance transform (cv.distanceTransform, DIST_L2, 5×5 mask): much faster than
+ * large elliptical kernels in opencv-wasm. Open / close compose the two.
+ */
+export function morphDisc(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: number): void {
+  if (r <= 0) return;
+  if (op === 'open') {
+    morphDisc(m, 'erode', r);
+    morphDisc(m, 'dilate', r);
+    return;
+  }
+  if (op === 'close') {
+    morphDisc(m, 'dilate', r);
+    morphDisc(m, 'erode', r);
+    return;
+  }
+  const cv = getCv();
+  const src = new cv.Mat();
+  const dist = new cv.Mat();
+  try {
+    if (op === 'erode') m.copyTo(src);
+    else cv.bitwise_not(m, src);
+    cv.distanceTransform(src, dist, cv.DIST_L2, 5);
+    const d = dist.data32F as Float32Array;
+    const o = m.data as Uint8Array;
+    // erode: keep pixels farther than r from the outside; dilate: add pixels within r of the inside
+    if (op === 'erode') for (let i = 0; i < o.length; i++) o[i] = d[i] > r ? 255 : 0;
+    else for (let i = 0; i < o.length; i++) o[i] = d[i] <= r ? 255 : 0;
+  } finally {
+    src.delete();
+    dist.delete();
+  }
+}
+
 /** Fill holes of a mask in place: background not 4-connected to the frame becomes inside. */
 export function fillHoles(mask: Mask): void {
   const { width: W, height: H, data } = mask;

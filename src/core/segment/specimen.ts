@@ -6,7 +6,7 @@ import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { Point } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morph, otsuThreshold, outerContour, quantile, rasterToMat } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantile, rasterToMat } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 
 /** Options of {@link findSpecimen}. */
@@ -100,12 +100,12 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
     const mm = maskToMat(m);
     try {
       const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
-      morph(mm, 'close', rad * 2);
+      morphDisc(mm, 'close', rad * 2);
       const tmp = matToMask(mm);
       fillHoles(tmp);
       const mm2 = maskToMat(tmp);
       try {
-        morph(mm2, 'open', rad * 2);
+        morphDisc(mm2, 'open', rad * 2);
         coarse = matToMask(mm2);
       } finally {
         mm2.delete();

@@ -1,0 +1,323 @@
+/**
+ * Sub-pixel boundary refinement along rays on a feature that is LINEAR in the area fraction of
+ * the two textures (box average of a pointwise energy), and sub-pixel outer-edge refinement on
+ * the lightly smoothed intensity.
+ *
+ * Why: a threshold on a nonlinear windowed feature (std, log-variance, entropy) at the class
+ * midpoint is reached when only a small part of the window is rough (with σ_rough = 10·σ_smooth
+ * the log-midpoint is reached at ~9 % rough area), which shifts the boundary by ~0.4 window into
+ * the rim. The box mean of a pointwise energy e = (I − m₅(I))² is f·E_core + (1 − f)·E_rim for a
+ * rough area fraction f of the window, so its midpoint is crossed where f = ½, i.e. on the
+ * boundary itself (straight boundary, symmetric window).
+ */
+import { getCv } from '../cv.js';
+import { FractozoneError } from '../errors.js';
+import { createRaster, type GrayRaster } from '../image/raster.js';
+import { type Point, buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
+import { rasterToMat } from './cvutil.js';
+
+/**
+ * Box-averaged pointwise high-pass energy: e = (I − boxMean_hp(I))², then the box mean of e over
+ * `windowPx` (reflect-101 borders). Linear in the area fraction of two locally homogeneous
+ * textures inside the window.
+ *
+ * @param r - gray raster 0..1
+ * @param windowPx - side of the averaging window, px (odd is best)
+ * @param highPassPx - side of the local mean removed before squaring, px (default 5)
+ * @returns energy raster, (gray level)²
+ */
+export function boxEnergy(r: GrayRaster, windowPx: number, highPassPx = 5): GrayRaster {
+  const cv = getCv();
+  const w = Math.max(1, Math.round(windowPx));
+  const img = rasterToMat(r);
+  const m = new cv.Mat();
+  try {
+    cv.boxFilter(img, m, -1, new cv.Size(highPassPx, highPassPx), new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
+    cv.subtract(img, m, img);
+    cv.multiply(img, img, img);
+    cv.boxFilter(img, m, -1, new cv.Size(w, w), new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
+    return createRaster(r.width, r.height, Float32Array.from(m.data32F as Float32Array));
+  } finally {
+    img.delete();
+    m.delete();
+  }
+}
+
+/** Bilinear sample of a raster at (x, y) px; clamps at the border. */
+function sample(r: GrayRaster, x: number, y: number): number {
+  const W = r.width;
+  const H = r.height;
+  const xc = Math.min(W - 1, Math.max(0, x));
+  const yc = Math.min(H - 1, Math.max(0, y));
+  const x0 = Math.min(W - 2, Math.floor(xc));
+  const y0 = Math.min(H - 2, Math.floor(yc));
+  const fx = xc - x0;
+  const fy = yc - y0;
+  const d = r.data;
+  const i = y0 * W + x0;
+  return (d[i] * (1 - fx) + d[i + 1] * fx) * (1 - fy) + (d[i + W] * (1 - fx) + d[i + W + 1] * fx) * fy;
+}
+
+function median(a: number[]): number {
+  if (!a.length) return NaN;
+  const s = [...a].sort((p, q) => p - q);
+  const n = s.length;
+  return n % 2 ? s[(n - 1) / 2] : 0.5 * (s[n / 2 - 1] + s[n / 2]);
+}
+
+/** Circular running median of a radius profile (null entries are skipped; they stay null). */
+function circularMedian(v: (number | null)[], k: number): (number | null)[] {
+  const n = v.length;
+  const h = Math.floor(k / 2);
+  return v.map((x, i) => {
+    if (x === null) return null;
+    const w: number[] = [];
+    for (let j = -h; j <= h; j++) {
+      const y = v[(i + j + n) % n];
+      if (y !== null) w.push(y);
+    }
+    return median(w);
+  });
+}
+
+/** Options of {@link refineBoundary}. */
+export interface RefineBoundaryOptions {
+  /** Averaging window of the energy, px (use the texture window). */
+  windowPx: number;
+  /** Number of rays (default 360). */
+  nRays?: number;
+  /** Angular sector (degrees) over which the rim and core levels are pooled (default 20°). */
+  sectorDeg?: number;
+  /** Search half-range around the coarse boundary, in windows (default 1.5). */
+  searchWindows?: number;
+  /** Running-median length along θ, rays (default 5). */
+  medianRays?: number;
+  /** Precomputed box-averaged pointwise energy (full resolution); computed with {@link boxEnergy} otherwise. */
+  energy?: GrayRaster;
+}
+
+/** Result of {@link refineBoundary}. */
+export interface RefinedBoundary {
+  /** Refined boundary, one vertex per ray, px. */
+  polygon: Point[];
+  thetaDeg: number[];
+  /** Refined radii from the centre (null where the coarse boundary was missing). */
+  radiiPx: (number | null)[];
+  coarseRadiiPx: (number | null)[];
+  /** Rays on which no midpoint crossing was found (the coarse radius was kept). */
+  nFallback: number;
+}
+
+/**
+ * Refine a coarse rim/core boundary along rays. For each ray θ (project convention) the energy
+ * profile E(t) is sampled every 0.5 px (bilinear). Rim level: median of E between 0.75 window
+ * outside the coarse boundary and 0.75 window inside the outer edge; core level: median of E
+ * between 2 and 0.75 windows inside the coarse boundary; both pooled (median) over the rays of a
+ * `sectorDeg` sector, so a slanted rim with changing shading is handled. The boundary is put where
+ * E crosses the midpoint (E_rim + E_core)/2 going outward from core to rim, the crossing nearest
+ * the coarse boundary within ± searchWindows windows, with linear sub-pixel interpolation; then a
+ * circular running median over `medianRays` rays rejects outliers.
+ *
+ * @param r - gray raster 0..1 (full resolution)
+ * @param outer - specimen outer contour, px
+ * @param coarse - coarse boundary polygon, px
+ * @param center - ray origin, px
+ * @param opts - window, rays, sector, precomputed energy
+ * @returns the refined polygon and radii
+ */
+export function refineBoundary(
+  r: GrayRaster,
+  outer: readonly Point[],
+  coarse: readonly Point[],
+  center: Point,
+  opts: RefineBoundaryOptions,
+): RefinedBoundary {
+  if (!(opts.windowPx >= 1)) throw new FractozoneError('BAD_PARAMETER', 'The refinement window must be at least 1 px.');
+  const nRays = opts.nRays ?? 360;
+  const W = opts.windowPx;
+  const E = opts.energy ?? boxEnergy(r, W);
+  if (E.width !== r.width || E.height !== r.height) throw new FractozoneError('BAD_PARAMETER', 'The energy raster must have the image size.');
+  const oIdx = buildRayIndex(outer, center);
+  const cIdx = buildRayIndex(coarse, center);
+  const step = 0.5;
+  const thetas: number[] = [];
+  const ro: (number | null)[] = [];
+  const rc: (number | null)[] = [];
+  const profiles: Float64Array[] = [];
+  const rimL: number[] = [];
+  const coreL: number[] = [];
+  for (let i = 0; i < nRays; i++) {
+    const th = (360 * i) / nRays;
+    thetas.push(th);
+    const ho = castRay(oIdx, th);
+    const hc = castRay(cIdx, th);
+    const o = ho.length ? ho[ho.length - 1] : null;
+    const c = hc.length ? hc[hc.length - 1] : null;
+    ro.push(o);
+    rc.push(c);
+    const d = rayDirection(th);
+    const len = o ?? 0;
+    const p = new Float64Array(Math.max(1, Math.floor(len / step) + 1));
+    for (let k = 0; k < p.length; k++) p[k] = sample(E, center.x + k * step * d.x, center.y + k * step * d.y);
+    profiles.push(p);
+    let rimV = NaN;
+    let coreV = NaN;
+    if (o !== null && c !== null) {
+      const at = (t0: number, t1: number): number[] => {
+        const out: number[] = [];
+        for (let k = Math.max(0, Math.ceil(t0 / step)); k <= Math.min(p.length - 1, Math.floor(t1 / step)); k++) out.push(p[k]);
+        return out;
+      };
+      let rs = at(c + 0.75 * W, o - 0.75 * W);
+      if (!rs.length) {
+        const alt = at(c + 0.25 * W, o - 0.5 * W);
+        rs = alt.length ? [Math.min(...alt)] : [];
+      }
+      rimV = rs.length ? median(rs) : NaN;
+      const cs = at(c - 2 * W, c - 0.75 * W);
+      coreV = cs.length ? median(cs) : NaN;
+    }
+    rimL.push(rimV);
+    coreL.push(coreV);
+  }
+  const halfSector = Math.max(0, Math.round(((opts.sectorDeg ?? 20) / 2) * (nRays / 360)));
+  const pooled = (arr: number[], i: number): number => {
+    const w: number[] = [];
+    for (let j = -halfSector; j <= halfSector; j++) {
+      const v = arr[(i + j + nRays) % nRays];
+      if (Number.isFinite(v)) w.push(v);
+    }
+    return median(w);
+  };
+  const search = (opts.searchWindows ?? 1.5) * W;
+  const refined: (number | null)[] = [];
+  let nFallback = 0;
+  for (let i = 0; i < nRays; i++) {
+    const c = rc[i];
+    const o = ro[i];
+    if (c === null || o === null) {
+      refined.push(null);
+      continue;
+    }
+    const eR = pooled(rimL, i);
+    const eC = pooled(coreL, i);
+    if (!(Number.isFinite(eR) && Number.isFinite(eC) && eC > eR)) {
+      refined.push(c);
+      nFallback++;
+      continue;
+    }
+    const mid = 0.5 * (eR + eC);
+    const p = profiles[i];
+    const k0 = Math.max(1, Math.floor(Math.max(0, c - search) / step));
+    const k1 = Math.min(p.length - 1, Math.ceil(Math.min(o - 0.5 * W, c + search) / step));
+    let best: number | null = null;
+    for (let k = k0; k <= k1; k++) {
+      const a = p[k - 1] - mid;
+      const b = p[k] - mid;
+      if (a >= 0 && b < 0) {
+        const t = (k - 1 + a / (a - b)) * step;
+        if (best === null || Math.abs(t - c) < Math.abs(best - c)) best = t;
+      }
+    }
+    if (best === null) {
+      nFallback++;
+      refined.push(c);
+    } else refined.push(best);
+  }
+  const smooth = circularMedian(refined, opts.medianRays ?? 5);
+  const polygon: Point[] = [];
+  smooth.forEach((rad, i) => {
+    if (rad === null) return;
+    const d = rayDirection(thetas[i]);
+    polygon.push({ x: center.x + rad * d.x, y: center.y + rad * d.y });
+  });
+  return { polygon, thetaDeg: thetas, radiiPx: smooth, coarseRadiiPx: rc, nFallback };
+}
+
+/** Options of {@link refineOuterEdge}. */
+export interface RefineOuterOptions {
+  nRays?: number;
+  /** Gaussian σ of the intensity smoothing, px (default 1). */
+  sigmaPx?: number;
+  /** Half-range of the search around the contour, px (default 4). */
+  searchPx?: number;
+}
+
+/**
+ * Sub-pixel outer edge along rays: the lightly smoothed intensity is sampled along each ray around
+ * the contour radius; inside / outside levels are the medians over 3–7 px on either side; the
+ * edge is the midpoint crossing nearest the contour (linear interpolation). When no crossing is
+ * found the contour radius + 0.5 px is used (the contour runs through the centres of the outermost
+ * specimen pixels, half a pixel inside the edge).
+ *
+ * @param r - gray raster 0..1
+ * @param contour - specimen outer contour, px
+ * @param center - ray origin, px
+ * @param opts - rays, smoothing, search range
+ * @returns polygon with one vertex per ray (px), radii, and the number of fallbacks
+ */
+export function refineOuterEdge(
+  r: GrayRaster,
+  contour: readonly Point[],
+  center: Point,
+  opts: RefineOuterOptions = {},
+): { polygon: Point[]; radiiPx: (number | null)[]; nFallback: number } {
+  const cv = getCv();
+  const nRays = opts.nRays ?? 360;
+  const sig = opts.sigmaPx ?? 1;
+  const search = opts.searchPx ?? 4;
+  const m = rasterToMat(r);
+  let sm: GrayRaster;
+  try {
+    cv.GaussianBlur(m, m, new cv.Size(0, 0), sig, sig, cv.BORDER_REFLECT_101);
+    sm = createRaster(r.width, r.height, Float32Array.from(m.data32F as Float32Array));
+  } finally {
+    m.delete();
+  }
+  const idx = buildRayIndex(contour, center);
+  const radii: (number | null)[] = [];
+  const polygon: Point[] = [];
+  let nFallback = 0;
+  for (let i = 0; i < nRays; i++) {
+    const th = (360 * i) / nRays;
+    const h = castRay(idx, th);
+    if (!h.length) {
+      radii.push(null);
+      continue;
+    }
+    const c = h[h.length - 1];
+    const d = rayDirection(th);
+    const at = (t: number): number => sample(sm, center.x + t * d.x, center.y + t * d.y);
+    const ins: number[] = [];
+    const outs: number[] = [];
+    for (let t = 3; t <= 7; t += 0.5) {
+      ins.push(at(c - t));
+      outs.push(at(c + t));
+    }
+    const lin = median(ins);
+    const lout = median(outs);
+    const mid = 0.5 * (lin + lout);
+    let best: number | null = null;
+    const x = center.x + (c + 2) * d.x;
+    const y = center.y + (c + 2) * d.y;
+    const inFrame = x >= 0 && y >= 0 && x <= r.width - 1 && y <= r.height - 1;
+    if (inFrame && Math.abs(lin - lout) > 1e-3) {
+      let prev = at(c - search) - mid;
+      for (let t = c - search + 0.25; t <= c + search + 1e-9; t += 0.25) {
+        const v = at(t) - mid;
+        if ((prev >= 0 && v < 0) || (prev <= 0 && v > 0)) {
+          const tc = t - 0.25 + 0.25 * (prev / (prev - v));
+          if (best === null || Math.abs(tc - c - 0.5) < Math.abs(best - c - 0.5)) best = tc;
+        }
+        prev = v;
+      }
+    }
+    if (best === null) {
+      nFallback++;
+      best = inFrame ? c + 0.5 : c;
+    }
+    radii.push(best);
+    polygon.push({ x: center.x + best * d.x, y: center.y + best * d.y });
+  }
+  return { polygon, radiiPx: radii, nFallback };
+}
