@@ -6,7 +6,9 @@ import { register as fitRate } from './fit-rate.js';
 import { register as batch } from './batch.js';
 import { register as merge } from './merge.js';
 import { register as report } from './report.js';
+import { register as info } from './info.js';
+import { register as render } from './render.js';
 
 export type RegisterCommand = (program: Command) => void;
 
-export const commands: RegisterCommand[] = [batch, merge, report, criticalDistance, fitNotches, fitRate];
+export const commands: RegisterCommand[] = [batch, merge, report, criticalDistance, fitNotches, fitRate, info, render];

@@ -3,3 +3,4 @@ export { encodePng, pxPerMetre, crc32, type PngImageInput, type PngEncodeOptions
 export { encodeJpeg, type JpegImageInput } from './jpeg.js';
 export { encodeTiff, type TiffImageInput } from './tiff.js';
 export { toUint16 } from './quantise.js';
+export { encodeGrayRaster, type EncodeRasterOptions, type RasterFormat } from './raster.js';

@@ -195,7 +195,7 @@ export function renderFractograph(options: RenderOptions = {}): RenderResult {
       let rb = R;
       if (rim) {
         const w = widthLut[li] + lt * (widthLut[li + 1] - widthLut[li]);
-        if (w > 0) {
+        if (w > 1e-6) {
           rb = R - w;
           let q = 0.5 + (r - rb) / T;
           q = q < 0 ? 0 : q > 1 ? 1 : q;
@@ -397,7 +397,7 @@ function computeTruth(o: ResolvedRenderOptions, g: Geometry, bar: ScaleBarTruth 
     const isCut = !inFrame || oPx + 1 > tMax;
     outer.push(r4(oPx));
     cut.push(isCut);
-    const isAbsent = !(w > 0);
+    const isAbsent = !(w > 1e-6); // same threshold as the pixel loop
     absent.push(isAbsent);
     if (isAbsent) {
       boundary.push(null);
