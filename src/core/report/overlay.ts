@@ -1,0 +1,152 @@
+/**
+ * Overlay picture of a measurement: the fractograph in gray, the outer edge, the rim/core boundary,
+ * a sample of rays, the detected scale bar, a width label and a drawn scale bar of our own.
+ * Pure: returns an RGBA image (the shell encodes it as PNG). Large images are drawn at reduced size
+ * (long side ≤ `maxSidePx`, default 1600 px) so an overlay stays a few MB at most.
+ *
+ * Colours (our own choice): outer edge sky blue, boundary amber, valid rays white, invalid or
+ * excluded rays red, outlier rays magenta, detected scale bar box green.
+ */
+import type { GrayRaster } from '../image/raster.js';
+import type { RgbaImage, Ink, PointPx } from '../draw/index.js';
+import { createRgbaImage, drawLine, drawPolyline, drawText, fillRect, measureText, fillDisc } from '../draw/index.js';
+
+export interface OverlayRay {
+  angleDeg: number;
+  outerRadiusPx: number | null;
+  boundaryRadiusPx: number | null;
+  valid: boolean;
+  outlier?: boolean;
+  reason?: string;
+}
+
+export interface OverlayInput {
+  raster: GrayRaster;
+  umPerPx: number;
+  center: PointPx | null;
+  outer: readonly PointPx[] | null;
+  boundary: readonly PointPx[] | null;
+  rays: readonly OverlayRay[];
+  /** Detected scale bar (full-resolution px). */
+  scaleBar?: { x0: number; y0: number; x1: number; y1: number; thicknessPx?: number } | null;
+  /** Lines of text for the label box (units included by the caller). */
+  label: string[];
+  maxSidePx?: number;
+  /** Draw every k-th ray (default: about every 10°). */
+  rayStep?: number;
+}
+
+const OUTER: Ink = { rgb: [80, 190, 255] };
+const BOUNDARY: Ink = { rgb: [255, 176, 32] };
+const RAY_OK: Ink = { rgb: [255, 255, 255], alpha: 0.75 };
+const RAY_BAD: Ink = { rgb: [235, 60, 60], alpha: 0.85 };
+const RAY_OUTLIER: Ink = { rgb: [230, 80, 230], alpha: 0.9 };
+const BAR_BOX: Ink = { rgb: [60, 220, 110] };
+
+/** Round number (1, 2 or 5 × 10^k) not above `v`. */
+export function niceLength(v: number): number {
+  if (!(v > 0)) return 0;
+  const e = Math.pow(10, Math.floor(Math.log10(v)));
+  const m = v / e;
+  return (m >= 5 ? 5 : m >= 2 ? 2 : 1) * e;
+}
+
+function lengthLabel(um: number): string {
+  return um >= 1000 ? `${um / 1000} mm` : `${um} µm`;
+}
+
+/** Area-average downsampling of a gray raster into an RGBA image by an integer-free factor. */
+function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
+  const img = createRgbaImage(outW, outH, [0, 0, 0, 255]);
+  const fx = r.width / outW;
+  const fy = r.height / outH;
+  const d = img.data;
+  for (let oy = 0; oy < outH; oy++) {
+    const y0 = Math.floor(oy * fy);
+    const y1 = Math.max(y0 + 1, Math.floor((oy + 1) * fy));
+    for (let ox = 0; ox < outW; ox++) {
+      const x0 = Math.floor(ox * fx);
+      const x1 = Math.max(x0 + 1, Math.floor((ox + 1) * fx));
+      let s = 0;
+      for (let y = y0; y < y1; y++) {
+        const row = y * r.width;
+        for (let x = x0; x < x1; x++) s += r.data[row + x];
+      }
+      const v = Math.max(0, Math.min(255, Math.round((s / ((y1 - y0) * (x1 - x0))) * 255)));
+      const o = (oy * outW + ox) * 4;
+      d[o] = v;
+      d[o + 1] = v;
+      d[o + 2] = v;
+    }
+  }
+  return img;
+}
+
+/** Draws the overlay; see the module comment for what is drawn. */
+export function renderOverlay(o: OverlayInput): RgbaImage {
+  const maxSide = o.maxSidePx ?? 1600;
+  const k = Math.min(1, maxSide / Math.max(o.raster.width, o.raster.height));
+  const W = Math.max(1, Math.round(o.raster.width * k));
+  const H = Math.max(1, Math.round(o.raster.height * k));
+  const img = grayToRgba(o.raster, W, H);
+  // Map full-resolution pixel centres to overlay pixel centres.
+  const m = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * k - 0.5, y: (p.y + 0.5) * k - 0.5 });
+  const lw = Math.max(1.5, Math.min(W, H) / 500);
+
+  if (o.center && o.rays.length) {
+    const step = o.rayStep ?? Math.max(1, Math.round(o.rays.length / 36));
+    for (let i = 0; i < o.rays.length; i += step) {
+      const r = o.rays[i];
+      const t = (r.angleDeg * Math.PI) / 180;
+      const dx = Math.cos(t);
+      const dy = -Math.sin(t);
+      const rOut = r.outerRadiusPx;
+      if (rOut === null || !Number.isFinite(rOut)) continue;
+      const rIn = r.boundaryRadiusPx !== null && Number.isFinite(r.boundaryRadiusPx) ? r.boundaryRadiusPx : rOut * 0.8;
+      const a = m({ x: o.center.x + dx * rIn, y: o.center.y + dy * rIn });
+      const b = m({ x: o.center.x + dx * rOut, y: o.center.y + dy * rOut });
+      const ink = !r.valid ? RAY_BAD : r.outlier ? RAY_OUTLIER : RAY_OK;
+      drawLine(img, a.x, a.y, b.x, b.y, lw * 0.8, ink);
+    }
+  }
+  if (o.outer && o.outer.length > 2) drawPolyline(img, o.outer.map(m), lw, OUTER, true);
+  if (o.boundary && o.boundary.length > 2) drawPolyline(img, o.boundary.map(m), lw, BOUNDARY, true);
+  if (o.center) {
+    const c = m(o.center);
+    fillDisc(img, c.x, c.y, lw * 2, BOUNDARY);
+  }
+  if (o.scaleBar) {
+    const b = o.scaleBar;
+    const t = (b.thicknessPx ?? 4) / 2 + 4 / k;
+    const p0 = m({ x: Math.min(b.x0, b.x1) - t, y: Math.min(b.y0, b.y1) - t });
+    const p1 = m({ x: Math.max(b.x0, b.x1) + t, y: Math.max(b.y0, b.y1) + t });
+    drawPolyline(img, [p0, { x: p1.x, y: p0.y }, p1, { x: p0.x, y: p1.y }], Math.max(1, lw * 0.7), BAR_BOX, true);
+  }
+
+  // Label box, top-left.
+  const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
+  const lineH = 9 * ts;
+  const textW = Math.max(0, ...o.label.map((s) => measureText(s, ts).width));
+  if (o.label.length) {
+    fillRect(img, 0, 0, Math.min(W - 1, textW + 8 * ts), Math.min(H - 1, o.label.length * lineH + 6 * ts), { rgb: [0, 0, 0], alpha: 0.65 });
+    o.label.forEach((s, i) => drawText(img, s, 4 * ts, 3 * ts + i * lineH, ts, { rgb: [255, 255, 255] }));
+  }
+
+  // Our own scale bar, bottom-left on a dark plate: a round length near 1/5 of the width.
+  const umPerOverlayPx = o.umPerPx / k;
+  const lenUm = niceLength((W / 5) * umPerOverlayPx);
+  if (lenUm > 0 && Number.isFinite(lenUm)) {
+    const lenPx = lenUm / umPerOverlayPx;
+    const txt = lengthLabel(lenUm);
+    const plateW = Math.max(lenPx, measureText(txt, ts).width) + 8 * ts;
+    const plateH = 9 * ts + 4 * ts + 6 * ts;
+    const x0 = 4 * ts;
+    const y0 = H - plateH - 4 * ts;
+    if (y0 > 0 && x0 + plateW < W) {
+      fillRect(img, x0, y0, x0 + plateW, y0 + plateH, { rgb: [0, 0, 0], alpha: 0.65 });
+      drawText(img, txt, x0 + 4 * ts, y0 + 2 * ts, ts, { rgb: [255, 255, 255] });
+      fillRect(img, x0 + 4 * ts, y0 + 11 * ts, x0 + 4 * ts + lenPx - 1, y0 + 14 * ts, { rgb: [255, 255, 255] });
+    }
+  }
+  return img;
+}
