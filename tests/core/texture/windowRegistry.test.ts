@@ -1,0 +1,115 @@
+import { describe, expect, it } from 'vitest';
+import { isFractozoneError } from '../../../src/core/errors.js';
+import { createRaster } from '../../../src/core/image/raster.js';
+import {
+  CORE_FEATURES,
+  FEATURES,
+  computeFeature,
+  computeFeaturesAt,
+  defaultWindowUm,
+  downsample,
+  gradientEnergy,
+  localEntropy,
+  localStd,
+  windowPxFromUm,
+} from '../../../src/core/texture/index.js';
+
+function codeOf(f: () => unknown): string | undefined {
+  try {
+    f();
+  } catch (e) {
+    return isFractozoneError(e) ? e.code : `not a FractozoneError: ${String(e)}`;
+  }
+  return undefined;
+}
+
+function seeded(W: number, H: number, seed: number) {
+  let a = seed >>> 0;
+  const d = new Float32Array(W * H);
+  for (let i = 0; i < d.length; i++) {
+    a = (Math.imul(a, 1664525) + 1013904223) >>> 0;
+    d[i] = a / 4294967296;
+  }
+  return createRaster(W, H, d);
+}
+
+describe('windowPxFromUm', () => {
+  it('rounds to the nearest odd pixel count, at least 3', () => {
+    expect(windowPxFromUm(60, 4)).toBe(15); // 15 px
+    expect(windowPxFromUm(64, 4)).toBe(17); // 16 px: tie between 15 and 17 goes up
+    expect(windowPxFromUm(62, 4)).toBe(15); // 15.5 px → 15
+    expect(windowPxFromUm(67, 4)).toBe(17); // 16.75 px → 17
+    expect(windowPxFromUm(1, 4)).toBe(3);
+  });
+  it('refuses non-positive lengths and pixel sizes', () => {
+    expect(codeOf(() => windowPxFromUm(0, 4))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => windowPxFromUm(Number.NaN, 4))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => windowPxFromUm(10, 0))).toBe('BAD_SCALE');
+    expect(codeOf(() => windowPxFromUm(10, -1))).toBe('BAD_SCALE');
+  });
+});
+
+describe('defaultWindowUm', () => {
+  it('is 1/40 of the specimen radius when that spans 7..31 px', () => {
+    // radius 4 mm, 10 µm/px → 100 µm = 10 px
+    expect(defaultWindowUm({ umPerPx: 10, specimenRadiusUm: 4000 })).toBeCloseTo(100, 9);
+  });
+  it('is clamped to 7 px and 31 px at working resolution', () => {
+    expect(defaultWindowUm({ umPerPx: 10, specimenRadiusUm: 400 })).toBeCloseTo(70, 9); // 1 px → 7 px
+    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000 })).toBeCloseTo(31, 9); // 100 px → 31 px
+    // downsampled by 4: working pixel 4 µm, 100 µm = 25 px is inside the clamp
+    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000, scaleFactor: 4 })).toBeCloseTo(100, 9);
+  });
+  it('estimates the radius as 0.4 × the smaller image side when unknown', () => {
+    // 0.4 × 3000 px × 2 µm = 2400 µm → 60 µm = 30 px
+    expect(defaultWindowUm({ umPerPx: 2, imageWidthPx: 4000, imageHeightPx: 3000 })).toBeCloseTo(60, 9);
+  });
+  it('refuses missing or bad inputs', () => {
+    expect(codeOf(() => defaultWindowUm({ umPerPx: 2 }))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => defaultWindowUm({ umPerPx: 0, specimenRadiusUm: 10 }))).toBe('BAD_SCALE');
+    expect(codeOf(() => defaultWindowUm({ umPerPx: 1, specimenRadiusUm: -5 }))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 5, scaleFactor: 0.5 }))).toBe('BAD_PARAMETER');
+  });
+});
+
+describe('feature registry', () => {
+  const r = seeded(40, 30, 5);
+  it('registers the three core features, each with unit and description', () => {
+    for (const n of CORE_FEATURES) {
+      expect(FEATURES[n].name).toBe(n);
+      expect(FEATURES[n].unit.length).toBeGreaterThan(0);
+      expect(FEATURES[n].description.length).toBeGreaterThan(0);
+    }
+    expect(FEATURES.gradientEnergy.linearInAreaFraction).toBe(true);
+    expect(FEATURES.localStd.linearInAreaFraction).toBe(false);
+  });
+  it('computeFeature dispatches to the feature functions', () => {
+    expect(computeFeature('localStd', r, 5).data).toEqual(localStd(r, 5).data);
+    expect(computeFeature('gradientEnergy', r, 7).data).toEqual(gradientEnergy(r, 7).data);
+    expect(computeFeature('localEntropy', r, 5, { bins: 16 }).data).toEqual(localEntropy(r, 40, 30, 5, { bins: 16 }).data);
+  });
+  it('refuses an unknown feature name', () => {
+    expect(codeOf(() => computeFeature('roughness', r, 5))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => computeFeaturesAt(r, { scaleFactor: 2, windowPx: 3, features: ['nope' as 'localStd'] }))).toBe('BAD_PARAMETER');
+  });
+  it('computeFeaturesAt works on the area-averaged raster and reports the factor', () => {
+    const res = computeFeaturesAt(r, { scaleFactor: 2, windowPx: 5 });
+    expect([res.raster.width, res.raster.height]).toEqual([20, 15]);
+    expect(res.scaleX).toBe(2);
+    expect(res.scaleY).toBe(2);
+    expect(Object.keys(res.features).sort()).toEqual([...CORE_FEATURES].sort());
+    expect(res.features.localStd?.data).toEqual(localStd(downsample(r, 2), 5).data);
+  });
+});
+
+describe('downsample', () => {
+  it('integer factor = mean of k×k blocks; factor 1 returns the input', () => {
+    const r = seeded(6, 4, 8);
+    const d = downsample(r, 2);
+    // area average, definition: block (1, 0) = pixels x 2..3, y 0..1
+    const m = (r.data[2] + r.data[3] + r.data[8] + r.data[9]) / 4;
+    expect(d.data[1]).toBeCloseTo(m, 6);
+    expect(downsample(r, 1)).toBe(r);
+    expect(codeOf(() => downsample(r, 0.5))).toBe('BAD_PARAMETER');
+  });
+});
