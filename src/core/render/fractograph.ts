@@ -219,8 +219,10 @@ export function renderFractograph(options: RenderOptions = {}): RenderResult {
           const sa = Y / (r + 1e-9);
           const rr = ridgeRing + r * ridgeLen;
           const rn = gradientNoise(tRidge, ca * rr, sa * rr) + 0.5 * gradientNoise(tRidge, ca * rr * 2.1 + 5.3, sa * rr * 2.1);
-          const fade = r / g.R0;
-          hc += core.ridgeUm * rn * (0.3 + 0.7 * fade * fade);
+          // ridges fade out toward the centre (where the rays would converge into a star)
+          let fade = (r / g.R0 - 0.15) / 0.5;
+          fade = fade < 0 ? 0 : fade > 1 ? 1 : fade;
+          hc += core.ridgeUm * rn * fade * fade * (3 - 2 * fade);
         }
         h += (1 - m) * hc;
       }
