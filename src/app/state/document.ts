@@ -33,6 +33,8 @@ export type ScaleChoice =
 
 export interface MaterialForm {
   name: string;
+  /** A material record read from a material sheet (passed whole to the engine), or null. */
+  sheet: import('../../core/tcd/materials.js').Material | null;
   toughnessMPaSqrtM: number | null;
   toughnessSdMPaSqrtM: number | null;
   strengthMPa: number | null;
@@ -101,6 +103,7 @@ export function defaultSettings(): AnalysisSettings {
 export function defaultMaterial(): MaterialForm {
   return {
     name: '',
+    sheet: null,
     toughnessMPaSqrtM: null,
     toughnessSdMPaSqrtM: null,
     strengthMPa: null,

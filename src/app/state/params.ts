@@ -43,18 +43,29 @@ export function scaleParamsOf(doc: Doc): ScaleParams {
   }
 }
 
-/** Material form → MaterialParams, or null when toughness and strength are not both given. */
+/**
+ * Material form → MaterialParams (typed K_c and σ_0 with their sd), or null when the two are not
+ * both given. A typed strain-rate law L = A·ε̇^B (µm) travels inside a material record, and a
+ * material read from a sheet is passed whole (typed values override it, as on the command line).
+ */
 export function materialParamsOf(m: MaterialForm): MaterialParams | null {
-  if (m.toughnessMPaSqrtM === null || m.strengthMPa === null) return null;
-  const out: MaterialParams = {
-    name: m.name || 'typed in the app',
-    toughnessMPaSqrtM: m.toughnessMPaSqrtM,
-    strengthMPa: m.strengthMPa,
-  };
-  if (m.toughnessSdMPaSqrtM !== null) out.toughnessSdMPaSqrtM = m.toughnessSdMPaSqrtM;
-  if (m.strengthSdMPa !== null) out.strengthSdMPa = m.strengthSdMPa;
-  if (m.rateLawA !== null && m.rateLawB !== null) {
-    out.dynamic = { L: { law: 'power', A: m.rateLawA, B: m.rateLawB, source: 'typed in the app' } };
+  const hasTyped = m.toughnessMPaSqrtM !== null && m.strengthMPa !== null;
+  if (!hasTyped && !m.sheet) return null;
+  const out: MaterialParams = {};
+  const source = 'typed in the app';
+  if (m.toughnessMPaSqrtM !== null) out.toughness = { value: m.toughnessMPaSqrtM, ...(m.toughnessSdMPaSqrtM !== null ? { sd: m.toughnessSdMPaSqrtM } : {}), source };
+  if (m.strengthMPa !== null) out.strength = { value: m.strengthMPa, ...(m.strengthSdMPa !== null ? { sd: m.strengthSdMPa } : {}), source };
+  const base = m.sheet ?? null;
+  if (base) out.material = structuredClone(base);
+  if (m.rateLawA !== null && m.rateLawB !== null && hasTyped) {
+    const mat = out.material ?? {
+      name: m.name || 'typed in the app',
+      invented: false,
+      fractureToughness: { value: m.toughnessMPaSqrtM!, ...(m.toughnessSdMPaSqrtM !== null ? { sd: m.toughnessSdMPaSqrtM } : {}), unitWritten: 'MPa·√m', source },
+      inherentStrength: { value: m.strengthMPa!, ...(m.strengthSdMPa !== null ? { sd: m.strengthSdMPa } : {}), unitWritten: 'MPa', source },
+    };
+    mat.dynamic = { ...(mat.dynamic ?? {}), L: { law: 'power', A: m.rateLawA, B: m.rateLawB, source } };
+    out.material = mat;
   }
   return out;
 }

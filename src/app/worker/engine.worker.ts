@@ -18,15 +18,18 @@ const lazy = {
   decode: import.meta.glob('../../core/decode/index.ts'),
   calibrate: import.meta.glob('../../core/calibrate/index.ts'),
   texture: import.meta.glob('../../core/texture/index.ts'),
-  pipeline: import.meta.glob('../../core/pipeline/index.ts'),
+  pipeline: { ...import.meta.glob('../../core/pipeline/analyse.ts'), ...import.meta.glob('../../core/pipeline/index.ts') },
   render: import.meta.glob('../../core/render/index.ts'),
+  encode: import.meta.glob('../../core/encode/index.ts'),
 };
 type Part = keyof typeof lazy;
 
 async function part(name: Part): Promise<AnyMod | null> {
-  const importers = Object.values(lazy[name]);
-  if (importers.length === 0) return null;
-  return (await importers[0]()) as AnyMod;
+  const entries = Object.entries(lazy[name]);
+  if (entries.length === 0) return null;
+  // prefer the folder's index.ts (public API) over a single module
+  const pick = entries.find(([k]) => k.endsWith('/index.ts')) ?? entries[0];
+  return (await pick[1]()) as AnyMod;
 }
 
 function capabilities(): EngineCapabilities {
@@ -35,7 +38,7 @@ function capabilities(): EngineCapabilities {
     calibrate: Object.keys(lazy.calibrate).length > 0,
     texture: Object.keys(lazy.texture).length > 0,
     pipeline: Object.keys(lazy.pipeline).length > 0,
-    render: Object.keys(lazy.render).length > 0,
+    render: Object.keys(lazy.render).length > 0 && Object.keys(lazy.encode).length > 0,
   };
 }
 
@@ -142,14 +145,16 @@ function asPoint(v: unknown): PointPx {
   return { x: Number(o.x), y: Number(o.y) };
 }
 
-function geometryOf(artifacts: AnyMod): AnalyseReply['geometry'] {
-  const scale = (artifacts.scale ?? {}) as Record<string, unknown>;
-  const ump = typeof scale.umPerPx === 'number' ? scale.umPerPx : typeof scale.umPerPxX === 'number' ? scale.umPerPxX : null;
+/** Geometry from a result (schema fractozone.result/1): outer edge, boundary, centre, scale. */
+function geometryOf(result: AnyMod): AnalyseReply['geometry'] {
+  const spec = (result.specimen ?? {}) as AnyMod;
+  const band = (result.band ?? {}) as AnyMod;
+  const scale = (result.scale ?? {}) as AnyMod;
   return {
-    outerPolygon: ((artifacts.outerPolygon ?? []) as unknown[]).map(asPoint),
-    boundaryPolygon: ((artifacts.boundaryPolygon ?? []) as unknown[]).map(asPoint),
-    center: asPoint(artifacts.center),
-    umPerPx: ump as number | null,
+    outerPolygon: ((spec.outline ?? []) as unknown[]).map(asPoint),
+    boundaryPolygon: ((band.boundary?.polygon ?? []) as unknown[]).map(asPoint),
+    center: asPoint(spec.center),
+    umPerPx: typeof scale.umPerPx === 'number' ? scale.umPerPx : null,
     scaleSource: typeof scale.source === 'string' ? scale.source : null,
   };
 }
@@ -227,24 +232,38 @@ async function handle(msg: RequestMessage): Promise<{ value: unknown; transfer?:
       for (let i = 0; i < values.length; i++) values[i] = Math.round(((map.data[i] - min) / span) * 255);
       return { value: { width: map.width, height: map.height, values, min, max }, transfer: [values.buffer] };
     }
+    case 'renderSample': {
+      const ren = await requirePart('render', 'The invented sample renderer');
+      const enc = await requirePart('encode', 'The PNG encoder');
+      post({ type: 'progress', id, stage: 'drawing the invented sample', fraction: 0.3 });
+      const out = ren.renderFractograph({ seed: msg.seed ?? 1 });
+      const bytes = enc.encodeGrayRaster(out.raster, { format: 'png', bitDepth: 8 }) as Uint8Array;
+      const buf = bytes.slice().buffer;
+      return { value: { name: 'invented-sample.png', bytes: buf, truth: out.truth }, transfer: [buf] };
+    }
     case 'analyse': {
       const doc = getDoc(msg.docId);
       await ensureCv(id);
       const pipe = await requirePart('pipeline', 'Automatic analysis');
-      post({ type: 'progress', id, stage: 'analysing (texture, outline, boundary)', fraction: 0.2 });
-      const out = await pipe.analyseImage(doc.bytes, { file: doc.name, sha256: doc.sha256 }, msg.params as MeasureParams);
-      doc.artifacts = out.artifacts;
-      return { value: { result: out.result, geometry: geometryOf(out.artifacts) } satisfies AnalyseReply };
+      post({ type: 'progress', id, stage: 'analysing', fraction: 0.05 });
+      const out = await pipe.analyseImage(doc.bytes, { file: doc.name, sha256: doc.sha256 }, msg.params as MeasureParams, (stage: string, fraction: number) =>
+        post({ type: 'progress', id, stage, fraction }),
+      );
+      doc.artifacts = out.result;
+      return { value: { result: out.result, geometry: geometryOf(out.result) } satisfies AnalyseReply };
     }
     case 'remeasure': {
       const doc = getDoc(msg.docId);
       if (!doc.artifacts) throw new EngineError('PROCESSING_FAILED', 'Run the automatic analysis first.');
       const pipe = await requirePart('pipeline', 'Re-measure');
-      const artifacts = { ...doc.artifacts, ...(msg.geometry ?? {}) };
-      const out = await pipe.remeasure(artifacts, msg.params as MeasureParams);
-      const result = (out && typeof out === 'object' && 'result' in out ? out.result : out) as Record<string, unknown>;
-      const arts = out && typeof out === 'object' && 'artifacts' in out ? out.artifacts : artifacts;
-      return { value: { result, geometry: geometryOf(arts) } satisfies AnalyseReply };
+      // Re-measure always starts from the automatic analysis with the complete current parameters
+      // (deterministic: the same edits give the same numbers). An edited outline replaces the stored one.
+      let prev = doc.artifacts;
+      if (msg.geometry?.outerPolygon || msg.geometry?.center) {
+        prev = { ...prev, specimen: { ...prev.specimen, ...(msg.geometry.outerPolygon ? { outline: msg.geometry.outerPolygon } : {}), ...(msg.geometry.center ? { center: msg.geometry.center } : {}) } };
+      }
+      const result = pipe.remeasure(prev, msg.params as MeasureParams) as AnyMod;
+      return { value: { result, geometry: geometryOf(result) } satisfies AnalyseReply };
     }
   }
 }

@@ -66,7 +66,8 @@ export type EngineRequest =
   | { type: 'detectBar'; docId: string }
   | { type: 'analyse'; docId: string; params: MeasureParams }
   | { type: 'remeasure'; docId: string; params: MeasureParams; geometry?: GeometryOverride }
-  | { type: 'texture'; docId: string; feature: string; windowPx: number };
+  | { type: 'texture'; docId: string; feature: string; windowPx: number }
+  | { type: 'renderSample'; seed?: number };
 
 export interface EngineReplies {
   status: { cvReady: boolean; capabilities: EngineCapabilities };
@@ -77,6 +78,7 @@ export interface EngineReplies {
   analyse: AnalyseReply;
   remeasure: AnalyseReply;
   texture: { width: number; height: number; values: Uint8Array; min: number; max: number };
+  renderSample: { name: string; bytes: ArrayBuffer; truth: unknown };
 }
 
 export type RequestMessage = { id: number } & EngineRequest;
