@@ -70,10 +70,14 @@ describe('localVariance / localStd', () => {
     expect(planStrips(W, H, 7).length).toBeGreaterThan(1);
     const r = seededRaster(W, H, 11);
     const v = localVariance(r, 15).data;
+    const m = boxMean(r, 15).data; // OpenCV boxFilter, strip-wise
     const seam = planStrips(W, H, 7)[0].y1;
     for (let y = seam - 9; y <= seam + 9; y++) {
       for (const x of [7, 1000, 4088]) {
         expect(Math.abs(v[y * W + x] - windowVariance(r, x, y, 15))).toBeLessThan(1e-6);
+        let s = 0;
+        for (let yy = y - 7; yy <= y + 7; yy++) for (let xx = x - 7; xx <= x + 7; xx++) s += r.data[yy * W + xx];
+        expect(Math.abs(m[y * W + x] - s / 225)).toBeLessThan(1e-6);
       }
     }
   });
