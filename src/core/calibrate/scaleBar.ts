@@ -105,8 +105,13 @@ export function detectScaleBar(raster: GrayRaster, options: ScaleBarOptions = {}
 
   const f = Math.max(1, Math.ceil(Math.sqrt((W * H) / workPixels)));
   const { maxImg, minImg, w, h } = _pool(raster, f);
+  // threshold tied to the 1–99 % range; a plain image holding only a bar has a tiny range, so the
+  // absolute floor (0.05) then applies; nothing to find when the extremes are that close
   const range = _robustRange(maxImg, minImg);
-  if (range < 0.05) return null;
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (let i = 0; i < maxImg.length; i++) (hi = maxImg[i] > hi ? maxImg[i] : hi), (lo = minImg[i] < lo ? minImg[i] : lo);
+  if (hi - lo < 0.05) return null;
   const delta = Math.max(0.05, 0.3 * range);
   const maxTW = Math.ceil(maxT / f);
   let win = 2 * maxTW + 1;
