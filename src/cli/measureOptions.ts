@@ -3,6 +3,8 @@
  * image). Parsing only: turns option strings into a validated MeasureParams.
  */
 import { readFileSync } from 'node:fs';
+import { parseQuantity } from '../core/tcd/index.js';
+import { loadMaterial, parseStrainRate } from './commands/critical-distance.js';
 import type { Command } from 'commander';
 import { FractozoneError } from '../core/errors.js';
 import { parseLengthUm } from '../core/units/units.js';
@@ -26,6 +28,10 @@ export interface MeasureCliOptions {
   boundary?: string;
   maxPixels?: string;
   material?: string;
+  toughness?: string;
+  toughnessSd?: string;
+  strength?: string;
+  strengthSd?: string;
   strainRate?: string;
   reference?: string;
   tolerance?: string;
@@ -51,6 +57,10 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--boundary <file.json>', 'boundary polygon (JSON [{x,y},…] in px) to measure instead of the automatic one')
     .option('--max-pixels <n>', 'refuse images larger than this many pixels', '100000000')
     .option('--material <file:name>', 'material sheet and material name, e.g. samples/materials.json:"FZ-7 (invented alloy)"')
+    .option('--toughness <K>', 'fracture toughness K_c, e.g. 48 (MPa·√m) or 44ksi*sqrt(in); overrides the material sheet')
+    .option('--toughness-sd <K>', 'standard deviation of K_c (same unit)')
+    .option('--strength <sigma0>', 'inherent strength σ0, e.g. 1150 (MPa) or 167ksi; overrides the material sheet')
+    .option('--strength-sd <sigma0>', 'standard deviation of σ0 (same unit)')
     .option('--strain-rate <1/s>', 'strain rate of the test in 1/s (selects L(ε̇) for dynamic materials)')
     .option('--reference <L|L/2|2L>', 'what the band width is compared with', 'L')
     .option('--tolerance <percent>', 'agreement band ±X % around the reference (20 % is common practice)', '20');
@@ -112,6 +122,28 @@ export function readBoundaryFile(path: string): PointPx[] {
   });
 }
 
+/** --material / --toughness / --strength → the material block of the parameters (null if none). */
+export function materialFromOptions(o: MeasureCliOptions): MeasureParams['material'] {
+  if (!o.material && !o.toughness && !o.strength) {
+    if (o.toughnessSd || o.strengthSd) throw new FractozoneError('BAD_PARAMETER', 'a standard deviation needs its value: give --toughness / --strength too');
+    return null;
+  }
+  const out: NonNullable<MeasureParams['material']> = {};
+  if (o.material) out.material = loadMaterial(o.material);
+  if (o.toughness) {
+    out.toughness = { value: parseQuantity(o.toughness, 'toughness', '--toughness'), source: 'command line' };
+    if (o.toughnessSd) out.toughness.sd = parseQuantity(o.toughnessSd, 'toughness', '--toughness-sd');
+  } else if (o.toughnessSd) throw new FractozoneError('BAD_PARAMETER', '--toughness-sd needs --toughness');
+  if (o.strength) {
+    out.strength = { value: parseQuantity(o.strength, 'stress', '--strength'), source: 'command line' };
+    if (o.strengthSd) out.strength.sd = parseQuantity(o.strengthSd, 'stress', '--strength-sd');
+  } else if (o.strengthSd) throw new FractozoneError('BAD_PARAMETER', '--strength-sd needs --strength');
+  if (!out.material && (!out.toughness || !out.strength)) {
+    throw new FractozoneError('BAD_PARAMETER', 'the critical distance needs both --toughness and --strength, or --material FILE:NAME');
+  }
+  return out;
+}
+
 /** Options → parameters (material resolution is done by the caller, which may read a sheet). */
 export function paramsFromOptions(o: MeasureCliOptions, base: MeasureParams = defaultParams()): MeasureParams {
   const p: MeasureParams = structuredClone(base);
@@ -130,7 +162,9 @@ export function paramsFromOptions(o: MeasureCliOptions, base: MeasureParams = de
   if (o.seed !== undefined) p.seed = num(o.seed, '--seed', true) as number;
   if (o.boundary !== undefined) p.boundaryPolygon = readBoundaryFile(o.boundary);
   if (o.maxPixels !== undefined) p.maxPixels = num(o.maxPixels, '--max-pixels') as number;
-  if (o.strainRate !== undefined) p.strainRatePerS = num(o.strainRate, '--strain-rate') as number;
+  if (o.strainRate !== undefined) p.strainRatePerS = parseStrainRate(o.strainRate);
+  const mat = materialFromOptions(o);
+  if (mat) p.material = mat;
   if (o.reference !== undefined) p.reference = o.reference as MeasureParams['reference'];
   if (o.tolerance !== undefined) p.tolerancePct = num(o.tolerance, '--tolerance') as number;
   return validateParams(p);

@@ -24,16 +24,14 @@ export interface ScaleParams {
   useMetadata?: boolean;
 }
 
+/**
+ * What the critical distance is computed from: a material sheet entry (as parsed by
+ * `parseMaterialSheet`) and/or typed values in MPa·√m and MPa with optional sd. Typed values win.
+ */
 export interface MaterialParams {
-  /** Resolved values (the CLI reads a material sheet; the app fills a form). */
-  name?: string;
-  toughnessMPaSqrtM?: number;
-  toughnessSdMPaSqrtM?: number;
-  strengthMPa?: number;
-  strengthSdMPa?: number;
-  /** Strain-rate law of L and σ0, if dynamic. */
-  dynamic?: unknown;
-  sources?: Record<string, string>;
+  material?: import('../tcd/materials.js').Material;
+  toughness?: import('../tcd/resolve.js').QuantityInput;
+  strength?: import('../tcd/resolve.js').QuantityInput;
 }
 
 export interface MeasureParams {
