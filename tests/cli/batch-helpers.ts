@@ -82,10 +82,10 @@ export function listTree(dir: string, base = dir): string[] {
   return out.sort();
 }
 
-/** Result JSON without the fields that legitimately differ between runs (timings). */
+/** Result JSON without the field that legitimately differs between runs (diagnostics: timings). */
 export function stableJson(path: string): unknown {
   const o = JSON.parse(readFileSync(path, 'utf8')) as Record<string, unknown>;
-  delete o.timing;
+  delete o.diagnostics; // wall-clock timings (diagnostics.timingsMs)
   return o;
 }
 

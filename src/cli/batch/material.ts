@@ -7,15 +7,12 @@ import type { MaterialParams } from '../../core/pipeline/types.js';
 
 /** The pipeline's material parameters from a validated sheet material. */
 export function materialParams(m: Material): MaterialParams {
-  return {
-    name: m.name,
-    toughnessMPaSqrtM: m.fractureToughness.value,
-    ...(m.fractureToughness.sd !== undefined ? { toughnessSdMPaSqrtM: m.fractureToughness.sd } : {}),
-    strengthMPa: m.inherentStrength.value,
-    ...(m.inherentStrength.sd !== undefined ? { strengthSdMPa: m.inherentStrength.sd } : {}),
-    ...(m.dynamic ? { dynamic: m.dynamic } : {}),
-    sources: { fractureToughness: m.fractureToughness.source, inherentStrength: m.inherentStrength.source },
-  };
+  return { material: m };
+}
+
+/** Display name of the material in a parameter object, or null. */
+export function materialName(p: MaterialParams | null | undefined): string | null {
+  return p?.material?.name ?? null;
 }
 
 export class MaterialResolver {

@@ -18,7 +18,7 @@ import { TOOL_VERSION } from '../../core/version.js';
 import { readInputFile, sha256Hex, toJsonText, writeFileAtomic } from '../io.js';
 import { discoverImages, type InputImage } from './discover.js';
 import { mergeSettings, readManifest, readSidecar, type ImageSettings, type Manifest } from './manifest.js';
-import { MaterialResolver } from './material.js';
+import { MaterialResolver, materialName } from './material.js';
 import { assignSafeNames } from './names.js';
 import { ENTRY_SCHEMA, ERROR_SCHEMA, overlayPath, readRecord, rebuildOutputs, resultPath, writeBatchFile, type BatchBlock } from './outputs.js';
 import { WorkerPool } from './pool.js';
@@ -177,7 +177,7 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
       paramsSha256: '',
       metadata: {},
       strainRatePerS: o.defaults.strainRatePerS,
-      material: o.defaults.material?.name ?? null,
+      material: materialName(o.defaults.material),
       overlay: null,
       settingsSource: 'defaults',
     };
@@ -197,7 +197,7 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
       block.settingsSource = settings.source;
       params = applySettings(o.defaults, settings, o.defaultMaterial, materials);
       block.strainRatePerS = params.strainRatePerS;
-      block.material = params.material?.name ?? null;
+      block.material = materialName(params.material);
       block.paramsSha256 = sha256Hex(new TextEncoder().encode(canonicalJson({ params, tool: TOOL_VERSION })));
     } catch (e) {
       if (!isFractozoneError(e)) throw e;

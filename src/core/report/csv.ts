@@ -32,7 +32,8 @@ export interface ResultView {
       medianCi95?: [number, number];
     };
     profile?: { angleDeg: number; widthUm: number | null; valid: boolean; reason?: string }[];
-    separability?: number;
+    /** Rim/core separability: an object (fisher, overlap, eta) or a bare Fisher ratio. */
+    separability?: number | { fisher?: number; overlap?: number; eta?: number } | null;
   };
   criticalDistance?: { L_um?: number; interval95_um?: [number, number] };
   comparison?: { reference?: string; ratio?: number; ratioInterval95?: [number, number]; verdict?: string };
@@ -80,7 +81,8 @@ export const RESULT_COLUMNS = [
   'width_ci95_hi_um',
   'width_n_rays',
   'radius_um',
-  'separability',
+  'separability_fisher',
+  'separability_overlap',
   'strain_rate_per_s',
   'material',
   'L_um',
@@ -100,6 +102,12 @@ const META_IN_FIXED = new Set(['specimen_id', 'notch', 'notch_root_radius_mm']);
 
 function finite(v: unknown): number | null {
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
+}
+
+function sepPart(v: unknown, k: 'fisher' | 'overlap'): number | null {
+  if (typeof v === 'number') return k === 'fisher' ? finite(v) : null;
+  if (v && typeof v === 'object') return finite((v as Record<string, unknown>)[k]);
+  return null;
 }
 
 function pair(v: unknown, i: 0 | 1): number | null {
@@ -138,7 +146,8 @@ export function entryRow(entry: BatchEntry): Record<string, Cell> {
     width_ci95_hi_um: ok ? pair(w?.ci95, 1) : null,
     width_n_rays: ok ? finite(w?.n) : null,
     radius_um: finite(r?.specimen?.radiusUm),
-    separability: finite(r?.band?.separability),
+    separability_fisher: sepPart(r?.band?.separability, 'fisher'),
+    separability_overlap: sepPart(r?.band?.separability, 'overlap'),
     strain_rate_per_s: entry.strainRatePerS,
     material: entry.material,
     L_um: finite(r?.criticalDistance?.L_um),

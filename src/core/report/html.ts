@@ -62,7 +62,7 @@ function summaryRow(e: BatchEntry): string {
     `<td class="n">${ok ? n(w?.sd, 'µm') : '—'}</td>`,
     `<td class="n">${ok ? interval(w?.ci95, 'µm') : '—'}</td>`,
     `<td class="n">${n(r?.specimen?.radiusUm, 'µm')}</td>`,
-    `<td class="n">${n(r?.band?.separability)}</td>`,
+    `<td class="n">${n(typeof r?.band?.separability === 'number' ? r.band.separability : r?.band?.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
     `<td class="n">${n(r?.criticalDistance?.L_um, 'µm')}</td>`,
     `<td class="n">${n(r?.comparison?.ratio)}</td>`,
@@ -124,7 +124,7 @@ export function buildReportHtml(input: ReportInput): string {
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
 <div class="caution"><strong>Caution.</strong> ${esc(CAUTION_TEXT)}</div>
 <h2>Summary</h2>
-<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
+<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>
 <h2>Series: band width against strain rate</h2>
 ${seriesPlotSvg(series)}

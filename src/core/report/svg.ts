@@ -46,14 +46,16 @@ export function niceTicks(lo: number, hi: number, target = 5): number[] {
   const f = raw / p;
   const step = (f < 1.5 ? 1 : f < 3 ? 2 : f < 7 ? 5 : 10) * p;
   const out: number[] = [];
-  for (let t = Math.floor(lo / step) * step; t <= hi + step * 1e-9; t += step) out.push(Number(t.toPrecision(12)));
+  for (let k = Math.floor(lo / step + 1e-9); k * step <= hi + step * 1e-9; k++) {
+    out.push(Number((k * step).toPrecision(12)));
+  }
   if (out[0] > lo) out.unshift(Number((out[0] - step).toPrecision(12)));
   if (out[out.length - 1] < hi) out.push(Number((out[out.length - 1] + step).toPrecision(12)));
   return out;
 }
 
-function emptyPlot(width: number, height: number, text: string, title: string): string {
-  return `<svg xmlns="http://www.w3.org/2000/svg" class="plot" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" role="img" aria-label="${escapeXml(title)}"><rect x="0.5" y="0.5" width="${width - 1}" height="${height - 1}" fill="#fafafa" stroke="#ccc"/><text x="${width / 2}" y="${height / 2}" text-anchor="middle" ${FONT} fill="#666">${escapeXml(text)}</text></svg>`;
+function emptyPlot(width: number, height: number, text: string, title: string, cls: string): string {
+  return `<svg xmlns="http://www.w3.org/2000/svg" class="plot ${cls} empty" width="${width}" height="${height}" viewBox="0 0 ${width} ${height}" role="img" aria-label="${escapeXml(title)}"><rect x="0.5" y="0.5" width="${width - 1}" height="${height - 1}" fill="#fafafa" stroke="#ccc"/><text x="${width / 2}" y="${height / 2}" text-anchor="middle" ${FONT} fill="#666">${escapeXml(text)}</text></svg>`;
 }
 
 /**
@@ -67,7 +69,7 @@ export function histogramSvg(widthsUm: readonly number[], opts: { width?: number
   const W = opts.width ?? 300;
   const H = opts.height ?? 180;
   const xs = widthsUm.filter((v) => Number.isFinite(v));
-  if (xs.length === 0) return emptyPlot(W, H, 'no band width measured', 'width histogram');
+  if (xs.length === 0) return emptyPlot(W, H, 'no band width measured', 'width histogram', 'histogram');
   let lo = Math.min(...xs);
   let hi = Math.max(...xs);
   if (hi === lo) {
@@ -118,7 +120,7 @@ export function polarProfileSvg(
 ): string {
   const S = opts.size ?? 220;
   const valid = profile.filter((p) => p.valid && p.widthUm !== null && Number.isFinite(p.widthUm));
-  if (valid.length === 0) return emptyPlot(S, S, 'no band width measured', 'polar width profile');
+  if (valid.length === 0) return emptyPlot(S, S, 'no band width measured', 'polar width profile', 'polar');
   const wmax = Math.max(...valid.map((p) => p.widthUm as number));
   const ticks = niceTicks(0, wmax, 3).filter((t) => t > 0);
   const rmaxVal = ticks[ticks.length - 1] ?? wmax;
@@ -131,7 +133,8 @@ export function polarProfileSvg(
   };
   const parts: string[] = [];
   for (const t of ticks) {
-    parts.push(`<circle cx="${c}" cy="${c}" r="${r2((t / rmaxVal) * R)}" fill="none" stroke="#ddd"/><text x="${r2(c + 2)}" y="${r2(c - (t / rmaxVal) * R - 2)}" ${FONT} font-size="9" fill="#777">${fmt(t)} µm</text>`);
+    const [lx, ly] = pt(-45, t);
+    parts.push(`<circle cx="${c}" cy="${c}" r="${r2((t / rmaxVal) * R)}" fill="none" stroke="#ddd"/><text x="${r2(lx + 2)}" y="${r2(ly + 9)}" ${FONT} font-size="9" fill="#777">${fmt(t)} µm</text>`);
   }
   for (const deg of [0, 90, 180, 270]) {
     const [x, y] = pt(deg, rmaxVal * 1.08);
@@ -186,15 +189,15 @@ function logTicks(lo: number, hi: number): number[] {
  * per notch, 95 % error bars, dashed fitted power law w = A·ε̇^B per notch and the material's
  * L(ε̇) as a black line with square markers.
  * @param series the output of `analyseSeries`
- * @param opts size in px (default 640 × 380)
+ * @param opts size in px (default 780 × 400)
  * @returns an `<svg>` element as text
  */
 export function seriesPlotSvg(series: SeriesAnalysis, opts: { width?: number; height?: number } = {}): string {
-  const W = opts.width ?? 640;
-  const H = opts.height ?? 380;
+  const W = opts.width ?? 780;
+  const H = opts.height ?? 400;
   const groups = series.notches.flatMap((n) => n.groups);
   if (groups.length === 0 && series.lCurve.length === 0) {
-    return emptyPlot(W, H, 'no image with both a strain rate and a band width', 'series plot');
+    return emptyPlot(W, H, 'no image with both a strain rate and a band width', 'series plot', 'series');
   }
   const rates = [...groups.map((g) => g.strainRatePerS), ...series.lCurve.map((p) => p.strainRatePerS)];
   const ys = [
@@ -208,10 +211,11 @@ export function seriesPlotSvg(series: SeriesAnalysis, opts: { width?: number; he
   const padx = Math.max(0.25, (lxhi0 - lxlo0) * 0.08);
   xlo = 10 ** (lxlo0 - padx);
   xhi = 10 ** (lxhi0 + padx);
-  const yt = niceTicks(Math.min(0, ...ys), Math.max(...ys), 5);
+  // widths and L are positive: the axis starts at 0 (error bars below 0 are clipped)
+  const yt = niceTicks(0, Math.max(...ys), 5).filter((t) => t >= 0);
   const ylo = yt[0];
   const yhi = yt[yt.length - 1];
-  const m = { l: 58, r: 170, t: 14, b: 44 };
+  const m = { l: 58, r: 250, t: 14, b: 44 };
   const pw = W - m.l - m.r;
   const ph = H - m.t - m.b;
   const X = (v: number): number => m.l + ((Math.log10(v) - Math.log10(xlo)) / (Math.log10(xhi) - Math.log10(xlo))) * pw;
@@ -237,8 +241,10 @@ export function seriesPlotSvg(series: SeriesAnalysis, opts: { width?: number; he
       }
       parts.push(`<polyline points="${pts.join(' ')}" fill="none" stroke="${col}" stroke-width="1.2" stroke-dasharray="5 3"/>`);
     }
+    // notches side by side at the same strain rate (a small horizontal dodge, px)
+    const dodge = (i - (series.notches.length - 1) / 2) * 7;
     for (const g of ns.groups) {
-      const x = X(g.strainRatePerS);
+      const x = X(g.strainRatePerS) + dodge;
       if (g.ci95Um) {
         const [a, b] = g.ci95Um;
         parts.push(`<line x1="${r2(x)}" y1="${r2(clampY(a))}" x2="${r2(x)}" y2="${r2(clampY(b))}" stroke="${col}"/><line x1="${r2(x - 4)}" y1="${r2(clampY(a))}" x2="${r2(x + 4)}" y2="${r2(clampY(a))}" stroke="${col}"/><line x1="${r2(x - 4)}" y1="${r2(clampY(b))}" x2="${r2(x + 4)}" y2="${r2(clampY(b))}" stroke="${col}"/>`);
