@@ -104,14 +104,11 @@ export function detectScaleBar(raster: GrayRaster, options: ScaleBarOptions = {}
   if (W < 24 || H < 24) return null;
 
   const f = Math.max(1, Math.ceil(Math.sqrt((W * H) / workPixels)));
-  const { maxImg, minImg, w, h } = _pool(raster, f);
+  const { maxImg, minImg, w, h } = _pool(raster, f, Math.max(1, Math.min(f, Math.floor(minT))));
   // threshold tied to the 1–99 % range; a plain image holding only a bar has a tiny range, so the
   // absolute floor (0.05) then applies; nothing to find when the extremes are that close
-  const range = _robustRange(maxImg, minImg);
-  let lo = Infinity;
-  let hi = -Infinity;
-  for (let i = 0; i < maxImg.length; i++) (hi = maxImg[i] > hi ? maxImg[i] : hi), (lo = minImg[i] < lo ? minImg[i] : lo);
-  if (hi - lo < 0.05) return null;
+  const { range, spread } = _ranges(maxImg, minImg);
+  if (spread < 0.05) return null;
   const delta = Math.max(0.05, 0.3 * range);
   const maxTW = Math.ceil(maxT / f);
   let win = 2 * maxTW + 1;
@@ -155,50 +152,67 @@ interface Candidate {
   acrossStart: number;
 }
 
-/** Max- and min-pool by an integer factor (remainder rows/columns dropped). */
-function _pool(r: GrayRaster, f: number): { maxImg: Float32Array; minImg: Float32Array; w: number; h: number } {
+/**
+ * Max- and min-pool by an integer factor (remainder rows/columns dropped), reading every `stride`-th
+ * row and column of each block: a bar at least `stride` px thick is always sampled.
+ */
+function _pool(r: GrayRaster, f: number, stride: number): { maxImg: Float32Array; minImg: Float32Array; w: number; h: number } {
   const w = Math.floor(r.width / f);
   const h = Math.floor(r.height / f);
   if (f === 1) return { maxImg: r.data, minImg: r.data, w, h };
-  const maxImg = new Float32Array(w * h).fill(-Infinity);
-  const minImg = new Float32Array(w * h).fill(Infinity);
+  const maxImg = new Float32Array(w * h);
+  const minImg = new Float32Array(w * h);
   const d = r.data;
   const W = r.width;
-  for (let y = 0; y < h * f; y++) {
-    const row = ((y / f) | 0) * w;
-    const off = y * W;
-    for (let x = 0, X = 0; X < w; X++) {
-      let mx = maxImg[row + X];
-      let mn = minImg[row + X];
-      for (let k = 0; k < f; k++, x++) {
-        const v = d[off + x];
-        if (v > mx) mx = v;
-        if (v < mn) mn = v;
+  for (let Y = 0; Y < h; Y++) {
+    const base = Y * f * W;
+    for (let X = 0; X < w; X++) {
+      let i0 = base + X * f;
+      let mx = d[i0];
+      let mn = mx;
+      for (let k = 0; k < f; k += stride, i0 += stride * W) {
+        for (let x = i0, e = i0 + f; x < e; x += stride) {
+          const v = d[x];
+          if (v > mx) mx = v;
+          else if (v < mn) mn = v;
+        }
       }
-      maxImg[row + X] = mx;
-      minImg[row + X] = mn;
+      maxImg[Y * w + X] = mx;
+      minImg[Y * w + X] = mn;
     }
   }
   return { maxImg, minImg, w, h };
 }
 
-/** p99 of the max-pooled image minus p1 of the min-pooled image (256-bin histograms). */
-function _robustRange(maxImg: Float32Array, minImg: Float32Array): number {
-  const pct = (a: Float32Array, q: number): number => {
-    const hist = new Uint32Array(256);
+/**
+ * From 256-bin histograms: the 1–99 % range (p99 of the max-pooled image minus p1 of the min-pooled
+ * image) and the full spread (highest minus lowest occupied bin).
+ */
+function _ranges(maxImg: Float32Array, minImg: Float32Array): { range: number; spread: number } {
+  const hist = (a: Float32Array): Uint32Array => {
+    const hh = new Uint32Array(256);
     for (let i = 0; i < a.length; i++) {
       const v = a[i];
-      hist[v <= 0 ? 0 : v >= 1 ? 255 : (v * 255) | 0]++;
+      hh[v <= 0 ? 0 : v >= 1 ? 255 : (v * 255) | 0]++;
     }
-    const target = q * a.length;
+    return hh;
+  };
+  const pct = (hh: Uint32Array, q: number): number => {
+    const target = q * maxImg.length;
     let acc = 0;
     for (let b = 0; b < 256; b++) {
-      acc += hist[b];
+      acc += hh[b];
       if (acc >= target) return b / 255;
     }
     return 1;
   };
-  return pct(maxImg, 0.99) - pct(minImg, 0.01);
+  const hMax = hist(maxImg);
+  const hMin = maxImg === minImg ? hMax : hist(minImg);
+  let hi = 255;
+  while (hi > 0 && hMax[hi] === 0) hi--;
+  let lo = 0;
+  while (lo < 255 && hMin[lo] === 0) lo++;
+  return { range: pct(hMax, 0.99) - pct(hMin, 0.01), spread: (hi - lo) / 255 };
 }
 
 function _binariseAndLabel(
