@@ -128,7 +128,7 @@ export function App() {
     const prev = prevDocs.current;
     for (const d of state.docs) {
       const before = prev.get(d.id);
-      if (before && before !== d && d.status === 'analysed' && needsRemeasure(before, d)) {
+      if (before && before !== d && before.status === 'analysed' && d.status === 'analysed' && needsRemeasure(before, d)) {
         if (!d.resultStale) update((s) => edit(s, d.id, { resultStale: true }, 'silent'));
         void remeasurer.request(d);
       }

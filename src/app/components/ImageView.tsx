@@ -130,10 +130,11 @@ export function ImageView(props: ImageViewProps) {
     props.onEdit({ outline: next, outlineEdited: true }, mode, 'adjust outline');
   };
 
-  const handleR = 4 * k;
+  const handleR = 3 * k;
   const sectorLive = draft?.kind === 'sector' && center ? sectorFromDrag(center, draft.from, draft.to) : null;
 
   return (
+    <div className="stage-wrap" data-testid="stage-wrap" data-view={JSON.stringify(view)}>
     <Stage
       ref={(s) => {
         stageRef.current = s;
@@ -228,5 +229,6 @@ export function ImageView(props: ImageViewProps) {
         )}
       </Layer>
     </Stage>
+    </div>
   );
 }

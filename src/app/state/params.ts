@@ -27,6 +27,11 @@ export function baseParams(): MeasureParams {
   };
 }
 
+/**
+ * The scale part of the parameters. `useMetadata` stays true (the CLI default) unless the user chose
+ * "no scale": typed, two-point and bar scales take precedence over metadata anyway, so the same
+ * choice gives the same parameter object as the CLI (e.g. `--bar-length 1000um`).
+ */
 export function scaleParamsOf(doc: Doc): ScaleParams {
   const s = doc.scale;
   switch (s.source) {
@@ -35,11 +40,11 @@ export function scaleParamsOf(doc: Doc): ScaleParams {
     case 'metadata':
       return { useMetadata: true };
     case 'typed':
-      return { pixelSizeUm: s.umPerPx, useMetadata: false };
+      return { useMetadata: true, pixelSizeUm: s.umPerPx };
     case 'two-point':
-      return { twoPoint: { p0: { ...s.p0 }, p1: { ...s.p1 }, distanceUm: s.distanceUm }, useMetadata: false };
+      return { useMetadata: true, twoPoint: { p0: { ...s.p0 }, p1: { ...s.p1 }, distanceUm: s.distanceUm } };
     case 'scale-bar':
-      return { barLengthUm: s.barLengthUm, useMetadata: false };
+      return { useMetadata: true, barLengthUm: s.barLengthUm };
   }
 }
 
