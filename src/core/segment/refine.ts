@@ -92,7 +92,15 @@ export interface RefineBoundaryOptions {
   searchWindows?: number;
   /** Running-median length along θ, rays (default 5). */
   medianRays?: number;
-  /** Precomputed box-averaged pointwise energy (full resolution); computed with {@link boxEnergy} otherwise. */
+  /**
+   * 'step' (default): pointwise Sobel energy averaged only TANGENTIALLY (over ± half a window
+   * across the ray), then a two-level step fit along the ray. 'box': midpoint crossing of the
+   * box-averaged pointwise energy ({@link boxEnergy}). Both are unbiased for a clean texture step;
+   * 'step' is also insensitive to a bright/dark line on the boundary (which the box average
+   * spreads over a whole window) and to any monotone transform of the feature.
+   */
+  method?: 'step' | 'box';
+  /** Precomputed energy at full resolution: box-averaged for 'box', pointwise for 'step'. */
   energy?: GrayRaster;
 }
 
@@ -135,7 +143,8 @@ export function refineBoundary(
   if (!(opts.windowPx >= 1)) throw new FractozoneError('BAD_PARAMETER', 'The refinement window must be at least 1 px.');
   const nRays = opts.nRays ?? 360;
   const W = opts.windowPx;
-  const E = opts.energy ?? boxEnergy(r, W);
+  const method = opts.method ?? 'step';
+  const E = method === 'box' ? opts.energy ?? boxEnergy(r, W) : r;
   if (E.width !== r.width || E.height !== r.height) throw new FractozoneError('BAD_PARAMETER', 'The energy raster must have the image size.');
   const oIdx = buildRayIndex(outer, center);
   const cIdx = buildRayIndex(coarse, center);
@@ -158,7 +167,28 @@ export function refineBoundary(
     const d = rayDirection(th);
     const len = o ?? 0;
     const p = new Float64Array(Math.max(1, Math.floor(len / step) + 1));
-    for (let k = 0; k < p.length; k++) p[k] = sample(E, center.x + k * step * d.x, center.y + k * step * d.y);
+    if (method === 'box') {
+      for (let k = 0; k < p.length; k++) p[k] = sample(E, center.x + k * step * d.x, center.y + k * step * d.y);
+    } else if (c !== null) {
+      // only the part of the ray that the levels and the search need: intensity variance along
+      // an ARC of constant radius (±half a window), log
+      const hw = Math.max(1, Math.floor(W / 2));
+      const kA = Math.max(1, Math.floor((c - 2.2 * W) / step));
+      const th0 = (th * Math.PI) / 180;
+      for (let k = kA; k < p.length; k++) {
+        const t = k * step;
+        let s1 = 0;
+        let s2 = 0;
+        for (let u = -hw; u <= hw; u++) {
+          const a = th0 + u / t;
+          const v = sample(E, center.x + t * Math.cos(a), center.y - t * Math.sin(a));
+          s1 += v;
+          s2 += v * v;
+        }
+        const nn = 2 * hw + 1;
+        p[k] = Math.log(Math.max(s2 / nn - (s1 / nn) ** 2, 0) + 1e-10);
+      }
+    }
     profiles.push(p);
     let rimV = NaN;
     let coreV = NaN;
@@ -211,12 +241,34 @@ export function refineBoundary(
     const k0 = Math.max(1, Math.floor(Math.max(0, c - search) / step));
     const k1 = Math.min(p.length - 1, Math.ceil(Math.min(o - 0.5 * W, c + search) / step));
     let best: number | null = null;
-    for (let k = k0; k <= k1; k++) {
-      const a = p[k - 1] - mid;
-      const b = p[k] - mid;
-      if (a >= 0 && b < 0) {
-        const t = (k - 1 + a / (a - b)) * step;
-        if (best === null || Math.abs(t - c) < Math.abs(best - c)) best = t;
+    if (method === 'box') {
+      for (let k = k0; k <= k1; k++) {
+        const a = p[k - 1] - mid;
+        const b = p[k] - mid;
+        if (a >= 0 && b < 0) {
+          const t = (k - 1 + a / (a - b)) * step;
+          if (best === null || Math.abs(t - c) < Math.abs(best - c)) best = t;
+        }
+      }
+    } else if (k1 > k0) {
+      // two-level step fit with the levels fixed: cost(b) = const + 2(Lc − Lr)·Σ_{t<b}(mid − q(t)),
+      // so b is the argmin of the running sum of (mid − q); sub-sample position by linear
+      // interpolation of the midpoint crossing next to it
+      let run = 0;
+      let minRun = 0;
+      let kMin = k0;
+      for (let k = k0; k <= k1; k++) {
+        run += mid - p[k];
+        if (run < minRun) {
+          minRun = run;
+          kMin = k + 1;
+        }
+      }
+      if (kMin > k0 && kMin <= k1) {
+        const a = p[kMin - 1] - mid;
+        const b = p[kMin] - mid;
+        const frac = a > 0 && b < 0 ? a / (a - b) : 0.5;
+        best = (kMin - 1 + frac) * step;
       }
     }
     if (best === null) {
