@@ -94,6 +94,10 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
       if (v > level) nBright++;
     }
     bright = nBright > nb / 2;
+    // move the level halfway towards the background median: a surface part that is shaded
+    // darker (or brighter) than most of the surface but still differs from the background is kept
+    const bgMed = quantile(border, 0.5);
+    level = 0.5 * (level + bgMed);
     const m = createMask(w, h);
     for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
     if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
