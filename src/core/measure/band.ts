@@ -17,6 +17,7 @@ export type RayReason =
   | 'no-outer-edge'
   | 'no-boundary'
   | 'boundary-outside-outer'
+  | 'band-absent'
   | 'outlier';
 
 /** One ray of the profile. Radii in px from the centre, widths in px and µm. */
@@ -50,6 +51,12 @@ export interface MeasureParams {
   frameMarginPx?: number;
   /** Outlier threshold k in robust σ (1.4826·MAD), default 3.5. */
   outlierK?: number;
+  /**
+   * Widths below this many px count as "band absent" on that ray (invalid, reason 'band-absent';
+   * default 0 = off). An automatic boundary cannot resolve a band narrower than about one texture
+   * window, so the automatic pipeline sets this to 0.75 window.
+   */
+  minWidthPx?: number;
   /** Leave flagged outliers out of the statistics (default false: flag only). */
   dropOutliers?: boolean;
   /** Bootstrap seed and count for the CI of the median (defaults 1 and 2000). */
@@ -209,6 +216,7 @@ export function createBandMeasurer(
       else if (atFrame[i]) ray.reason = 'outer-edge-at-frame';
       else if (rb === null) ray.reason = 'no-boundary';
       else if (ray.widthPx !== null && ray.widthPx < 0) ray.reason = 'boundary-outside-outer';
+      else if (ray.widthPx !== null && ray.widthPx < (params.minWidthPx ?? 0)) ray.reason = 'band-absent';
       else ray.valid = true;
       rays.push(ray);
     }
@@ -264,7 +272,7 @@ export function createBandMeasurer(
  *
  * Invalid rays: 'excluded' (in a sector), 'no-outer-edge', 'outer-edge-at-frame' (the outer end
  * is within frameMarginPx of the image frame: the true edge is cut off), 'no-boundary',
- * 'boundary-outside-outer'. Outliers (|w − median| > k·1.4826·MAD) stay valid with
+ * 'boundary-outside-outer', 'band-absent' (width < minWidthPx). Outliers (|w − median| > k·1.4826·MAD) stay valid with
  * reason 'outlier' and leave the statistics only with dropOutliers.
  *
  * @param input - polygons (px), centre (px) and parameters

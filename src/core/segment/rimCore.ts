@@ -17,7 +17,7 @@ export interface RimCoreOptions {
   featureScale?: number;
   /** Ray origin / topological centre, px (default: the specimen's fitted circle centre). */
   center?: Point;
-  /** Fisher ratio below which the result is refused (default 1). */
+  /** Fisher ratio below which the result is refused (default 0.5). */
   minFisher?: number;
   /** Fisher ratio below which a warning is given (default 4). */
   warnFisher?: number;
@@ -114,7 +114,7 @@ function meanVar(vals: number[]): [number, number] {
  * rest of the specimen.
  *
  * Refusal (detected = false, with a reason, never a number): no core component; Fisher ratio
- * < minFisher (1) or overlap > maxOverlap (0.5) between the two topological classes (transition
+ * < minFisher (0.5) or overlap > maxOverlap (0.5) between the two topological classes (transition
  * zone of ± half a window excluded); the core within ~one window of the outer edge on more than
  * maxCoreAtEdgeFraction (80 %) of the rays; almost no rim pixels. Warnings: Fisher < 4,
  * overlap > 0.2, core at the edge on > 20 % of the rays. These thresholds are our own choice
@@ -246,7 +246,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   const coreAtEdgeFraction = nR ? nAt / nR : 1;
   const base = { warnings, coreMask: core, boundary, separability, coreAtEdgeFraction, combined: createRaster(fw, fh, comb), featureScale: s };
   const fmt = (v: number): string => v.toFixed(2);
-  const minFisher = opts.minFisher ?? 1;
+  const minFisher = opts.minFisher ?? 0.5;
   const maxOverlap = opts.maxOverlap ?? 0.5;
   if (rv.length < 20) return { ...base, detected: false, reason: 'no smooth rim: the rough core fills the section' };
   if (coreAtEdgeFraction > (opts.maxCoreAtEdgeFraction ?? 0.8)) {

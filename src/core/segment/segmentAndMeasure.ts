@@ -67,6 +67,7 @@ export function segmentAndMeasure(
     boundary: refined ? refined.polygon : rimCore.boundary,
     center,
     umPerPx,
+    minWidthPx: params.minWidthPx ?? 0.75 * params.windowPx,
     imageSize: { width: raster.width, height: raster.height },
   });
   lap('measure');

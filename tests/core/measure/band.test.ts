@@ -106,6 +106,15 @@ describe('measureBand geometry', () => {
     expect(p2.areaWidthComplete).toBe(false);
   });
 
+  it('minWidthPx marks narrow rays as band-absent', () => {
+    // boundary touching the outer circle on the right half: width 2 px there, 50 px elsewhere
+    const b = circle(500, 400, 250, 3600).map((q) => (q.x > 500 ? { x: 500 + (q.x - 500) * (298 / 250), y: 400 + (q.y - 400) * (298 / 250) } : q));
+    const p = measureBand({ outer: circle(500, 400, 300), boundary: b, center: { x: 500, y: 400 }, umPerPx: 1, minWidthPx: 10, nRays: 8 });
+    expect(p.rays[0].reason).toBe('band-absent');
+    expect(p.rays[4].valid).toBe(true);
+    expect(p.rays[4].widthPx!).toBeCloseTo(50, 1);
+  });
+
   it('non-square pixels scale the width per ray direction', () => {
     const p = measureBand({ outer: circle(500, 400, 300), boundary: circle(500, 400, 250), center: { x: 500, y: 400 }, umPerPx: { x: 2, y: 3 }, nRays: 4 });
     expect(p.rays[0].widthUm!).toBeCloseTo(100, 2); // 50 px along x · 2 µm

@@ -45,6 +45,21 @@ describe('segmentAndMeasure on rendered fractographs', () => {
     });
   }
 
+  it('band absent on a sector: those rays are invalid (band-absent), the mean is within 4 %', () => {
+    const { res, truth } = run({ rim: { absentSectors: [{ fromDeg: 60, toDeg: 120 }] } });
+    expect(res.rimCore.detected).toBe(true);
+    const absentRays = res.band!.rays.filter((r, i) => truth.band.absentByAngle[i]);
+    const flagged = absentRays.filter((r) => !r.valid && (r.reason === 'band-absent' || r.reason === 'no-boundary'));
+    expect(flagged.length).toBeGreaterThan(0.8 * absentRays.length);
+    expect(relErr(res.band!.stats.mean, truth.band.meanWidthUm!)).toBeLessThan(0.04);
+  });
+
+  it('SEM-like bright edge with noise: detected (possibly with a warning), within 4 %', () => {
+    const { res, truth } = run({ semEdge: 0.8, noiseSigma: 0.03 });
+    expect(res.rimCore.detected).toBe(true);
+    expect(relErr(res.band!.stats.mean, truth.band.meanWidthUm!)).toBeLessThan(0.04);
+  });
+
   it('no rim → detected false, no width', () => {
     const { res } = run({ rim: false });
     expect(res.rimCore.detected).toBe(false);
