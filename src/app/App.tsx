@@ -226,10 +226,10 @@ export function App() {
           d.id,
           {
             result: out.result,
-            outerPolygon: g.outerPolygon,
+            outerPolygon: g.outerPolygon.length >= 3 ? g.outerPolygon : null,
             outline: outlineFromPolygon(g.outerPolygon),
             outlineEdited: false,
-            boundary: g.boundaryPolygon,
+            boundary: g.boundaryPolygon.length >= 3 ? g.boundaryPolygon : null,
             boundaryEdited: false,
             status: 'analysed',
             resultStale: false,

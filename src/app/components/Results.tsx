@@ -91,6 +91,11 @@ export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSessi
         {r && (
           <>
             {doc?.resultStale && <p className="muted">updating…</p>}
+            {r.band?.detected === false && (
+              <p className="warnings" data-testid="no-band">
+                No rim band found{r.band.reason ? `: ${r.band.reason}` : ''}. Correct the scale or draw the boundary by hand.
+              </p>
+            )}
             <StatsTable result={r} />
             {Array.isArray(r.warnings) && r.warnings.length > 0 && (
               <ul className="warnings">

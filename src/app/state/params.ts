@@ -94,7 +94,7 @@ export function paramsOf(doc: Doc, opts: { withBoundary?: boolean } = {}): Measu
   p.strainRatePerS = doc.material.strainRatePerS;
   p.reference = doc.material.reference;
   p.tolerancePct = doc.material.tolerancePct;
-  if ((opts.withBoundary ?? doc.boundaryEdited) && doc.boundary) p.boundaryPolygon = doc.boundary.map((q) => ({ x: q.x, y: q.y }));
+  if ((opts.withBoundary ?? doc.boundaryEdited) && doc.boundary && doc.boundary.length >= 3) p.boundaryPolygon = doc.boundary.map((q) => ({ x: q.x, y: q.y }));
   return p;
 }
 

@@ -218,7 +218,8 @@ async function handle(msg: RequestMessage): Promise<{ value: unknown; transfer?:
       await ensureCv(id);
       const tex = await requirePart('texture', 'The texture map');
       post({ type: 'progress', id, stage: `computing ${msg.feature}`, fraction: 0.2 });
-      const map = tex.computeFeature(msg.feature, doc.raster, Math.max(3, Math.round(msg.windowPx))) as GrayRaster;
+      const w = Math.max(3, Math.round(msg.windowPx));
+      const map = tex.computeFeature(msg.feature, doc.raster, w % 2 === 1 ? w : w + 1) as GrayRaster;
       let min = Infinity;
       let max = -Infinity;
       for (const v of map.data) {
