@@ -6,7 +6,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import {
-  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, distanceToPolygon,
+  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea,
 } from './geometry.js';
 import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
 
@@ -184,17 +184,66 @@ export function createBandMeasurer(
   }
   const outerArea = polygonArea(outer);
   const anyFrame = atFrame.some((v) => v);
-  // outer edges lying on the frame are not real edges: skip them for the normal width
-  const frameEdge = (i: number): boolean => {
-    if (!size) return false;
-    const a = outer[i];
-    const b = outer[(i + 1) % outer.length];
-    const onF = (q: Point): boolean =>
-      q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin;
-    return onF(a) && onF(b);
-  };
+  // outer edges lying on the frame are not real edges: skip them for the normal width.
+  // Scaled edge arrays (µm) are prepared once so that the normal width is a tight loop.
   const sx = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.x;
   const sy = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.y;
+  const onF = (q: Point): boolean =>
+    !!size && (q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin);
+  const nO = outer.length;
+  const EAx = new Float64Array(nO);
+  const EAy = new Float64Array(nO);
+  const EDx = new Float64Array(nO);
+  const EDy = new Float64Array(nO);
+  const skip = new Uint8Array(nO);
+  for (let i = 0; i < nO; i++) {
+    const a = outer[i];
+    const b = outer[(i + 1) % nO];
+    skip[i] = onF(a) && onF(b) ? 1 : 0;
+    EAx[i] = a.x * sx;
+    EAy[i] = a.y * sy;
+    EDx[i] = (b.x - a.x) * sx;
+    EDy[i] = (b.y - a.y) * sy;
+  }
+  const stamp = new Int32Array(nO);
+  let stampId = 0;
+  const nBins = outerIdx.bins.length;
+  /**
+   * Distance (µm) from p (at radius rP px, angle θ) to the outer contour. Any edge nearer than the
+   * along-ray distance wPx lies within a disc of radius wPx around p, hence within
+   * ±asin(wPx/rP) of θ seen from the centre: only the edges filed in those angular bins are tested.
+   */
+  const distToOuterUm = (p: Point, thetaDeg: number, rP: number, wPx: number): number => {
+    const px = p.x * sx;
+    const py = p.y * sy;
+    const aniso = Math.max(sx, sy) / Math.min(sx, sy);
+    const reach = wPx * aniso + 2;
+    const spanDeg = reach >= rP ? 180 : (Math.asin(reach / rP) * 180) / Math.PI + outerIdx.binDeg;
+    const b0 = Math.floor((thetaDeg - spanDeg) / outerIdx.binDeg);
+    const b1 = Math.floor((thetaDeg + spanDeg) / outerIdx.binDeg);
+    stampId++;
+    let best = Infinity;
+    for (let bb = b0; bb <= Math.min(b1, b0 + nBins - 1); bb++) {
+      const list = outerIdx.bins[((bb % nBins) + nBins) % nBins];
+      for (let k = 0; k < list.length; k++) {
+        const i = list[k];
+        if (stamp[i] === stampId || skip[i]) continue;
+        stamp[i] = stampId;
+        const ax = EAx[i] - px;
+        const ay = EAy[i] - py;
+        const ex = EDx[i];
+        const ey = EDy[i];
+        const ee = ex * ex + ey * ey;
+        let t = ee > 0 ? -(ax * ex + ay * ey) / ee : 0;
+        t = t < 0 ? 0 : t > 1 ? 1 : t;
+        const dx = ax + t * ex;
+        const dy = ay + t * ey;
+        const d2 = dx * dx + dy * dy;
+        if (d2 < best) best = d2;
+      }
+    }
+    return Math.sqrt(best);
+  };
 
   return (boundary) => {
     if (boundary) checkPolygon(boundary, 'boundary');
@@ -238,7 +287,7 @@ export function createBandMeasurer(
       if (!Number.isFinite(use[i]) || r.boundaryRadiusPx === null) return;
       const d = rayDirection(r.thetaDeg);
       const p = { x: center.x + r.boundaryRadiusPx * d.x, y: center.y + r.boundaryRadiusPx * d.y };
-      nw.push(distanceToPolygon(p, outer, sx, sy, frameEdge));
+      nw.push(distToOuterUm(p, r.thetaDeg, r.boundaryRadiusPx, r.widthPx ?? 0));
     });
     nw.sort((a, b) => a - b);
     const nMean = nw.length ? nw.reduce((a, b) => a + b, 0) / nw.length : NaN;

@@ -140,9 +140,41 @@ export function robustOutlierFlags(values: readonly number[], k = 3.5): boolean[
   return values.map((v) => Number.isFinite(v) && Math.abs(v - med) > lim);
 }
 
-function medianOfSorted(a: Float64Array): number {
+/** k-th smallest (0-based) of a[lo..hi] by Hoare's quickselect (in place, deterministic middle pivot). */
+function select(a: Float64Array, k: number): number {
+  let lo = 0;
+  let hi = a.length - 1;
+  while (lo < hi) {
+    const pivot = a[(lo + hi) >> 1];
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i] < pivot) i++;
+      while (a[j] > pivot) j--;
+      if (i <= j) {
+        const t = a[i];
+        a[i] = a[j];
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return a[k];
+  }
+  return a[k];
+}
+
+/** Median of a (reorders a). */
+function medianInPlace(a: Float64Array): number {
   const n = a.length;
-  return n % 2 ? a[(n - 1) / 2] : 0.5 * (a[n / 2 - 1] + a[n / 2]);
+  if (n % 2) return select(a, (n - 1) / 2);
+  const hi = select(a, n / 2);
+  // after select, everything left of n/2 is ≤ a[n/2]: the lower middle is their maximum
+  let lo = -Infinity;
+  for (let i = 0; i < n / 2; i++) if (a[i] > lo) lo = a[i];
+  return 0.5 * (lo + hi);
 }
 
 /**
@@ -192,8 +224,7 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
     const buf = new Float64Array(n);
     for (let b = 0; b < B; b++) {
       for (let i = 0; i < n; i++) buf[i] = sorted[Math.floor(rnd() * n)];
-      buf.sort();
-      meds[b] = medianOfSorted(buf);
+      meds[b] = medianInPlace(buf);
     }
     meds.sort();
     const m = Array.from(meds);
