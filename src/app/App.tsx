@@ -11,7 +11,7 @@ import { createEngine, type Engine } from './worker/client.js';
 import type { EngineCapabilities } from './worker/protocol.js';
 import { describeScale, fmtNum, newDoc, umPerPxOf, type Doc, type MaterialForm, type ScaleChoice } from './state/document.js';
 import { outlineFromPolygon, paramsOf } from './state/params.js';
-import { activeDoc, addDoc, canRedo, canUndo, edit, initialState, needsRemeasure, setView, type AppState, type DocPatch, type Tool } from './state/store.js';
+import { activeDoc, addDoc, canRedo, canUndo, edit, endDrag, initialState, needsRemeasure, setView, type AppState, type DocPatch, type Tool } from './state/store.js';
 import { COMMANDS, commandForKey, run } from './state/commands.js';
 import { createRemeasurer } from './state/remeasure.js';
 import { ImageView } from './components/ImageView.js';
@@ -589,7 +589,8 @@ export function App() {
       </main>
       <Results
         doc={doc}
-        onMaterial={(m) => doc && update((s) => edit(s, doc.id, { material: m }, 'commit', 'material'))}
+        onMaterial={(m, commit) => doc && update((s) => edit(s, doc.id, { material: m }, commit ? 'commit' : 'transient', 'material'))}
+        onMaterialDone={() => update(endDrag)}
         onMaterialFile={(f) => void onMaterialFile(f)}
         onExport={onExport}
         onOpenSession={(f) => void onOpenSession(f)}

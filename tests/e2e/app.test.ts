@@ -71,7 +71,8 @@ describe.skipIf(SKIP_E2E)('web app in Chromium', () => {
     const file = await (await dl).path();
     const exported = JSON.parse(readFileSync(file, 'utf8')) as Record<string, unknown>;
     const fromCli = JSON.parse(runCli(['measure', image, '--bar-length', `${barUm}um`, '--json'])) as Record<string, unknown>;
-    expect(reproducible(exported)).toEqual(reproducible(fromCli));
+    // dist/ (CLI) and dist-app/ must come from the same sources: `npm test` builds both first
+    expect(reproducible(exported), 'app and CLI results differ (stale build? run npm run build && npm run build:app)').toEqual(reproducible(fromCli));
 
     // drag one boundary point outwards by 40 screen px → statistics change; undo restores them
     const view = JSON.parse((await page.getByTestId('stage-wrap').getAttribute('data-view')) ?? '{}') as { scale: number; x: number; y: number };

@@ -11,7 +11,7 @@ export const CAUTION_TEXT =
 
 const f = (v: unknown, d = 1): string => (typeof v === 'number' && Number.isFinite(v) ? v.toFixed(d) : '—');
 
-function NumField(props: { label: string; unit: string; value: number | null; onChange(v: number | null): void; testId?: string }) {
+function NumField(props: { label: string; unit: string; value: number | null; onChange(v: number | null): void; onDone?(): void; testId?: string }) {
   return (
     <label className="field">
       <span>{props.label}</span>
@@ -21,6 +21,7 @@ function NumField(props: { label: string; unit: string; value: number | null; on
         data-testid={props.testId}
         value={props.value ?? ''}
         onChange={(e) => props.onChange(e.target.value === '' ? null : Number(e.target.value))}
+        onBlur={() => props.onDone?.()}
       />
       <span className="unit">{props.unit}</span>
     </label>
@@ -59,13 +60,15 @@ export function StatsTable({ result }: { result: ResultView & Record<string, unk
 
 export interface ResultsProps {
   doc: Doc | null;
+  /** `commit` false while typing (one history entry per field, closed by `onMaterialDone`). */
   onMaterial(m: MaterialForm, commit: boolean): void;
+  onMaterialDone(): void;
   onMaterialFile(file: File): void;
   onExport(kind: 'json' | 'csv' | 'png' | 'html' | 'session'): void;
   onOpenSession(file: File): void;
 }
 
-export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSession }: ResultsProps) {
+export function Results({ doc, onMaterial, onMaterialDone, onMaterialFile, onExport, onOpenSession }: ResultsProps) {
   const r = (doc?.result ?? null) as (ResultView & Record<string, unknown>) | null;
   const plots = useMemo(() => {
     const prof = r?.band?.profile ?? [];
@@ -74,6 +77,7 @@ export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSessi
   }, [r]);
   const m = doc?.material;
   const set = (patch: Partial<MaterialForm>) => m && onMaterial({ ...m, ...patch }, true);
+  const type = (patch: Partial<MaterialForm>) => m && onMaterial({ ...m, ...patch }, false);
   const cmp = (r?.comparison ?? null) as Record<string, unknown> | null;
   const L = (r?.criticalDistance ?? null) as Record<string, unknown> | null;
   const ri = cmp?.ratioInterval95 as [number, number] | undefined;
@@ -116,13 +120,13 @@ export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSessi
             <span>name</span>
             <input type="text" value={m.name} onChange={(e) => set({ name: e.target.value })} />
           </label>
-          <NumField label="toughness K_c" unit="MPa·√m" value={m.toughnessMPaSqrtM} onChange={(v) => set({ toughnessMPaSqrtM: v })} testId="kc" />
-          <NumField label="sd of K_c" unit="MPa·√m" value={m.toughnessSdMPaSqrtM} onChange={(v) => set({ toughnessSdMPaSqrtM: v })} />
-          <NumField label="inherent strength σ₀" unit="MPa" value={m.strengthMPa} onChange={(v) => set({ strengthMPa: v })} testId="sigma0" />
-          <NumField label="sd of σ₀" unit="MPa" value={m.strengthSdMPa} onChange={(v) => set({ strengthSdMPa: v })} />
-          <NumField label="strain rate" unit="1/s" value={m.strainRatePerS} onChange={(v) => set({ strainRatePerS: v })} />
-          <NumField label="rate law L = A·ε̇^B: A" unit="µm" value={m.rateLawA} onChange={(v) => set({ rateLawA: v })} />
-          <NumField label="B" unit="—" value={m.rateLawB} onChange={(v) => set({ rateLawB: v })} />
+          <NumField label="toughness K_c" unit="MPa·√m" value={m.toughnessMPaSqrtM} onDone={onMaterialDone} onChange={(v) => type({ toughnessMPaSqrtM: v })} testId="kc" />
+          <NumField label="sd of K_c" unit="MPa·√m" value={m.toughnessSdMPaSqrtM} onDone={onMaterialDone} onChange={(v) => type({ toughnessSdMPaSqrtM: v })} />
+          <NumField label="inherent strength σ₀" unit="MPa" value={m.strengthMPa} onDone={onMaterialDone} onChange={(v) => type({ strengthMPa: v })} testId="sigma0" />
+          <NumField label="sd of σ₀" unit="MPa" value={m.strengthSdMPa} onDone={onMaterialDone} onChange={(v) => type({ strengthSdMPa: v })} />
+          <NumField label="strain rate" unit="1/s" value={m.strainRatePerS} onDone={onMaterialDone} onChange={(v) => type({ strainRatePerS: v })} />
+          <NumField label="rate law L = A·ε̇^B: A" unit="µm" value={m.rateLawA} onDone={onMaterialDone} onChange={(v) => type({ rateLawA: v })} />
+          <NumField label="B" unit="—" value={m.rateLawB} onDone={onMaterialDone} onChange={(v) => type({ rateLawB: v })} />
           <label className="field">
             <span>compare width with</span>
             <select value={m.reference} onChange={(e) => set({ reference: e.target.value as MaterialForm['reference'] })}>
@@ -131,7 +135,7 @@ export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSessi
               <option value="2L">2L</option>
             </select>
           </label>
-          <NumField label="tolerance" unit="%" value={m.tolerancePct} onChange={(v) => set({ tolerancePct: v ?? 20 })} />
+          <NumField label="tolerance" unit="%" value={m.tolerancePct} onDone={onMaterialDone} onChange={(v) => type({ tolerancePct: v ?? 20 })} />
           <label className="file-button">
             Read a material sheet…
             <input type="file" accept=".json,application/json" onChange={(e) => e.target.files?.[0] && onMaterialFile(e.target.files[0])} />
@@ -189,7 +193,7 @@ export function Results({ doc, onMaterial, onMaterialFile, onExport, onOpenSessi
           <button disabled={!doc} onClick={() => onExport('session')} data-testid="export-session">Save session</button>
           <label className="file-button">
             Reopen session…
-            <input type="file" accept=".json,application/json" onChange={(e) => e.target.files?.[0] && onOpenSession(e.target.files[0])} />
+            <input type="file" accept=".json,application/json" data-testid="open-session" onChange={(e) => e.target.files?.[0] && onOpenSession(e.target.files[0])} />
           </label>
         </div>
       </section>
