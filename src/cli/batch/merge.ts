@@ -53,10 +53,11 @@ export function mergeOutputs(sources: readonly string[], outArg: string, log: (m
       }
       const text = readFileSync(p, 'utf8');
       seen.set(b.safeName, { src: s, sha: b.sha256, params: b.paramsSha256, text });
-      if (b.overlay) {
-        const op = join(src, b.overlay);
-        if (existsSync(op)) writeFileAtomic(join(out, b.overlay), new Uint8Array(readFileSync(op)));
-        else log(`merge: warning: ${s}/${b.overlay} is missing`);
+      for (const rel of [b.overlay, b.thumbnail]) {
+        if (!rel) continue;
+        const op = join(src, rel);
+        if (existsSync(op)) writeFileAtomic(join(out, rel), new Uint8Array(readFileSync(op)));
+        else log(`merge: warning: ${s}/${rel} is missing`);
       }
       writeFileAtomic(join(out, 'results', name), text);
     }

@@ -4,6 +4,7 @@
  *
  *   OUT/results/<safe>.json   one per image (the pipeline result + a `batch` block, or an error record)
  *   OUT/overlays/<safe>.png   one per measured image
+ *   OUT/thumbs/<safe>.png     its report thumbnail (≤ 320 px wide)
  *   OUT/batch.json            batch defaults (parameters, tool version)
  *   OUT/results.csv           one row per image (RFC 4180)
  *   OUT/results.jsonl         the same rows as JSON Lines
@@ -17,7 +18,7 @@ import { analyseSeries } from '../../core/report/series.js';
 import { buildReportHtml } from '../../core/report/html.js';
 import { TOOL_VERSION } from '../../core/version.js';
 import { toJsonText, writeFileAtomic } from '../io.js';
-import { thumbnailDataUri } from './thumb.js';
+import { pngDataUri, thumbnailPng } from './thumb.js';
 
 export const ENTRY_SCHEMA = 'fractozone.batch-entry/1';
 export const ERROR_SCHEMA = 'fractozone.batch-error/1';
@@ -36,6 +37,8 @@ export interface BatchBlock {
   strainRatePerS: number | null;
   material: string | null;
   overlay: string | null;
+  /** Report thumbnail path relative to OUT, or null. */
+  thumbnail: string | null;
   settingsSource: string;
 }
 
@@ -50,6 +53,9 @@ export function resultPath(out: string, safe: string): string {
 }
 export function overlayPath(out: string, safe: string): string {
   return join(out, 'overlays', `${safe}.png`);
+}
+export function thumbPath(out: string, safe: string): string {
+  return join(out, 'thumbs', `${safe}.png`);
 }
 
 /** Per-image record file names in OUT/results (no temp or hidden files), sorted. */
@@ -127,14 +133,19 @@ export function rebuildOutputs(out: string, warn: (m: string) => void = () => {}
   writeFileAtomic(join(out, 'results.jsonl'), toJsonLines(columns, rows));
   const thumbnails: Record<string, string> = {};
   for (const e of entries) {
+    const tp = thumbPath(out, e.safeName);
+    if (e.overlay && existsSync(tp)) {
+      thumbnails[e.safeName] = pngDataUri(new Uint8Array(readFileSync(tp)));
+      continue;
+    }
     if (!e.overlay) continue;
     const p = join(out, e.overlay);
     if (!existsSync(p)) {
       warn(`overlay ${e.overlay} is missing`);
       continue;
     }
-    const uri = thumbnailDataUri(new Uint8Array(readFileSync(p)));
-    if (uri) thumbnails[e.safeName] = uri;
+    const png = thumbnailPng(new Uint8Array(readFileSync(p)));
+    if (png) thumbnails[e.safeName] = pngDataUri(png);
   }
   const bf = readBatchFile(out);
   const html = buildReportHtml({

@@ -1,5 +1,6 @@
 /** The default batch processor: the measurement pipeline of src/core/pipeline. */
 import type { ImageProcessor } from './processor.js';
+import { thumbnailFromPixels } from './thumb.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
 
 interface PipelineModule {
@@ -7,8 +8,8 @@ interface PipelineModule {
     bytes: Uint8Array,
     input: { file: string; sha256: string },
     params: MeasureParams,
-  ): Promise<{ result: unknown; overlay: unknown }>;
-  encodeOverlayPng(overlay: unknown): Uint8Array;
+  ): Promise<{ result: unknown; overlay: { width: number; height: number; data: Uint8ClampedArray } | null }>;
+  encodeOverlayPng(overlay: { width: number; height: number; data: Uint8ClampedArray }): Uint8Array;
 }
 
 export async function createProcessor(): Promise<ImageProcessor> {
@@ -22,6 +23,10 @@ export async function createProcessor(): Promise<ImageProcessor> {
   }
   return async (bytes, input, params) => {
     const { result, overlay } = await mod.analyseImage(bytes, input, params);
-    return { result: result as Record<string, unknown>, overlayPng: overlay ? mod.encodeOverlayPng(overlay) : null };
+    return {
+      result: result as Record<string, unknown>,
+      overlayPng: overlay ? mod.encodeOverlayPng(overlay) : null,
+      thumbnailPng: overlay ? thumbnailFromPixels(overlay.width, overlay.height, overlay.data, 4) : null,
+    };
   };
 }

@@ -16,7 +16,7 @@ export interface PoolTask {
 }
 
 export type PoolOutcome =
-  | { ok: true; result: Record<string, unknown>; overlayPng: Uint8Array | null }
+  | { ok: true; result: Record<string, unknown>; overlayPng: Uint8Array | null; thumbnailPng: Uint8Array | null }
   | { ok: false; error: { code: string; message: string } };
 
 interface Slot {
@@ -63,9 +63,10 @@ export class WorkerPool {
         const b = slot.busy;
         slot.busy = null;
         const overlay = msg.overlayPng as Uint8Array | null | undefined;
+        const thumb = msg.thumbnailPng as Uint8Array | null | undefined;
         b.resolve(
           msg.ok
-            ? { ok: true, result: msg.result as Record<string, unknown>, overlayPng: overlay ? new Uint8Array(overlay) : null }
+            ? { ok: true, result: msg.result as Record<string, unknown>, overlayPng: overlay ? new Uint8Array(overlay) : null, thumbnailPng: thumb ? new Uint8Array(thumb) : null }
             : { ok: false, error: msg.error as { code: string; message: string } },
         );
         this.pump();

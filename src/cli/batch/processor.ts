@@ -17,6 +17,8 @@ export interface ProcessInput {
 export interface ProcessOutput {
   result: Record<string, unknown>;
   overlayPng: Uint8Array | null;
+  /** Optional ready-made report thumbnail (PNG ≤ 320 px wide); the worker makes one otherwise. */
+  thumbnailPng?: Uint8Array | null;
 }
 
 export type ImageProcessor = (bytes: Uint8Array, input: ProcessInput, params: MeasureParams) => Promise<ProcessOutput>;

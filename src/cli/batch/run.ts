@@ -20,7 +20,7 @@ import { discoverImages, type InputImage } from './discover.js';
 import { mergeSettings, readManifest, readSidecar, type ImageSettings, type Manifest } from './manifest.js';
 import { MaterialResolver, materialName } from './material.js';
 import { assignSafeNames } from './names.js';
-import { ENTRY_SCHEMA, ERROR_SCHEMA, overlayPath, readRecord, rebuildOutputs, resultPath, writeBatchFile, type BatchBlock } from './outputs.js';
+import { ENTRY_SCHEMA, ERROR_SCHEMA, overlayPath, readRecord, rebuildOutputs, resultPath, thumbPath, writeBatchFile, type BatchBlock } from './outputs.js';
 import { WorkerPool } from './pool.js';
 import { processorModuleUrl } from './processor.js';
 import { Progress, type ProgressCounts } from './progress.js';
@@ -99,7 +99,7 @@ function applySettings(defaults: MeasureParams, s: ImageSettings, materialRef: s
 
 /** Temp files of writes cut short by a kill (`.<name>.<pid>.<n>.tmp`, see io.ts writeFileAtomic). */
 function removeStaleTemps(out: string): void {
-  for (const d of [out, join(out, 'results'), join(out, 'overlays')]) {
+  for (const d of [out, join(out, 'results'), join(out, 'overlays'), join(out, 'thumbs')]) {
     if (!existsSync(d)) continue;
     for (const n of readdirSync(d)) if (/^\..+\.\d+\.\d+\.tmp$/.test(n)) rmSync(join(d, n), { force: true });
   }
@@ -179,11 +179,13 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
       strainRatePerS: o.defaults.strainRatePerS,
       material: materialName(o.defaults.material),
       overlay: null,
+      thumbnail: null,
       settingsSource: 'defaults',
     };
     const writeError = (code: string, message: string): void => {
       block.status = 'error';
       block.overlay = null;
+      block.thumbnail = null;
       writeFileAtomic(resultPath(out, safe), toJsonText({ schema: ERROR_SCHEMA, input: { file: inp.rel, sha256: block.sha256 }, error: { code, message }, batch: block }));
       finish('error');
     };
@@ -211,7 +213,8 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
         prev.batch.status !== 'error' &&
         prev.batch.sha256 === block.sha256 &&
         prev.batch.paramsSha256 === block.paramsSha256 &&
-        (prev.batch.overlay === null || existsSync(resolve(out, prev.batch.overlay)))
+        (prev.batch.overlay === null || existsSync(resolve(out, prev.batch.overlay))) &&
+        (!prev.batch.thumbnail || existsSync(resolve(out, prev.batch.thumbnail)))
       ) {
         finish('skipped');
         return;
@@ -224,6 +227,10 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
     }
     const band = outcome.result.band as { detected?: boolean } | undefined;
     block.status = band && band.detected === false ? 'no-band' : 'ok';
+    if (outcome.thumbnailPng) {
+      writeFileAtomic(thumbPath(out, safe), outcome.thumbnailPng);
+      block.thumbnail = `thumbs/${safe}.png`;
+    }
     if (outcome.overlayPng) {
       writeFileAtomic(overlayPath(out, safe), outcome.overlayPng);
       block.overlay = `overlays/${safe}.png`;

@@ -1,40 +1,18 @@
 /**
  * Overlay thumbnails for the HTML report: the overlay PNG downscaled to at most 320 px wide by box
- * (area) averaging, re-encoded as an 8-bit RGB PNG, returned as a data: URI.
+ * (area) averaging, re-encoded as an 8-bit RGB PNG. Made in the worker (in parallel) and stored as
+ * OUT/thumbs/<safe>.png; the report embeds it as a data: URI.
  */
 import { decode, encode } from 'fast-png';
 
 export const THUMB_WIDTH = 320;
 
 /**
- * @param png overlay PNG bytes (gray, gray+alpha, RGB or RGBA; 8 or 16 bit; palette)
- * @param maxWidth thumbnail width in px (default 320)
- * @returns `data:image/png;base64,…`, or null when the PNG cannot be read
+ * Box-filter downscale of interleaved 8/16-bit pixels to an RGB PNG at most `maxWidth` wide.
+ * @param w, h size in px; `ch` channels (1 gray, 2 gray+alpha, 3 RGB, 4 RGBA; alpha ignored)
+ * @param maxV the value of full intensity (255 for 8 bit, 65535 for 16 bit)
  */
-export function thumbnailDataUri(png: Uint8Array, maxWidth = THUMB_WIDTH): string | null {
-  let img;
-  try {
-    img = decode(png);
-  } catch {
-    return null;
-  }
-  const { width: w, height: h } = img;
-  let ch = img.channels;
-  let data = img.data as ArrayLike<number>;
-  if (img.palette) {
-    const pal = img.palette;
-    const idx = img.data;
-    const rgb = new Uint8Array(w * h * 3);
-    for (let i = 0; i < w * h; i++) {
-      const p = pal[idx[i]] ?? [0, 0, 0];
-      rgb[i * 3] = p[0];
-      rgb[i * 3 + 1] = p[1];
-      rgb[i * 3 + 2] = p[2];
-    }
-    data = rgb;
-    ch = 3;
-  }
-  const maxV = img.depth === 16 && !img.palette ? 65535 : img.depth < 8 && !img.palette ? 2 ** img.depth - 1 : 255;
+export function thumbnailFromPixels(w: number, h: number, data: ArrayLike<number>, ch: number, maxV = 255, maxWidth = THUMB_WIDTH): Uint8Array {
   const scale = Math.min(1, maxWidth / w);
   const tw = Math.max(1, Math.round(w * scale));
   const th = Math.max(1, Math.round(h * scale));
@@ -71,6 +49,39 @@ export function thumbnailDataUri(png: Uint8Array, maxWidth = THUMB_WIDTH): strin
       out[q + 2] = Math.round(b * k);
     }
   }
-  const bytes = encode({ width: tw, height: th, data: out, channels: 3, depth: 8 });
-  return `data:image/png;base64,${Buffer.from(bytes).toString('base64')}`;
+  return encode({ width: tw, height: th, data: out, channels: 3, depth: 8 });
+}
+
+/**
+ * @param png overlay PNG bytes (gray, gray+alpha, RGB or RGBA; 8 or 16 bit; palette)
+ * @param maxWidth thumbnail width in px (default 320)
+ * @returns the thumbnail PNG, or null when the PNG cannot be read
+ */
+export function thumbnailPng(png: Uint8Array, maxWidth = THUMB_WIDTH): Uint8Array | null {
+  let img;
+  try {
+    img = decode(png);
+  } catch {
+    return null;
+  }
+  const { width: w, height: h } = img;
+  if (img.palette) {
+    const pal = img.palette;
+    const idx = img.data;
+    const rgb = new Uint8Array(w * h * 3);
+    for (let i = 0; i < w * h; i++) {
+      const p = pal[idx[i]] ?? [0, 0, 0];
+      rgb[i * 3] = p[0];
+      rgb[i * 3 + 1] = p[1];
+      rgb[i * 3 + 2] = p[2];
+    }
+    return thumbnailFromPixels(w, h, rgb, 3, 255, maxWidth);
+  }
+  if (img.depth < 8) return null; // 1/2/4-bit gray overlays are not produced by fractozone
+  return thumbnailFromPixels(w, h, img.data as ArrayLike<number>, img.channels, img.depth === 16 ? 65535 : 255, maxWidth);
+}
+
+/** `data:image/png;base64,…` of a PNG. */
+export function pngDataUri(png: Uint8Array): string {
+  return `data:image/png;base64,${Buffer.from(png).toString('base64')}`;
 }

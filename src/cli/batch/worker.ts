@@ -7,6 +7,7 @@ import { parentPort, workerData } from 'node:worker_threads';
 import { loadCvNode } from '../cv-node.js';
 import { isFractozoneError } from '../../core/errors.js';
 import { loadProcessor, type ProcessInput } from './processor.js';
+import { thumbnailPng } from './thumb.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
 
 interface TaskMsg {
@@ -25,9 +26,12 @@ async function main(): Promise<void> {
   port.on('message', (msg: TaskMsg) => {
     if (msg.type !== 'task') return;
     proc(msg.bytes, msg.input, msg.params).then(
-      ({ result, overlayPng }) => {
-        const transfer = overlayPng && overlayPng.byteOffset === 0 && overlayPng.byteLength === overlayPng.buffer.byteLength ? [overlayPng.buffer as ArrayBuffer] : [];
-        port.postMessage({ type: 'done', id: msg.id, ok: true, result, overlayPng }, transfer);
+      (o) => {
+        const overlayPng = o.overlayPng;
+        const thumb = o.thumbnailPng ?? (overlayPng ? thumbnailPng(overlayPng) : null);
+        const whole = (b: Uint8Array | null | undefined): b is Uint8Array => !!b && b.byteOffset === 0 && b.byteLength === b.buffer.byteLength;
+        const transfer = [overlayPng, thumb].filter(whole).map((b) => b.buffer as ArrayBuffer);
+        port.postMessage({ type: 'done', id: msg.id, ok: true, result: o.result, overlayPng, thumbnailPng: thumb }, [...new Set(transfer)]);
       },
       (e: unknown) => {
         const error = isFractozoneError(e)
