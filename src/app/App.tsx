@@ -55,6 +55,7 @@ function overlayCanvas(w: number, h: number, values: Uint8Array): HTMLCanvasElem
 
 let docCounter = 0;
 
+/** The app: tool column, image view, results column, help overlay; engine in a worker. */
 export function App() {
   const [state, setState] = useState<AppState>(initialState);
   const stateRef = useRef(state);

@@ -10,6 +10,7 @@ import { TOOL_NAME, TOOL_VERSION } from '../core/version.js';
 
 export const SESSION_SCHEMA = 'fractozone.session/1';
 
+/** Result JSON text exactly as the CLI writes it (2-space indent, trailing newline). */
 export function resultJsonText(result: Record<string, unknown>): string {
   return JSON.stringify(result, null, 2) + '\n';
 }

@@ -43,6 +43,12 @@ describe.skipIf(SKIP_E2E)('web app extras in Chromium', () => {
     await page.mouse.move(box.x + view.x + 400 * view.scale, box.y + view.y + 300 * view.scale);
     await expect.poll(() => page.getByTestId('readout').textContent()).toMatch(/x 400\.0 px, y 300\.0 px\s+—\s+x 3000 µm, y 2250 µm/);
 
+    // wheel zooms about the cursor: the image point under it stays put
+    await page.mouse.wheel(0, -300);
+    await expect.poll(async () => JSON.parse((await page.getByTestId('stage-wrap').getAttribute('data-view')) ?? '{}').scale).toBeGreaterThan(view.scale);
+    await expect.poll(() => page.getByTestId('readout').textContent()).toMatch(/x 400\.0 px, y 300\.0 px/);
+    await page.getByTestId('zoom-fit').click();
+
     // typed pixel size becomes the active source
     await page.getByTestId('typed-um').fill('7.5');
     await page.getByText('Set', { exact: true }).click();

@@ -27,6 +27,7 @@ export interface ImageViewProps {
   onStage?(stage: Konva.Stage | null): void;
 }
 
+/** Konva image view of one document (pure rendering of `doc` + local view transform). */
 export function ImageView(props: ImageViewProps) {
   const { doc, tool, width, height } = props;
   const stageRef = useRef<Konva.Stage | null>(null);
@@ -135,6 +136,9 @@ export function ImageView(props: ImageViewProps) {
 
   return (
     <div className="stage-wrap" data-testid="stage-wrap" data-view={JSON.stringify(view)}>
+    <button className="zoom-fit" data-testid="zoom-fit" title="Fit the image to the view" onClick={() => setView(fitView(doc.widthPx, doc.heightPx, width, height))}>
+      Fit
+    </button>
     <Stage
       ref={(s) => {
         stageRef.current = s;

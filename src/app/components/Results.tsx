@@ -28,6 +28,7 @@ function NumField(props: { label: string; unit: string; value: number | null; on
   );
 }
 
+/** Width statistics of a result (every number with its unit, µm). */
 export function StatsTable({ result }: { result: ResultView & Record<string, unknown> }) {
   const w = (result.band?.widthUm ?? {}) as Record<string, unknown>;
   const ci = w.ci95 as [number, number] | undefined;
@@ -68,6 +69,7 @@ export interface ResultsProps {
   onOpenSession(file: File): void;
 }
 
+/** The results column: statistics, plots, material form, comparison with L, exports, caution. */
 export function Results({ doc, onMaterial, onMaterialDone, onMaterialFile, onExport, onOpenSession }: ResultsProps) {
   const r = (doc?.result ?? null) as (ResultView & Record<string, unknown>) | null;
   const plots = useMemo(() => {

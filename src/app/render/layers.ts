@@ -29,6 +29,7 @@ export interface OverlayShapes {
 
 const flat = (poly: readonly PointPx[]): number[] => poly.flatMap((p) => [p.x, p.y]);
 
+/** Outline handles (px): centre and the ends of the two semi-axes (angle convention: CCW on screen). */
 export function outlineHandlesOf(doc: Doc): OverlayShapes['outlineHandles'] {
   const o = doc.outline;
   if (!o) return null;
@@ -40,6 +41,7 @@ export function outlineHandlesOf(doc: Doc): OverlayShapes['outlineHandles'] {
   };
 }
 
+/** Shapes of the overlay and handle layers for a document and the active tool (pure). */
 export function overlayShapes(doc: Doc, tool: string): OverlayShapes {
   const outlinePoly = doc.outlineEdited && doc.outline ? ellipsePolygon(doc.outline, 180) : doc.outerPolygon;
   const center = doc.outline ? { x: doc.outline.cx, y: doc.outline.cy } : null;

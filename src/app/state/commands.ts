@@ -49,6 +49,7 @@ export function keyOf(e: { key: string; ctrlKey?: boolean; metaKey?: boolean; sh
   return parts.join('+');
 }
 
+/** The command bound to a key event, if any. */
 export function commandForKey(e: Parameters<typeof keyOf>[0]): Command | undefined {
   const k = keyOf(e);
   return COMMANDS.find((c) => c.key === k);

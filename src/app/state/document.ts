@@ -88,6 +88,7 @@ export interface Doc {
   error: string | null;
 }
 
+/** Analysis settings equal to core's defaultParams (automatic window, 360 rays, seed 1). */
 export function defaultSettings(): AnalysisSettings {
   return {
     windowUm: null,
@@ -100,6 +101,7 @@ export function defaultSettings(): AnalysisSettings {
   };
 }
 
+/** Empty material form (no comparison until K_c and σ0 are typed), reference L, tolerance 20 %. */
 export function defaultMaterial(): MaterialForm {
   return {
     name: '',
@@ -116,6 +118,7 @@ export function defaultMaterial(): MaterialForm {
   };
 }
 
+/** A new document for an opened image; the metadata scale (µm/px) is the initial scale when present. */
 export function newDoc(init: {
   id: string;
   name: string;

@@ -10,6 +10,7 @@ export function angleDeg(c: PointPx, p: PointPx): number {
   return a < 0 ? a + 360 : a;
 }
 
+/** Polygon with vertex `i` moved to `p` (px); a new array, the input is not changed. */
 export function moveVertex(poly: readonly PointPx[], i: number, p: PointPx): PointPx[] {
   if (i < 0 || i >= poly.length) return [...poly];
   const out = poly.map((q) => ({ ...q }));

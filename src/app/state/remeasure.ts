@@ -25,6 +25,10 @@ export function remeasureRequestOf(doc: Doc): RemeasureRequest {
   return req;
 }
 
+/**
+ * Re-measure dispatcher around an engine call `fn`; `onResult` / `onError` receive only the answer
+ * to the latest request per document.
+ */
 export function createRemeasurer(fn: RemeasureFn, onResult: (docId: string, result: Record<string, unknown>) => void, onError: (docId: string, e: Error) => void) {
   const latest = new Map<string, number>();
   let counter = 0;

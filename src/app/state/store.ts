@@ -41,6 +41,7 @@ export interface AppState {
 
 export const HISTORY_LIMIT = 200;
 
+/** Empty state: no documents, empty history, point tool. */
 export function initialState(): AppState {
   return {
     docs: [],
@@ -52,6 +53,7 @@ export function initialState(): AppState {
   };
 }
 
+/** The document shown, or null. */
 export function activeDoc(s: AppState): Doc | null {
   return s.docs.find((d) => d.id === s.activeId) ?? null;
 }
@@ -121,13 +123,16 @@ export function endDrag(s: AppState): AppState {
   return pushEntry(cleared, { docId: drag.docId, label: drag.label, undo: drag.before, redo });
 }
 
+/** True when there is something to undo (including an open drag). */
 export function canUndo(s: AppState): boolean {
   return s.undo.length > 0 || s.drag !== null;
 }
+/** True when there is something to redo. */
 export function canRedo(s: AppState): boolean {
   return s.redo.length > 0;
 }
 
+/** Undo the last entry (closing an open drag first): applies its inverse delta. */
 export function undo(s: AppState): AppState {
   s = endDrag(s);
   const e = s.undo[s.undo.length - 1];
@@ -136,6 +141,7 @@ export function undo(s: AppState): AppState {
   return { ...next, activeId: e.docId, undo: s.undo.slice(0, -1), redo: [...s.redo, e] };
 }
 
+/** Redo the last undone entry: applies its delta again. */
 export function redo(s: AppState): AppState {
   const e = s.redo[s.redo.length - 1];
   if (!e) return s;
@@ -143,10 +149,12 @@ export function redo(s: AppState): AppState {
   return { ...next, activeId: e.docId, redo: s.redo.slice(0, -1), undo: [...s.undo, e] };
 }
 
+/** Adds a document and shows it (opening is not an undoable edit). */
 export function addDoc(s: AppState, doc: Doc): AppState {
   return { ...s, docs: [...s.docs, doc], activeId: doc.id };
 }
 
+/** Closes a document and drops its history entries. */
 export function removeDoc(s: AppState, docId: string): AppState {
   const docs = s.docs.filter((d) => d.id !== docId);
   return {
@@ -159,10 +167,12 @@ export function removeDoc(s: AppState, docId: string): AppState {
   };
 }
 
+/** Updates view settings (tool, overlay, help); never enters the history. */
 export function setView(s: AppState, v: Partial<ViewState>): AppState {
   return { ...s, view: { ...s.view, ...v } };
 }
 
+/** Shows the next (+1) or previous (−1) document of the list, wrapping around. */
 export function step(s: AppState, delta: 1 | -1): AppState {
   if (s.docs.length === 0) return s;
   const i = Math.max(0, s.docs.findIndex((d) => d.id === s.activeId));

@@ -6,6 +6,7 @@ import type { EngineReplies, EngineRequest, ResponseMessage } from './protocol.j
 
 export type Progress = (stage: string, fraction: number) => void;
 
+/** An error reported by the engine worker, with the engine's stable code. */
 export class EngineError extends Error {
   constructor(
     readonly code: string,
@@ -20,6 +21,7 @@ export interface Engine {
   terminate(): void;
 }
 
+/** Starts the engine worker; `globalProgress` receives every progress message. */
 export function createEngine(globalProgress?: Progress): Engine {
   const worker = new Worker(new URL('./engine.worker.ts', import.meta.url), { type: 'module', name: 'fractozone-engine' });
   let next = 1;
