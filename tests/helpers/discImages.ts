@@ -4,7 +4,7 @@
  * core. Pixel centres are classified by exact geometry, so the truth radii are known.
  */
 import { createRaster, type GrayRaster } from '../../src/core/image/raster.js';
-import { seededUniform } from '../../src/core/measure/rng.js';
+import { createRng } from '../../src/core/random.js';
 
 export interface DiscImageOptions {
   width?: number;
@@ -51,7 +51,8 @@ export function makeDiscImage(o: DiscImageOptions = {}): DiscImage {
     const th = (t * Math.PI) / 180;
     return (A * B) / Math.hypot(B * Math.cos(th), A * Math.sin(th));
   }
-  const rnd = seededUniform(o.seed ?? 3);
+  const rng = createRng(o.seed ?? 3);
+  const rnd = (): number => rng.nextFloat();
   const gauss = (): number => {
     const u = 1 - rnd();
     const v = rnd();

@@ -6,4 +6,3 @@ export { measureBand, measureFromPolygons, createBandMeasurer, isExcluded } from
 export type { WidthStatistics, WidthStatisticsOptions } from './statistics.js';
 export { widthStatistics, autocorrelation, lag1Autocorrelation, effectiveSampleSize, effectiveSampleSizeOf, robustOutlierFlags } from './statistics.js';
 export { studentTCdf, studentTInv, incompleteBeta, lnGamma } from './tdist.js';
-export { seededUniform } from './rng.js';

@@ -3,7 +3,7 @@
  * that respect the correlation between neighbouring rays.
  */
 import { mean as ssMean, median as ssMedian, quantileSorted, sampleStandardDeviation, medianAbsoluteDeviation } from 'simple-statistics';
-import { seededUniform } from './rng.js';
+import { createRng } from '../random.js';
 import { studentTInv } from './tdist.js';
 
 /** Options of {@link widthStatistics}. */
@@ -219,7 +219,8 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
   const B = opts.bootstrap ?? 2000;
   let ci95Median: [number, number] | null = null;
   if (B > 0 && n >= 2) {
-    const rnd = seededUniform(opts.seed ?? 1);
+    const rng = createRng(opts.seed ?? 1);
+    const rnd = (): number => rng.nextFloat();
     const meds = new Float64Array(B);
     const buf = new Float64Array(n);
     for (let b = 0; b < B; b++) {
