@@ -44,3 +44,27 @@ describe('boundary geometry', () => {
     expect(o.angleDeg).toBeCloseTo(30, 3);
   });
 });
+
+import { transformOutline } from '../../src/app/state/params.js';
+
+describe('outline handles', () => {
+  it('moving the centre translates the detected polygon; stretching a scales along the axis', () => {
+    const base = { cx: 50, cy: 50, rx: 20, ry: 20, angleDeg: 0 };
+    const poly = [
+      { x: 70, y: 50 },
+      { x: 50, y: 30 },
+      { x: 30, y: 50 },
+      { x: 50, y: 71 },
+    ];
+    const moved = transformOutline(poly, base, { ...base, cx: 55, cy: 48 });
+    expect(moved[3].x).toBeCloseTo(55, 12);
+    expect(moved[3].y).toBeCloseTo(69, 12);
+    const stretched = transformOutline(poly, base, { ...base, rx: 30 });
+    expect(stretched[0].x).toBeCloseTo(80, 12);
+    expect(stretched[1].y).toBeCloseTo(30, 12); // the minor axis (up on screen) is unchanged
+    // rotating by 90° (counter-clockwise on screen) takes +x to up (−y)
+    const rotated = transformOutline(poly, base, { ...base, angleDeg: 90 });
+    expect(rotated[0].x).toBeCloseTo(50, 12);
+    expect(rotated[0].y).toBeCloseTo(30, 12);
+  });
+});

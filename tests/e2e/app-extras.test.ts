@@ -56,7 +56,11 @@ describe.skipIf(SKIP_E2E)('web app extras in Chromium', () => {
 
     await page.getByTestId('analyse').click();
     await page.getByTestId('stats-table').waitFor({ timeout: 120_000 });
-    const meanOf = async () => Number(await page.getByTestId('stat-mean').getAttribute('data-value'));
+    // the mean shown once the latest re-measure has come back (no update pending)
+    const meanOf = async () => {
+      await page.locator('[data-testid=stats-table][data-stale=false]').waitFor({ timeout: 30_000 });
+      return Number(await page.getByTestId('stat-mean').getAttribute('data-value'));
+    };
     const mean = await meanOf();
     expect(mean).toBeGreaterThan(0);
 
@@ -90,6 +94,23 @@ describe.skipIf(SKIP_E2E)('web app extras in Chromium', () => {
     await expect.poll(meanOf, { timeout: 30_000 }).toBeCloseTo(before, 6);
     await page.getByTestId('open-session').setInputFiles(sessionPath);
     await expect.poll(meanOf, { timeout: 30_000 }).toBeCloseTo(withSector, 6);
+
+    // outline tool: dragging the centre handle moves the outline → re-measured without re-segmenting
+    const beforeOutline = await meanOf();
+    await page.keyboard.press('o');
+    const v2 = JSON.parse((await page.getByTestId('stage-wrap').getAttribute('data-view')) ?? '{}') as { scale: number; x: number; y: number };
+    const dlRes = page.waitForEvent('download');
+    await page.getByTestId('export-json').click();
+    const res = JSON.parse(readFileSync(await (await dlRes).path(), 'utf8')) as { specimen: { outline: { x: number; y: number }[] } };
+    const cx = res.specimen.outline.reduce((a, p) => a + p.x, 0) / res.specimen.outline.length;
+    const cy = res.specimen.outline.reduce((a, p) => a + p.y, 0) / res.specimen.outline.length;
+    const hx = box.x + v2.x + cx * v2.scale;
+    const hy = box.y + v2.y + cy * v2.scale;
+    await page.mouse.move(hx, hy);
+    await page.mouse.down();
+    for (let k = 1; k <= 5; k++) await page.mouse.move(hx + 3 * k, hy);
+    await page.mouse.up();
+    await expect.poll(meanOf, { timeout: 30_000 }).not.toBe(beforeOutline);
 
     // CSV row and HTML report
     const dlCsv = page.waitForEvent('download');

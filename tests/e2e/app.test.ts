@@ -59,7 +59,11 @@ describe.skipIf(SKIP_E2E)('web app in Chromium', () => {
     await page.getByTestId('analyse').click();
     await page.getByTestId('stats-table').waitFor({ timeout: 120_000 });
     await page.screenshot({ path: '/tmp/fractozone-e2e-analysed.png' });
-    const meanOf = async () => Number(await page.getByTestId('stat-mean').getAttribute('data-value'));
+    // the mean shown once the latest re-measure has come back (no update pending)
+    const meanOf = async () => {
+      await page.locator('[data-testid=stats-table][data-stale=false]').waitFor({ timeout: 30_000 });
+      return Number(await page.getByTestId('stat-mean').getAttribute('data-value'));
+    };
     const mean = await meanOf();
     // truth: the renderer's exact mean band width (same geometry tables as the pixels)
     expect(Math.abs(mean - truth.band.meanWidthUm) / truth.band.meanWidthUm).toBeLessThan(0.04);
@@ -74,7 +78,7 @@ describe.skipIf(SKIP_E2E)('web app in Chromium', () => {
     // dist/ (CLI) and dist-app/ must come from the same sources: `npm test` builds both first
     expect(reproducible(exported), 'app and CLI results differ (stale build? run npm run build && npm run build:app)').toEqual(reproducible(fromCli));
 
-    // drag one boundary point outwards by 40 screen px → statistics change; undo restores them
+    // drag one boundary point 40 screen px towards the centre → statistics change; undo restores them
     const view = JSON.parse((await page.getByTestId('stage-wrap').getAttribute('data-view')) ?? '{}') as { scale: number; x: number; y: number };
     const box = (await page.getByTestId('stage-wrap').boundingBox())!;
     const band = exported.band as { boundary: { polygon: { x: number; y: number }[] } };
@@ -87,12 +91,12 @@ describe.skipIf(SKIP_E2E)('web app in Chromium', () => {
     const uy = (v.y - centre.y) / len;
     await page.mouse.move(sx, sy);
     await page.mouse.down();
-    for (let k = 1; k <= 8; k++) await page.mouse.move(sx + ux * 5 * k, sy + uy * 5 * k);
+    for (let k = 1; k <= 8; k++) await page.mouse.move(sx - ux * 5 * k, sy - uy * 5 * k);
     await page.mouse.up();
     await expect.poll(meanOf, { timeout: 30_000 }).not.toBe(mean);
     const edited = await meanOf();
-    // moving a boundary point towards the outline narrows the rim on that ray: the mean drops
-    expect(edited).toBeLessThan(mean);
+    // moving a boundary point towards the centre widens the rim on the rays next to it: the mean rises
+    expect(edited).toBeGreaterThan(mean);
     await page.screenshot({ path: '/tmp/fractozone-e2e-edited.png' });
 
     await page.locator('body').click({ position: { x: 5, y: 5 } });

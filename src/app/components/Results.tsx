@@ -29,7 +29,7 @@ function NumField(props: { label: string; unit: string; value: number | null; on
 }
 
 /** Width statistics of a result (every number with its unit, µm). */
-export function StatsTable({ result }: { result: ResultView & Record<string, unknown> }) {
+export function StatsTable({ result, stale }: { result: ResultView & Record<string, unknown>; stale: boolean }) {
   const w = (result.band?.widthUm ?? {}) as Record<string, unknown>;
   const ci = w.ci95 as [number, number] | undefined;
   const mci = w.medianCi95 as [number, number] | undefined;
@@ -44,7 +44,7 @@ export function StatsTable({ result }: { result: ResultView & Record<string, unk
     ['min / max', `${f(w.min)} / ${f(w.max)} µm`, 'mm'],
   ];
   return (
-    <table className="stats" data-testid="stats-table">
+    <table className={`stats${stale ? ' stale' : ''}`} data-testid="stats-table" data-stale={stale ? 'true' : 'false'}>
       <tbody>
         {rows.map(([k, v, id]) => (
           <tr key={k}>
@@ -102,7 +102,7 @@ export function Results({ doc, onMaterial, onMaterialDone, onMaterialFile, onExp
                 No rim band found{r.band.reason ? `: ${r.band.reason}` : ''}. Correct the scale or draw the boundary by hand.
               </p>
             )}
-            <StatsTable result={r} />
+            <StatsTable result={r} stale={Boolean(doc?.resultStale)} />
             {Array.isArray(r.warnings) && r.warnings.length > 0 && (
               <ul className="warnings">
                 {r.warnings.map((w, i) => (

@@ -4,7 +4,7 @@
  */
 import type { PointPx } from '../../core/pipeline/types.js';
 import type { Doc } from '../state/document.js';
-import { ellipsePolygon } from '../state/params.js';
+import { outlinePolygonOf } from '../state/params.js';
 
 export interface SectorShape {
   index: number;
@@ -43,7 +43,7 @@ export function outlineHandlesOf(doc: Doc): OverlayShapes['outlineHandles'] {
 
 /** Shapes of the overlay and handle layers for a document and the active tool (pure). */
 export function overlayShapes(doc: Doc, tool: string): OverlayShapes {
-  const outlinePoly = doc.outlineEdited && doc.outline ? ellipsePolygon(doc.outline, 180) : doc.outerPolygon;
+  const outlinePoly = outlinePolygonOf(doc);
   const center = doc.outline ? { x: doc.outline.cx, y: doc.outline.cy } : null;
   const reach = doc.outline ? Math.max(doc.outline.rx, doc.outline.ry) * 1.15 : 0;
   const sectors: SectorShape[] = center

@@ -114,7 +114,7 @@ export function ellipsePolygon(o: Outline, n = 360): PointPx[] {
   return out;
 }
 
-/** Ellipse outline from a polygon: centroid and mean radii along the principal axes (moments). */
+/** Ellipse outline from a polygon: centroid, principal axes and semi-axes from the second moments. */
 export function outlineFromPolygon(poly: PointPx[]): Outline | null {
   if (poly.length < 3) return null;
   let cx = 0;
@@ -138,13 +138,48 @@ export function outlineFromPolygon(poly: PointPx[]): Outline | null {
   const angle = 0.5 * Math.atan2(2 * sxy, sxx - syy);
   const c = Math.cos(angle);
   const s = Math.sin(angle);
-  let ra = 0;
-  let rb = 0;
+  // second moments along the principal axes; for points spread evenly around an ellipse the mean
+  // of cos² is 1/2, so the semi-axis is √(2·moment)
+  let ma = 0;
+  let mb = 0;
   for (const q of poly) {
     const dx = q.x - cx;
     const dy = -(q.y - cy);
-    ra = Math.max(ra, Math.abs(dx * c + dy * s));
-    rb = Math.max(rb, Math.abs(-dx * s + dy * c));
+    ma += (dx * c + dy * s) ** 2;
+    mb += (-dx * s + dy * c) ** 2;
   }
+  const ra = Math.sqrt((2 * ma) / poly.length);
+  const rb = Math.sqrt((2 * mb) / poly.length);
   return { cx, cy, rx: ra, ry: rb, angleDeg: (angle * 180) / Math.PI };
+}
+
+/**
+ * Moves a detected outline polygon with its ellipse handles: the affine map that takes the ellipse
+ * `from` to the ellipse `to` (translate, rotate, stretch along the axes), applied to every vertex.
+ * Keeps the real shape of the edge instead of replacing it with an ellipse.
+ */
+export function transformOutline(poly: readonly PointPx[], from: Outline, to: Outline): PointPx[] {
+  const t0 = (from.angleDeg * Math.PI) / 180;
+  const t1 = (to.angleDeg * Math.PI) / 180;
+  const sa = from.rx > 0 ? to.rx / from.rx : 1;
+  const sb = from.ry > 0 ? to.ry / from.ry : 1;
+  const c0 = Math.cos(t0);
+  const s0 = Math.sin(t0);
+  const c1 = Math.cos(t1);
+  const s1 = Math.sin(t1);
+  return poly.map((p) => {
+    const mx = p.x - from.cx;
+    const my = -(p.y - from.cy); // y up (counter-clockwise on screen)
+    const u = (mx * c0 + my * s0) * sa;
+    const v = (-mx * s0 + my * c0) * sb;
+    return { x: to.cx + u * c1 - v * s1, y: to.cy - (u * s1 + v * c1) };
+  });
+}
+
+/** The outline polygon in use (px): the detected one, moved by the outline handles when edited. */
+export function outlinePolygonOf(doc: Doc): PointPx[] | null {
+  if (!doc.outlineEdited || !doc.outline) return doc.outerPolygon;
+  const base = doc.outerPolygon ? outlineFromPolygon(doc.outerPolygon) : null;
+  if (doc.outerPolygon && base) return transformOutline(doc.outerPolygon, base, doc.outline);
+  return ellipsePolygon(doc.outline, Math.max(360, doc.settings.nRays));
 }

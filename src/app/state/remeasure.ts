@@ -5,7 +5,7 @@
  */
 import type { MeasureParams, PointPx } from '../../core/pipeline/types.js';
 import type { Doc } from './document.js';
-import { ellipsePolygon, paramsOf } from './params.js';
+import { outlinePolygonOf, paramsOf } from './params.js';
 
 export interface RemeasureRequest {
   docId: string;
@@ -20,7 +20,8 @@ export function remeasureRequestOf(doc: Doc): RemeasureRequest {
   const params = paramsOf(doc, { withBoundary: true });
   const req: RemeasureRequest = { docId: doc.id, params };
   if (doc.outlineEdited && doc.outline) {
-    req.geometry = { outerPolygon: ellipsePolygon(doc.outline, Math.max(360, doc.settings.nRays)), center: { x: doc.outline.cx, y: doc.outline.cy } };
+    const outerPolygon = outlinePolygonOf(doc);
+    if (outerPolygon) req.geometry = { outerPolygon, center: { x: doc.outline.cx, y: doc.outline.cy } };
   }
   return req;
 }
