@@ -12,7 +12,7 @@ import { FractozoneError, isFractozoneError } from '../errors.js';
 import type { GrayRaster } from '../image/raster.js';
 import { decodeImage, type DecodedImage } from '../decode/index.js';
 import { chooseScale, detectScaleBar, type Scale, type ScaleBar } from '../calibrate/index.js';
-import { computeFeaturesAt, defaultWindowUm, windowPxFromUm, isFeatureName, type FeatureName, gradientEnergyPointwise } from '../texture/index.js';
+import { computeFeaturesAt, defaultWindowUm, windowPxFromUm, isFeatureName, type FeatureName, gradientEnergyPointwise, boxMean } from '../texture/index.js';
 import { findSpecimen, classifyRimCore, refineBoundary, refineOuterEdge, type Specimen, type RimCoreResult } from '../segment/index.js';
 import { measureBand, type BandProfile } from '../measure/index.js';
 import { resolveCriticalDistance, compareWidthWithL, impliedToughness } from '../tcd/index.js';
@@ -26,6 +26,9 @@ import { RESULT_SCHEMA, type MeasureParams, type PointPx, type RayResult, type W
 export const CAUTION =
   'Measurements and critical-distance estimates from this tool support, and do not replace, the judgement of a qualified engineer. ' +
   'Structural assessment must follow the applicable codes, standards and the responsible organisation\'s procedures.';
+
+/** How each feature scales with a multiplicative brightness change (see classifyRimCore). */
+const GAIN_POWER: Record<string, number> = { localStd: 1, localVariance: 2, gradientEnergy: 2, highPassEnergy: 2, localEntropy: 0 };
 
 /** Long side (px) of the working raster on which the texture features are classified. */
 export const WORKING_LONG_SIDE_PX = 1600;
@@ -205,6 +208,7 @@ function bandBlock(
   scale: { x: number; y: number },
   imageSize: { width: number; height: number },
   p: MeasureParams,
+  minWidthPx: number,
 ): { band: BandProfile; block: Pick<MeasureResult['band'], 'widthUm' | 'normalWidthUm' | 'areaEquivalentWidthUm' | 'nRays' | 'nValid' | 'nOutliers' | 'profile'> } {
   const band = measureBand({
     outer,
@@ -214,6 +218,7 @@ function bandBlock(
     nRays: p.nRays,
     exclude: p.exclude,
     imageSize,
+    minWidthPx,
     outlierK: p.outlierK,
     dropOutliers: p.dropOutliers,
     seed: p.seed,
@@ -234,6 +239,14 @@ function bandBlock(
       profile: rayResults(band, scale),
     },
   };
+}
+
+/**
+ * Rays whose automatic boundary lies closer than 0.75 texture window to the outer edge are read as
+ * "band absent" (the band cannot be resolved below the window); a manual boundary is taken as drawn.
+ */
+function minWidthPxFor(r: MeasureResult): number {
+  return r.resolved.boundarySource === 'auto' ? 0.75 * r.resolved.windowPx : 0;
 }
 
 /** Critical distance and comparison blocks, when a material or typed values are given. */
@@ -359,7 +372,10 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     const fa = computeFeaturesAt(raster, { scaleFactor: factor, windowPx: windowPxWork, features: p.features as FeatureName[] });
     T.lap('texture', 'rim/core boundary', 0.55);
     const feats = p.features.map((n) => fa.features[n as FeatureName] as GrayRaster);
-    rimCore = classifyRimCore(specimen, feats, { windowPx: windowPxFull, featureScale: fa.scaleX, center });
+    const transforms = p.features.map((n) => (n === 'localEntropy' ? 'identity' : 'log') as 'log' | 'identity');
+    const gainPowers = p.features.map((n) => GAIN_POWER[n] ?? 0);
+    const brightness = boxMean(fa.raster, windowPxWork);
+    rimCore = classifyRimCore(specimen, feats, { windowPx: windowPxFull, featureScale: fa.scaleX, center, transforms, brightness, gainPowers });
     for (const w of rimCore.warnings) warnings.push(w);
     if (!rimCore.detected || !rimCore.boundary) {
       detected = false;
@@ -465,7 +481,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
 
   let band: BandProfile | null = null;
   if (result.band.boundary) {
-    const m = bandBlock(outline, result.band.boundary.polygon, result.specimen.center, s, { width: raster.width, height: raster.height }, p);
+    const m = bandBlock(outline, result.band.boundary.polygon, result.specimen.center, s, { width: raster.width, height: raster.height }, p, minWidthPxFor(result));
     band = m.band;
     Object.assign(result.band, m.block);
     if (!m.block.widthUm) {
@@ -523,6 +539,7 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       { x: result.scale.umPerPxX, y: result.scale.umPerPxY },
       { width: result.input.widthPx, height: result.input.heightPx },
       p,
+      minWidthPxFor(result),
     );
     Object.assign(result.band, m.block);
     result.band.detected = m.block.widthUm !== null;

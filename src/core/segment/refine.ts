@@ -236,7 +236,12 @@ export function refineBoundary(
       nFallback++;
       continue;
     }
-    const mid = 0.5 * (eR + eC);
+    // 'box': midpoint of the linear energy levels. 'step': the profile is a log-variance (robust
+    // to outliers), but the level is the midpoint of the two STANDARD DEVIATIONS mapped back to
+    // log-variance: across a fuzzy boundary the texture amplitude blends about linearly, so the
+    // std midpoint sits at the 50 % blend (the plain log midpoint sat ~0.6 px towards the rim on
+    // rendered images, i.e. −1.3 % on a 400 µm band at 8.5 µm/px).
+    const mid = method === 'box' ? 0.5 * (eR + eC) : 2 * Math.log(0.5 * (Math.exp(eR / 2) + Math.exp(eC / 2)));
     const p = profiles[i];
     const k0 = Math.max(1, Math.floor(Math.max(0, c - search) / step));
     const k1 = Math.min(p.length - 1, Math.ceil(Math.min(o - 0.5 * W, c + search) / step));

@@ -24,6 +24,21 @@ export interface RimCoreOptions {
   /** Histogram overlap above which the result is refused (default 0.5) / warned (default 0.2). */
   maxOverlap?: number;
   warnOverlap?: number;
+  /**
+   * Per-feature transform before normalising: 'log' for variance-like features (default), 'identity'
+   * for features that are already logarithmic (local entropy, in bits: a smooth window has entropy 0,
+   * whose log would swamp the combination).
+   */
+  transforms?: readonly ('log' | 'identity')[];
+  /**
+   * Illumination normalisation: the local mean brightness at feature resolution and, per feature,
+   * the power p of brightness the feature scales with under a multiplicative light change (1 for a
+   * standard deviation, 2 for a variance or an energy, 0 for entropy). The log-feature then becomes
+   * log f − p·log(mean): roughness relative to brightness, so a slanted rim lit from one side (bright
+   * on one side, in shadow on the other) and vignetting do not read as texture.
+   */
+  brightness?: GrayRaster;
+  gainPowers?: readonly number[];
   /** Fraction of the circumference where the core reaches the outer edge above which there is no rim (default 0.8). */
   maxCoreAtEdgeFraction?: number;
 }
@@ -102,6 +117,9 @@ function meanVar(vals: number[]): [number, number] {
   return [m, q / Math.max(1, vals.length - 1)];
 }
 
+/** Clamp of the per-feature robust z-score before combining (robust σ units). */
+const Z_CLAMP = 4;
+
 /**
  * Classify the specimen into smooth rim and rough core.
  *
@@ -157,13 +175,26 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     combined: createRaster(fw, fh, comb), featureScale: s, ...extra,
   });
   if (idx.length < 50) return fail('the specimen is too small for the texture window');
-  for (const f of features) {
+  for (const [fi, f] of features.entries()) {
     const lg = new Float32Array(n);
-    for (let i = 0; i < n; i++) lg[i] = Math.log(Math.max(f.data[i], 1e-12));
+    if (opts.transforms?.[fi] === 'identity') lg.set(f.data);
+    else for (let i = 0; i < n; i++) lg[i] = Math.log(Math.max(f.data[i], 1e-12));
+    const pw = opts.gainPowers?.[fi] ?? 0;
+    const bm = opts.brightness;
+    if (pw !== 0 && bm) {
+      if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
+      for (let i = 0; i < n; i++) lg[i] -= pw * Math.log(Math.max(bm.data[i], 1e-3));
+    }
     const samp = idx.map((i) => lg[i]);
     const med = quantile(samp, 0.5);
     const spread = (quantile(samp, 0.75) - quantile(samp, 0.25)) / 1.349 || 1;
-    for (let i = 0; i < n; i++) comb[i] += (lg[i] - med) / spread / features.length;
+    // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
+    // highlight) has a log-feature far out in the tail that would otherwise pull Otsu's threshold
+    // into the rim class.
+    for (let i = 0; i < n; i++) {
+      const z = (lg[i] - med) / spread;
+      comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / features.length;
+    }
   }
   const vals = idx.map((i) => comb[i]);
   const lo = quantile(vals, 0.005);

@@ -7,7 +7,7 @@ import { FractozoneError } from '../errors.js';
 export const DEFAULT_WINDOW_MIN_PX = 7;
 export const DEFAULT_WINDOW_MAX_PX = 31;
 /** Default window side as a fraction of the specimen radius. */
-export const DEFAULT_WINDOW_RADIUS_FRACTION = 1 / 40;
+export const DEFAULT_WINDOW_RADIUS_FRACTION = 1 / 25;
 /** Specimen radius assumed when unknown, as a fraction of the smaller image side. */
 export const ASSUMED_RADIUS_FRACTION_OF_IMAGE = 0.4;
 
@@ -47,8 +47,8 @@ export interface DefaultWindowInput {
 /**
  * Default texture window side in µm.
  *
- * Rule (common practice, no source): the window is 1/40 of the specimen radius, clamped so that it
- * spans 7..31 px at working resolution. 1/40 of the radius keeps the window well inside a rim band
+ * Rule (common practice, no source): the window is 1/25 of the specimen radius, clamped so that it
+ * spans 7..31 px at working resolution. 1/25 of the radius keeps the window well inside a rim band
  * of a few % of the radius while holding enough pixels for stable statistics; 7 px is the least
  * for a meaningful histogram, 31 px bounds the blur of the boundary. When the radius is unknown it
  * is taken as 0.4 × the smaller image side (a specimen that nearly fills the frame).

@@ -50,15 +50,15 @@ describe('windowPxFromUm', () => {
 });
 
 describe('defaultWindowUm', () => {
-  it('is 1/40 of the specimen radius when that spans 7..31 px', () => {
-    // radius 4 mm, 10 µm/px → 100 µm = 10 px
-    expect(defaultWindowUm({ umPerPx: 10, specimenRadiusUm: 4000 })).toBeCloseTo(100, 9);
+  it('is 1/25 of the specimen radius when that spans 7..31 px', () => {
+    // radius 4 mm, 10 µm/px → 160 µm = 16 px
+    expect(defaultWindowUm({ umPerPx: 10, specimenRadiusUm: 4000 })).toBeCloseTo(160, 9);
   });
   it('is clamped to 7 px and 31 px at working resolution', () => {
     expect(defaultWindowUm({ umPerPx: 10, specimenRadiusUm: 400 })).toBeCloseTo(70, 9); // 1 px → 7 px
-    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000 })).toBeCloseTo(31, 9); // 100 px → 31 px
-    // downsampled by 4: working pixel 4 µm, 100 µm = 25 px is inside the clamp
-    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000, scaleFactor: 4 })).toBeCloseTo(100, 9);
+    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000 })).toBeCloseTo(31, 9); // 160 px → 31 px
+    // downsampled by 8: working pixel 8 µm, 160 µm = 20 px is inside the clamp
+    expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000, scaleFactor: 8 })).toBeCloseTo(160, 9);
   });
   it('estimates the radius as 0.4 × the smaller image side when unknown', () => {
     // 0.4 × 3000 px × 2 µm = 2400 µm → 60 µm = 30 px
