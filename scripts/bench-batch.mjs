@@ -60,7 +60,8 @@ function run(jobs) {
     throw new Error(`batch with --jobs ${jobs} exited ${r.status}`);
   }
   const summary = JSON.parse(r.stdout);
-  return { jobs, seconds: s, imagesPerS: N / s, ok: summary.ok, noBand: summary.noBand, loadBefore: la };
+  // cpuS / wallS = cores the run actually got (close to `jobs` on a free machine)
+  return { jobs, seconds: s, imagesPerS: N / s, ok: summary.ok, noBand: summary.noBand, loadBefore: la, cpuS: summary.timing.cpuS, coresUsed: summary.timing.cpuS / summary.timing.wallS };
 }
 
 const one = run(1);
@@ -70,7 +71,9 @@ const report = {
   images: N,
   megapixels: (W * H) / 1e6,
   cores: availableParallelism(),
-  runs: [one, two].map((r) => ({ ...r, seconds: Number(r.seconds.toFixed(2)), imagesPerS: Number(r.imagesPerS.toFixed(4)), loadBefore: Number(r.loadBefore.toFixed(2)) })),
+  runs: [one, two].map((r) => ({ ...r, seconds: Number(r.seconds.toFixed(2)), imagesPerS: Number(r.imagesPerS.toFixed(4)), loadBefore: Number(r.loadBefore.toFixed(2)), coresUsed: Number(r.coresUsed.toFixed(2)) })),
+  /** CPU seconds per image, 1 worker vs 2 workers: ≈ 1 means no parallel overhead per image. */
+  cpuPerImageRatio: Number((two.cpuS / one.cpuS).toFixed(3)),
   throughputRatio: Number(ratio.toFixed(3)),
   target: 1.8,
   meetsTarget: ratio >= 1.8,

@@ -195,6 +195,15 @@ describe('fractozone batch: refusals and crashes', () => {
     expect(rec.error.message).toMatch(/worker stopped/);
   });
 
+  it('a processor that cannot load stops the batch with a clear one-line error (exit 1)', () => {
+    const d = tempDir('noproc');
+    write(join(d, 'a.png'), discPng(32, 1));
+    const r = runCli(['batch', d, '--out', join(d, 'out'), '--jobs', '1'], { FRACTOZONE_BATCH_PROCESSOR: join(d, 'missing-module.mjs') });
+    expect(r.code).toBe(1);
+    expect(r.stderr).toMatch(/fractozone: error \[PROCESSING_FAILED\]: a batch worker could not start/);
+    expect(r.stderr).not.toMatch(/\n\s+at /); // no stack trace
+  });
+
   it('exits 0 when every image succeeds (no-band counts as success)', () => {
     const d = tempDir('allok');
     write(join(d, 'a.png'), discPng(32, 1));

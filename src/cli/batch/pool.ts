@@ -6,6 +6,7 @@
  * processor module fails to load) stops the whole batch with that reason.
  */
 import { Worker } from 'node:worker_threads';
+import { FractozoneError } from '../../core/errors.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
 import type { ProcessInput } from './processor.js';
 
@@ -58,7 +59,7 @@ export class WorkerPool {
         slot.ready = true;
         this.pump();
       } else if (msg.type === 'startup-failed') {
-        this.fail(new Error(`a batch worker could not start: ${msg.message}`));
+        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${msg.message}`, 'processing'));
       } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
         const b = slot.busy;
         slot.busy = null;
@@ -81,7 +82,7 @@ export class WorkerPool {
       const idx = this.slots.indexOf(slot);
       if (idx < 0) return;
       if (!slot.ready && !slot.busy) {
-        this.fail(new Error(`a batch worker stopped during start-up (${why || `exit code ${code}`})`));
+        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker stopped during start-up (${why || `exit code ${code}`})`, 'processing'));
         return;
       }
       if (slot.busy) {

@@ -53,6 +53,8 @@ export interface BatchSummary {
   skipped: number;
   workersReplaced: number;
   files: { csv: string; jsonl: string; report: string };
+  /** Wall-clock and CPU seconds of the whole run (CPU summed over all threads of the process). */
+  timing: { wallS: number; cpuS: number };
 }
 
 function real(p: string): string {
@@ -105,6 +107,9 @@ function removeStaleTemps(out: string): void {
   }
 }
 
+const round3 = (v: number): number => Math.round(v * 1000) / 1000;
+const cpuSeconds = (u: NodeJS.CpuUsage): number => (u.user + u.system) / 1e6;
+
 async function eachLimited<T>(items: readonly T[], limit: number, fn: (item: T) => Promise<void>): Promise<void> {
   let next = 0;
   const runners = Array.from({ length: Math.min(limit, items.length) }, async () => {
@@ -122,6 +127,8 @@ async function eachLimited<T>(items: readonly T[], limit: number, fn: (item: T) 
  * @throws FractozoneError for usage problems (bad OUT, no images, bad manifest) before any image is processed
  */
 export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
+  const t0 = performance.now();
+  const c0 = process.cpuUsage();
   const out = resolve(o.out);
   let manifest: Manifest | null = null;
   if (o.manifest) manifest = readManifest(o.manifest);
@@ -258,5 +265,6 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
     skipped: counts.skipped,
     workersReplaced: pool ? (pool as WorkerPool).replaced : 0,
     files: { csv: 'results.csv', jsonl: 'results.jsonl', report: 'report.html' },
+    timing: { wallS: round3((performance.now() - t0) / 1000), cpuS: round3(cpuSeconds(process.cpuUsage(c0))) },
   };
 }
