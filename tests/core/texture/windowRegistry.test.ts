@@ -61,8 +61,8 @@ describe('defaultWindowUm', () => {
     expect(defaultWindowUm({ umPerPx: 1, specimenRadiusUm: 4000, scaleFactor: 8 })).toBeCloseTo(160, 9);
   });
   it('estimates the radius as 0.4 × the smaller image side when unknown', () => {
-    // 0.4 × 3000 px × 2 µm = 2400 µm → 60 µm = 30 px
-    expect(defaultWindowUm({ umPerPx: 2, imageWidthPx: 4000, imageHeightPx: 3000 })).toBeCloseTo(60, 9);
+    // 0.4 × 1000 px × 2 µm = 800 µm → 800/25 = 32 µm = 16 px
+    expect(defaultWindowUm({ umPerPx: 2, imageWidthPx: 1500, imageHeightPx: 1000 })).toBeCloseTo(32, 9);
   });
   it('refuses missing or bad inputs', () => {
     expect(codeOf(() => defaultWindowUm({ umPerPx: 2 }))).toBe('BAD_PARAMETER');
