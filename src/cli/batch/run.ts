@@ -142,7 +142,11 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
     inputs = discoverImages(o.inputs, [out]);
     if (manifest) {
       const have = new Set(inputs.map((i) => resolve(i.abs)));
-      for (const [abs, s] of manifest.rows) if (!have.has(abs)) o.log(`batch: warning: ${s.source}: "${relative(process.cwd(), abs)}" is not among the inputs; row ignored`);
+      const unused = [...manifest.rows].filter(([abs]) => !have.has(abs));
+      if (unused.length > 0) {
+        const [abs, s] = unused[0];
+        o.log(`batch: note: ${unused.length} manifest row(s) name images that are not among the inputs and are ignored (first: ${s.source}, "${relative(process.cwd(), abs)}")`);
+      }
     }
   } else {
     const base = dirname(manifest!.path);
