@@ -12,7 +12,7 @@ import { FractozoneError, isFractozoneError } from '../errors.js';
 import type { GrayRaster } from '../image/raster.js';
 import { decodeImage, type DecodedImage } from '../decode/index.js';
 import { chooseScale, detectScaleBar, type Scale, type ScaleBar } from '../calibrate/index.js';
-import { computeFeaturesAt, defaultWindowUm, windowPxFromUm, isFeatureName, type FeatureName, gradientEnergyPointwise, boxMean } from '../texture/index.js';
+import { defaultWindowUm, windowPxFromUm, isFeatureName, boxMean, computeFeature, downsample } from '../texture/index.js';
 import { findSpecimen, classifyRimCore, refineBoundary, refineOuterEdge, type Specimen, type RimCoreResult } from '../segment/index.js';
 import { measureBand, type BandProfile } from '../measure/index.js';
 import { resolveCriticalDistance, compareWidthWithL, impliedToughness } from '../tcd/index.js';
@@ -31,7 +31,7 @@ export const CAUTION =
 const GAIN_POWER: Record<string, number> = { localStd: 1, localVariance: 2, gradientEnergy: 2, highPassEnergy: 2, localEntropy: 0 };
 
 /** Long side (px) of the working raster on which the texture features are classified. */
-export const WORKING_LONG_SIDE_PX = 1600;
+export const WORKING_LONG_SIDE_PX = 1200;
 
 export interface InputInfo {
   file: string;
@@ -346,17 +346,27 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   if (Math.abs(s.x - s.y) / Math.max(s.x, s.y) > 1e-6) warnings.push(`pixels are not square (${s.x.toPrecision(4)} × ${s.y.toPrecision(4)} µm): widths are converted per ray direction`);
   T.lap('scale', 'specimen outline', 0.12);
 
-  let specimen: Specimen;
-  specimen = findSpecimen(raster);
-  const center = { x: specimen.circle.cx, y: specimen.circle.cy };
-  const outer = refineOuterEdge(raster, specimen.contour, center, { nRays: Math.max(p.nRays, 360) });
+  // Segmentation runs on a working copy (long side ≤ WORKING_LONG_SIDE_PX, area-averaged); only
+  // the outer edge is refined on the full-resolution image. Working pixel (i, j) covers the
+  // full-resolution point ((i + 0.5)·sx − 0.5, (j + 0.5)·sy − 0.5).
+  const factor = Math.max(1, Math.max(raster.width, raster.height) / WORKING_LONG_SIDE_PX);
+  const work = downsample(raster, factor);
+  const sx = raster.width / work.width;
+  const sy = raster.height / work.height;
+  const toFull = (q: PointPx): PointPx => ({ x: (q.x + 0.5) * sx - 0.5, y: (q.y + 0.5) * sy - 0.5 });
+  const toWork = (q: PointPx): PointPx => ({ x: (q.x + 0.5) / sx - 0.5, y: (q.y + 0.5) / sy - 0.5 });
+  const specimen: Specimen = findSpecimen(work);
+  const centerW = { x: specimen.circle.cx, y: specimen.circle.cy };
+  const center = toFull(centerW);
+  const outer = refineOuterEdge(raster, specimen.contour.map(toFull), center, { nRays: Math.max(p.nRays, 360) });
   if (specimen.touchesFrame) warnings.push(`the specimen is cut by the image frame (${(specimen.frameContactFraction * 100).toFixed(0)} % of its outline): rays that reach the frame are not measured`);
   T.lap('specimen', 'texture', 0.25);
 
-  const factor = Math.max(1, Math.max(raster.width, raster.height) / WORKING_LONG_SIDE_PX);
-  const radiusUm = specimen.circle.radiusPx * scale.umPerPx;
+  const kAvg = Math.sqrt(sx * sy);
+  const radiusPx = specimen.circle.radiusPx * kAvg;
+  const radiusUm = radiusPx * scale.umPerPx;
   const windowUm = p.windowUm ?? defaultWindowUm({ umPerPx: scale.umPerPx, specimenRadiusUm: radiusUm, scaleFactor: factor });
-  const windowPxWork = windowPxFromUm(windowUm, scale.umPerPx * factor);
+  const windowPxWork = windowPxFromUm(windowUm, scale.umPerPx * kAvg);
   const windowPxFull = windowPxFromUm(windowUm, scale.umPerPx);
 
   let rimCore: RimCoreResult | null = null;
@@ -369,22 +379,19 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     boundarySource = 'manual';
     T.lap('texture', 'band width', 0.8);
   } else {
-    const fa = computeFeaturesAt(raster, { scaleFactor: factor, windowPx: windowPxWork, features: p.features as FeatureName[] });
+    const feats = p.features.map((n) => computeFeature(n, work, windowPxWork));
     T.lap('texture', 'rim/core boundary', 0.55);
-    const feats = p.features.map((n) => fa.features[n as FeatureName] as GrayRaster);
     const transforms = p.features.map((n) => (n === 'localEntropy' ? 'identity' : 'log') as 'log' | 'identity');
     const gainPowers = p.features.map((n) => GAIN_POWER[n] ?? 0);
-    const brightness = boxMean(fa.raster, windowPxWork);
-    rimCore = classifyRimCore(specimen, feats, { windowPx: windowPxFull, featureScale: fa.scaleX, center, transforms, brightness, gainPowers });
+    const brightness = boxMean(work, windowPxWork);
+    rimCore = classifyRimCore(specimen, feats, { windowPx: windowPxWork, featureScale: 1, center: centerW, transforms, brightness, gainPowers });
     for (const w of rimCore.warnings) warnings.push(w);
     if (!rimCore.detected || !rimCore.boundary) {
       detected = false;
       reason = rimCore.reason ?? 'no smooth rim band was found';
     } else {
-      const energy = undefined as GrayRaster | undefined;
-      void gradientEnergyPointwise;
-      const refined = refineBoundary(raster, outer.polygon, rimCore.boundary, center, { windowPx: windowPxFull, nRays: Math.max(p.nRays, 360), energy });
-      boundary = refined.polygon;
+      const refined = refineBoundary(work, outer.polygon.map(toWork), rimCore.boundary, centerW, { windowPx: windowPxWork, nRays: Math.max(p.nRays, 360) });
+      boundary = refined.polygon.map(toFull);
     }
     T.lap('boundary', 'band width', 0.85);
   }
@@ -437,25 +444,25 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     },
     specimen: {
       center: { x: round(center.x, 3), y: round(center.y, 3) },
-      radiusPx: round(specimen.circle.radiusPx, 3),
+      radiusPx: round(radiusPx, 3),
       radiusUm: round(radiusUm, 3),
       circle: {
-        cx: round(specimen.circle.cx, 3),
-        cy: round(specimen.circle.cy, 3),
-        radiusPx: round(specimen.circle.radiusPx, 3),
+        cx: round(center.x, 3),
+        cy: round(center.y, 3),
+        radiusPx: round(radiusPx, 3),
         radiusUm: round(radiusUm, 3),
-        rmsResidualPx: round(specimen.circle.rmsResidualPx, 4),
+        rmsResidualPx: round(specimen.circle.rmsResidualPx * kAvg, 4),
       },
       ellipse: {
-        cx: round(specimen.ellipse.cx, 3),
-        cy: round(specimen.ellipse.cy, 3),
-        semiMajorUm: round(specimen.ellipse.semiMajorPx * scale.umPerPx, 3),
-        semiMinorUm: round(specimen.ellipse.semiMinorPx * scale.umPerPx, 3),
+        cx: round(toFull({ x: specimen.ellipse.cx, y: specimen.ellipse.cy }).x, 3),
+        cy: round(toFull({ x: specimen.ellipse.cx, y: specimen.ellipse.cy }).y, 3),
+        semiMajorUm: round(specimen.ellipse.semiMajorPx * kAvg * scale.umPerPx, 3),
+        semiMinorUm: round(specimen.ellipse.semiMinorPx * kAvg * scale.umPerPx, 3),
         angleDeg: round(specimen.ellipse.angleDeg, 3),
-        rmsResidualPx: round(specimen.ellipse.rmsResidualPx, 4),
+        rmsResidualPx: round(specimen.ellipse.rmsResidualPx * kAvg, 4),
       },
-      areaMm2: round((specimen.areaPx * scale.umPerPxX * scale.umPerPxY) / 1e6, 5),
-      equivalentRadiusUm: round(specimen.equivalentRadiusPx * scale.umPerPx, 3),
+      areaMm2: round((specimen.areaPx * sx * sy * scale.umPerPxX * scale.umPerPxY) / 1e6, 5),
+      equivalentRadiusUm: round(specimen.equivalentRadiusPx * kAvg * scale.umPerPx, 3),
       background: specimen.background,
       touchesFrame: specimen.touchesFrame,
       frameContactFraction: round(specimen.frameContactFraction, 4),

@@ -107,14 +107,15 @@ function dilateMask(m: Mask, r: number): Mask {
   }
 }
 
-function meanVar(vals: number[]): [number, number] {
-  if (!vals.length) return [NaN, NaN];
+function meanVar(vals: ArrayLike<number>): [number, number] {
+  const n = vals.length;
+  if (!n) return [NaN, NaN];
   let s = 0;
-  for (const v of vals) s += v;
-  const m = s / vals.length;
+  for (let i = 0; i < n; i++) s += vals[i];
+  const m = s / n;
   let q = 0;
-  for (const v of vals) q += (v - m) * (v - m);
-  return [m, q / Math.max(1, vals.length - 1)];
+  for (let i = 0; i < n; i++) q += (vals[i] - m) * (vals[i] - m);
+  return [m, q / Math.max(1, n - 1)];
 }
 
 /** Clamp of the per-feature robust z-score before combining (robust σ units). */
@@ -166,8 +167,10 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
 
   // combined, normalised log-feature
   const comb = new Float32Array(n);
-  const idx: number[] = [];
-  for (let i = 0; i < n; i++) if (interior.data[i]) idx.push(i);
+  let nIdx = 0;
+  for (let i = 0; i < n; i++) if (interior.data[i]) nIdx++;
+  const idx = new Int32Array(nIdx);
+  for (let i = 0, k = 0; i < n; i++) if (interior.data[i]) idx[k++] = i;
   const warnings: string[] = [];
   const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
   const fail = (reason: string, extra: Partial<RimCoreResult> = {}): RimCoreResult => ({
@@ -185,7 +188,8 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
       if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
       for (let i = 0; i < n; i++) lg[i] -= pw * Math.log(Math.max(bm.data[i], 1e-3));
     }
-    const samp = idx.map((i) => lg[i]);
+    const samp = new Float32Array(idx.length);
+    for (let k = 0; k < idx.length; k++) samp[k] = lg[idx[k]];
     const med = quantile(samp, 0.5);
     const spread = (quantile(samp, 0.75) - quantile(samp, 0.25)) / 1.349 || 1;
     // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
@@ -196,21 +200,30 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
       comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / features.length;
     }
   }
-  const vals = idx.map((i) => comb[i]);
+  const vals = new Float32Array(idx.length);
+  for (let k = 0; k < idx.length; k++) vals[k] = comb[idx[k]];
   const lo = quantile(vals, 0.005);
   const hi = quantile(vals, 0.995);
   const t = otsuThreshold(vals, lo, hi);
   // Otsu η
   const [mAll, vAll] = meanVar(vals);
-  const a = vals.filter((v) => v > t);
-  const b = vals.filter((v) => v <= t);
-  const [ma] = meanVar(a);
-  const [mb] = meanVar(b);
-  const eta = vAll > 0 && a.length && b.length ? ((a.length / vals.length) * (ma - mAll) ** 2 + (b.length / vals.length) * (mb - mAll) ** 2) / vAll : 0;
+  let sa = 0;
+  let na = 0;
+  let sb = 0;
+  for (let k = 0; k < vals.length; k++) {
+    if (vals[k] > t) {
+      sa += vals[k];
+      na++;
+    } else sb += vals[k];
+  }
+  const nb0 = vals.length - na;
+  const ma = sa / na;
+  const mb = sb / nb0;
+  const eta = vAll > 0 && na && nb0 ? ((na / vals.length) * (ma - mAll) ** 2 + (nb0 / vals.length) * (mb - mAll) ** 2) / vAll : 0;
 
   // rough class, restricted to the interior, cleaned
   const rough = createMask(fw, fh);
-  for (const i of idx) rough.data[i] = comb[i] > t ? 1 : 0;
+  for (let k = 0; k < idx.length; k++) rough.data[idx[k]] = comb[idx[k]] > t ? 1 : 0;
   const rm = Math.max(1, Math.round(0.35 * wF));
   const mm = maskToMat(rough);
   let cleaned: Mask;
@@ -233,8 +246,10 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   // separability on the topological classes, transition zone (± half window) left out
   const coreIn = erodeMask(core, half);
   const coreOut = dilateMask(core, half);
-  const cv: number[] = [];
-  const rv: number[] = [];
+  const cvBuf = new Float32Array(idx.length);
+  const rvBuf = new Float32Array(idx.length);
+  let nCv = 0;
+  let nRv = 0;
   let nCore = 0;
   let nSpec = 0;
   for (let i = 0; i < n; i++) {
@@ -242,9 +257,11 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     nSpec++;
     if (core.data[i]) nCore++;
     if (!interior.data[i]) continue;
-    if (coreIn.data[i]) cv.push(comb[i]);
-    else if (!coreOut.data[i]) rv.push(comb[i]);
+    if (coreIn.data[i]) cvBuf[nCv++] = comb[i];
+    else if (!coreOut.data[i]) rvBuf[nRv++] = comb[i];
   }
+  const cv = cvBuf.subarray(0, nCv);
+  const rv = rvBuf.subarray(0, nRv);
   const coreFraction = nSpec ? nCore / nSpec : 0;
   const [mc, vc] = meanVar(cv);
   const [mr, vr] = meanVar(rv);
