@@ -4,6 +4,9 @@ import { CommanderError } from 'commander';
 import { isFractozoneError } from '../core/errors.js';
 import { buildProgram, exitCodeFor } from './program.js';
 
+/** Error messages are one line, whatever a library put in them. */
+const oneLine = (s: string): string => s.replace(/\s*[\r\n]+\s*/g, ' ').trim();
+
 async function main(argv: string[]): Promise<number> {
   const program = buildProgram();
   try {
@@ -15,11 +18,11 @@ async function main(argv: string[]): Promise<number> {
       return e.exitCode === 0 ? 0 : 2;
     }
     if (isFractozoneError(e)) {
-      process.stderr.write(`fractozone: error [${e.code}]: ${e.message}\n`);
+      process.stderr.write(`fractozone: error [${e.code}]: ${oneLine(e.message)}\n`);
       return exitCodeFor(e);
     }
     const msg = e instanceof Error ? e.message : String(e);
-    process.stderr.write(`fractozone: internal error: ${msg}\n`);
+    process.stderr.write(`fractozone: internal error: ${oneLine(msg)}\n`);
     if (process.env.FRACTOZONE_DEBUG) process.stderr.write(`${(e as Error)?.stack ?? ''}\n`);
     return 1;
   }
