@@ -3,7 +3,7 @@ import { newDoc } from '../../src/app/state/document.js';
 import { addDoc, activeDoc, edit, initialState } from '../../src/app/state/store.js';
 import { moveVertex } from '../../src/app/state/geometry.js';
 import { createRemeasurer, remeasureRequestOf, type RemeasureRequest } from '../../src/app/state/remeasure.js';
-import { baseParams, paramsOf } from '../../src/app/state/params.js';
+import { paramsOf } from '../../src/app/state/params.js';
 import { defaultParams } from '../../src/core/pipeline/params.js';
 
 const poly = [
@@ -60,8 +60,7 @@ describe('edit → re-measure', () => {
     expect(req.params.scale.pixelSizeUm).toBe(2.5);
   });
 
-  it("the app's base parameters equal core's defaultParams (same numbers as the CLI)", () => {
-    expect(baseParams()).toEqual(defaultParams());
+  it("a document with a metadata scale gives core's defaultParams (same numbers as the CLI)", () => {
     const doc = newDoc({ id: 'd', name: 'd.png', sha256: 'ff', widthPx: 10, heightPx: 10 });
     doc.scale = { source: 'metadata', umPerPx: 3 };
     expect(paramsOf(doc)).toEqual(defaultParams());

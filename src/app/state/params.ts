@@ -3,28 +3,13 @@
  * the CLI give the same numbers for the same image and the same parameter object.
  */
 import type { MaterialParams, MeasureParams, ScaleParams } from '../../core/pipeline/types.js';
+import { defaultParams } from '../../core/pipeline/params.js';
 import type { Doc, MaterialForm, Outline } from './document.js';
 import type { PointPx } from '../../core/pipeline/types.js';
 
-/** Default parameters, identical to core's `defaultParams()` (checked in tests/app/params.test.ts). */
+/** Default parameters: core's `defaultParams()`, so the app and the CLI start from the same object. */
 export function baseParams(): MeasureParams {
-  return {
-    scale: { useMetadata: true },
-    windowUm: null,
-    features: ['localStd', 'localEntropy', 'gradientEnergy'],
-    nRays: 360,
-    exclude: [],
-    dropOutliers: false,
-    outlierK: 3.5,
-    bootstrap: 2000,
-    seed: 1,
-    boundaryPolygon: null,
-    maxPixels: 100_000_000,
-    material: null,
-    strainRatePerS: null,
-    reference: 'L',
-    tolerancePct: 20,
-  };
+  return defaultParams();
 }
 
 /**
