@@ -55,25 +55,43 @@ function lengthLabel(um: number): string {
   return um >= 1000 ? `${um / 1000} mm` : `${um} µm`;
 }
 
-/** Area-average downsampling of a gray raster into an RGBA image by an integer-free factor. */
+/**
+ * Area-average downsampling of a gray raster into an RGBA image by an integer-free factor: output
+ * pixel (ox, oy) is the mean of the input block [x0, x1) × [y0, y1) with x0 = ⌊ox·fx⌋,
+ * x1 = max(x0 + 1, ⌊(ox + 1)·fx⌋) (same for y). One sequential pass over the input rows: each
+ * row's block sums are added into one accumulator per output column.
+ */
 function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
   const img = createRgbaImage(outW, outH, [0, 0, 0, 255]);
   const fx = r.width / outW;
   const fy = r.height / outH;
   const d = img.data;
+  const src = r.data;
+  const W = r.width;
+  const xa = new Int32Array(outW);
+  const xb = new Int32Array(outW);
+  for (let ox = 0; ox < outW; ox++) {
+    xa[ox] = Math.floor(ox * fx);
+    xb[ox] = Math.max(xa[ox] + 1, Math.floor((ox + 1) * fx));
+  }
+  const acc = new Float64Array(outW);
   for (let oy = 0; oy < outH; oy++) {
     const y0 = Math.floor(oy * fy);
     const y1 = Math.max(y0 + 1, Math.floor((oy + 1) * fy));
-    for (let ox = 0; ox < outW; ox++) {
-      const x0 = Math.floor(ox * fx);
-      const x1 = Math.max(x0 + 1, Math.floor((ox + 1) * fx));
-      let s = 0;
-      for (let y = y0; y < y1; y++) {
-        const row = y * r.width;
-        for (let x = x0; x < x1; x++) s += r.data[row + x];
+    acc.fill(0);
+    for (let y = y0; y < y1; y++) {
+      const row = y * W;
+      for (let ox = 0; ox < outW; ox++) {
+        let s = 0;
+        const e = row + xb[ox];
+        for (let i = row + xa[ox]; i < e; i++) s += src[i];
+        acc[ox] += s;
       }
-      const v = Math.max(0, Math.min(255, Math.round((s / ((y1 - y0) * (x1 - x0))) * 255)));
-      const o = (oy * outW + ox) * 4;
+    }
+    const ny = y1 - y0;
+    let o = oy * outW * 4;
+    for (let ox = 0; ox < outW; ox++, o += 4) {
+      const v = Math.max(0, Math.min(255, Math.round((acc[ox] / (ny * (xb[ox] - xa[ox]))) * 255)));
       d[o] = v;
       d[o + 1] = v;
       d[o + 2] = v;
