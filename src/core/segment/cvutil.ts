@@ -226,13 +226,24 @@ export function otsuThreshold(values: ArrayLike<number>, lo: number, hi: number,
 
 /** Quantile (0..1) of the finite values of an array (sorts a copy). */
 export function quantile(values: ArrayLike<number>, q: number): number {
-  // large arrays: a deterministic stride subsample of ≤ 50 000 values is plenty for a threshold
+  return quantiles(values, [q])[0];
+}
+
+/**
+ * Several quantiles (0..1) of the finite values of an array from ONE sorted copy (same values as
+ * calling {@link quantile} for each q). Large arrays: a deterministic stride subsample of
+ * ≤ 50 000 values is plenty for a threshold.
+ */
+export function quantiles(values: ArrayLike<number>, qs: readonly number[]): number[] {
   const stride = Math.max(1, Math.floor(values.length / 50000));
-  const tmp: number[] = [];
-  for (let i = 0; i < values.length; i += stride) if (Number.isFinite(values[i])) tmp.push(values[i]);
-  const a = Float64Array.from(tmp);
-  if (a.length === 0) return NaN;
+  const buf = new Float64Array(Math.ceil(values.length / stride));
+  let n = 0;
+  for (let i = 0; i < values.length; i += stride) {
+    const v = values[i];
+    if (Number.isFinite(v)) buf[n++] = v;
+  }
+  if (n === 0) return qs.map(() => NaN);
+  const a = buf.subarray(0, n);
   a.sort();
-  const i = Math.min(a.length - 1, Math.max(0, Math.round(q * (a.length - 1))));
-  return a[i];
+  return qs.map((q) => a[Math.min(n - 1, Math.max(0, Math.round(q * (n - 1))))]);
 }

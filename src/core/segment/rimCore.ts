@@ -6,7 +6,7 @@
 import { FractozoneError } from '../errors.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
 import { type Point, buildRayIndex, castRay } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantile } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 
 /** Options of {@link classifyRimCore}. */
@@ -178,32 +178,40 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     combined: createRaster(fw, fh, comb), featureScale: s, ...extra,
   });
   if (idx.length < 50) return fail('the specimen is too small for the texture window');
-  for (const [fi, f] of features.entries()) {
-    const lg = new Float32Array(n);
-    if (opts.transforms?.[fi] === 'identity') lg.set(f.data);
-    else for (let i = 0; i < n; i++) lg[i] = Math.log(Math.max(f.data[i], 1e-12));
+  // log brightness is shared by every brightness-normalised feature: computed once
+  let logBm: Float64Array | null = null;
+  const lg = new Float32Array(n);
+  const samp = new Float32Array(idx.length);
+  const nF = features.length;
+  for (let fi = 0; fi < nF; fi++) {
+    const fd = features[fi].data;
+    if (opts.transforms?.[fi] === 'identity') lg.set(fd);
+    else for (let i = 0; i < n; i++) lg[i] = Math.log(Math.max(fd[i], 1e-12));
     const pw = opts.gainPowers?.[fi] ?? 0;
     const bm = opts.brightness;
     if (pw !== 0 && bm) {
       if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
-      for (let i = 0; i < n; i++) lg[i] -= pw * Math.log(Math.max(bm.data[i], 1e-3));
+      if (!logBm) {
+        logBm = new Float64Array(n);
+        const bd = bm.data;
+        for (let i = 0; i < n; i++) logBm[i] = Math.log(Math.max(bd[i], 1e-3));
+      }
+      for (let i = 0; i < n; i++) lg[i] -= pw * logBm[i];
     }
-    const samp = new Float32Array(idx.length);
     for (let k = 0; k < idx.length; k++) samp[k] = lg[idx[k]];
-    const med = quantile(samp, 0.5);
-    const spread = (quantile(samp, 0.75) - quantile(samp, 0.25)) / 1.349 || 1;
+    const [med, q75, q25] = quantiles(samp, [0.5, 0.75, 0.25]);
+    const spread = (q75 - q25) / 1.349 || 1;
     // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
     // highlight) has a log-feature far out in the tail that would otherwise pull Otsu's threshold
     // into the rim class.
     for (let i = 0; i < n; i++) {
       const z = (lg[i] - med) / spread;
-      comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / features.length;
+      comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / nF;
     }
   }
   const vals = new Float32Array(idx.length);
   for (let k = 0; k < idx.length; k++) vals[k] = comb[idx[k]];
-  const lo = quantile(vals, 0.005);
-  const hi = quantile(vals, 0.995);
+  const [lo, hi] = quantiles(vals, [0.005, 0.995]);
   const t = otsuThreshold(vals, lo, hi);
   // Otsu η
   const [mAll, vAll] = meanVar(vals);

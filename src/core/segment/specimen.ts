@@ -6,7 +6,7 @@ import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { Point } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantile, rasterToMat } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 
 /** Options of {@link findSpecimen}. */
@@ -79,8 +79,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
     else full.copyTo(small);
     cv.GaussianBlur(small, small, new cv.Size(0, 0), 1.5, 1.5, cv.BORDER_REFLECT_101);
     const sd = small.data32F as Float32Array;
-    const lo = quantile(sd, 0.001);
-    const hi = quantile(sd, 0.999);
+    const [lo, hi] = quantiles(sd, [0.001, 0.999]);
     if (!(hi - lo > 1e-4)) throw new FractozoneError('NO_SPECIMEN', 'The image has no contrast: no specimen can be separated from the background.');
     level = otsuThreshold(sd, lo, hi);
     // border polarity
@@ -163,7 +162,8 @@ function addTexture(small: any, m: Mask, _nBorder: number, w: number, h: number)
     for (let x = 0; x < w; x++) border.push(ls[x], ls[(h - 1) * w + x]);
     for (let y = 0; y < h; y++) border.push(ls[y * w], ls[y * w + w - 1]);
     const bMed = quantile(border, 0.5);
-    const t = Math.max(otsuThreshold(ls, quantile(ls, 0.001), quantile(ls, 0.999)), bMed + Math.log(3));
+    const [lsLo, lsHi] = quantiles(ls, [0.001, 0.999]);
+    const t = Math.max(otsuThreshold(ls, lsLo, lsHi), bMed + Math.log(3));
     // the intensity step of the edge itself has a high local std: those pixels are re-decided
     // at full resolution later, so adding them here is harmless
     for (let i = 0; i < ls.length; i++) if (ls[i] > t) m.data[i] = 1;
