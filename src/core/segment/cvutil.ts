@@ -81,6 +81,51 @@ export function morphDisc(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: 
   }
 }
 
+/**
+ * Binary erosion or dilation by a (2r+1)×(2r+1) square, separably — the same result as
+ * cv.erode / cv.dilate with a MORPH_RECT kernel and OpenCV's default border (pixels outside the
+ * image are ignored), in O(1) per pixel: a pixel of the dilation is set when the last set pixel
+ * at or before x + r lies at or after x − r (rows, then columns); erosion is the complement of
+ * the dilation of the complement.
+ *
+ * @param src - non-zero = inside, row-major, width × height
+ * @param r - half side, px
+ * @returns 0/1 per pixel
+ */
+export function rectMorph(src: ArrayLike<number>, width: number, height: number, r: number, op: 'erode' | 'dilate'): Uint8Array {
+  const W = width;
+  const H = height;
+  const n = W * H;
+  const inv = op === 'erode' ? 1 : 0;
+  const a = new Uint8Array(n);
+  for (let i = 0; i < n; i++) a[i] = (src[i] ? 1 : 0) ^ inv;
+  const tmp = new Uint8Array(n);
+  for (let y = 0; y < H; y++) {
+    const row = y * W;
+    let last = -1 - 2 * r - W;
+    for (let j = 0; j < Math.min(r, W); j++) if (a[row + j]) last = j;
+    for (let x = 0; x < W; x++) {
+      const j = x + r;
+      if (j < W && a[row + j]) last = j;
+      tmp[row + x] = last >= x - r ? 1 : 0;
+    }
+  }
+  const lastY = new Int32Array(W).fill(-1 - 2 * r - H);
+  for (let y = 0; y < Math.min(r, H); y++) for (let x = 0; x < W; x++) if (tmp[y * W + x]) lastY[x] = y;
+  const out = new Uint8Array(n);
+  for (let y = 0; y < H; y++) {
+    const j = y + r;
+    if (j < H) {
+      const rowJ = j * W;
+      for (let x = 0; x < W; x++) if (tmp[rowJ + x]) lastY[x] = j;
+    }
+    const row = y * W;
+    const lim = y - r;
+    for (let x = 0; x < W; x++) out[row + x] = (lastY[x] >= lim ? 1 : 0) ^ inv;
+  }
+  return out;
+}
+
 /** Fill holes of a mask in place: background not 4-connected to the frame becomes inside. */
 export function fillHoles(mask: Mask): void {
   const { width: W, height: H, data } = mask;

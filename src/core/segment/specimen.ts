@@ -6,7 +6,7 @@ import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { Point } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat, rectMorph } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 
 /** Options of {@link findSpecimen}. */
@@ -181,21 +181,16 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
   const H = r.height;
   const c = maskToMat(coarse);
   const up = new cv.Mat();
-  const inner = new cv.Mat();
-  const outer = new cv.Mat();
   const img = rasterToMat(r);
   try {
     if (coarse.width !== W || coarse.height !== H) cv.resize(c, up, new cv.Size(W, H), 0, 0, cv.INTER_LINEAR);
     else c.copyTo(up);
     cv.threshold(up, up, 127, 255, cv.THRESH_BINARY);
-    up.copyTo(inner);
-    up.copyTo(outer);
-    morph(inner, 'erode', band, 'rect');
-    morph(outer, 'dilate', band, 'rect');
+    const upData = up.data as Uint8Array;
+    const a = rectMorph(upData, W, H, band, 'erode');
+    const b = rectMorph(upData, W, H, band, 'dilate');
     cv.GaussianBlur(img, img, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT_101);
     const d = img.data32F as Float32Array;
-    const a = inner.data as Uint8Array;
-    const b = outer.data as Uint8Array;
     const out = createMask(W, H);
     for (let i = 0; i < out.data.length; i++) {
       if (a[i]) out.data[i] = 1;
@@ -220,8 +215,6 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
   } finally {
     c.delete();
     up.delete();
-    inner.delete();
-    outer.delete();
     img.delete();
   }
 }
