@@ -8,6 +8,7 @@ import { createMask, createRaster, type GrayRaster, type Mask } from '../image/r
 import { type Point, buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
+import { logClampedInto } from './fastLog.js';
 
 /** Options of {@link classifyRimCore}. */
 export interface RimCoreOptions {
@@ -186,15 +187,14 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   for (let fi = 0; fi < nF; fi++) {
     const fd = features[fi].data;
     if (opts.transforms?.[fi] === 'identity') lg.set(fd);
-    else for (let i = 0; i < n; i++) lg[i] = Math.log(Math.max(fd[i], 1e-12));
+    else logClampedInto(fd, 1e-12, lg);
     const pw = opts.gainPowers?.[fi] ?? 0;
     const bm = opts.brightness;
     if (pw !== 0 && bm) {
       if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
       if (!logBm) {
         logBm = new Float64Array(n);
-        const bd = bm.data;
-        for (let i = 0; i < n; i++) logBm[i] = Math.log(Math.max(bd[i], 1e-3));
+        logClampedInto(bm.data, 1e-3, logBm);
       }
       for (let i = 0; i < n; i++) lg[i] -= pw * logBm[i];
     }
