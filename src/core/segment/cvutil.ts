@@ -126,17 +126,22 @@ export function rectMorph(src: ArrayLike<number>, width: number, height: number,
   return out;
 }
 
-/** Fill holes of a mask in place: background not 4-connected to the frame becomes inside. */
+/**
+ * Fill holes of a mask in place: background not 4-connected to the frame becomes inside.
+ * Scan-line flood fill of the background from the frame (each stack entry is a whole run of a row).
+ */
 export function fillHoles(mask: Mask): void {
   const { width: W, height: H, data } = mask;
   const seen = new Uint8Array(W * H);
-  const stack = new Int32Array(W * H);
+  let stack = new Int32Array(1 << 14);
   let sp = 0;
   const push = (i: number): void => {
-    if (!data[i] && !seen[i]) {
-      seen[i] = 1;
-      stack[sp++] = i;
+    if (sp === stack.length) {
+      const grown = new Int32Array(stack.length * 2);
+      grown.set(stack);
+      stack = grown;
     }
+    stack[sp++] = i;
   };
   for (let x = 0; x < W; x++) {
     push(x);
@@ -148,11 +153,26 @@ export function fillHoles(mask: Mask): void {
   }
   while (sp > 0) {
     const i = stack[--sp];
-    const x = i % W;
-    if (x > 0) push(i - 1);
-    if (x < W - 1) push(i + 1);
-    if (i >= W) push(i - W);
-    if (i < W * (H - 1)) push(i + W);
+    if (data[i] || seen[i]) continue;
+    const y = (i / W) | 0;
+    const row = y * W;
+    let l = i;
+    while (l > row && !data[l - 1] && !seen[l - 1]) l--;
+    let r = i;
+    while (r < row + W - 1 && !data[r + 1] && !seen[r + 1]) r++;
+    for (let k = l; k <= r; k++) seen[k] = 1;
+    // one seed per run of open background in the rows above and below
+    for (const nr of [y - 1, y + 1]) {
+      if (nr < 0 || nr >= H) continue;
+      const off = (nr - y) * W;
+      let inRun = false;
+      for (let k = l; k <= r; k++) {
+        const j = k + off;
+        const open = !data[j] && !seen[j];
+        if (open && !inRun) push(j);
+        inRun = open;
+      }
+    }
   }
   for (let i = 0; i < data.length; i++) if (!data[i] && !seen[i]) data[i] = 1;
 }
