@@ -179,11 +179,19 @@ export function refineBoundary(
         const t = k * step;
         let s1 = 0;
         let s2 = 0;
+        // arc points at angles th0 + u/t, u = −hw…hw: the direction is rotated by 1/t per step
+        // (angle-addition recurrence, 4 trig calls per radius instead of 2·(2hw + 1))
+        const cd = Math.cos(1 / t);
+        const sd = Math.sin(1 / t);
+        let ca = Math.cos(th0 - hw / t);
+        let sa = Math.sin(th0 - hw / t);
         for (let u = -hw; u <= hw; u++) {
-          const a = th0 + u / t;
-          const v = sample(E, center.x + t * Math.cos(a), center.y - t * Math.sin(a));
+          const v = sample(E, center.x + t * ca, center.y - t * sa);
           s1 += v;
           s2 += v * v;
+          const cn = ca * cd - sa * sd;
+          sa = sa * cd + ca * sd;
+          ca = cn;
         }
         const nn = 2 * hw + 1;
         p[k] = Math.log(Math.max(s2 / nn - (s1 / nn) ** 2, 0) + 1e-10);
