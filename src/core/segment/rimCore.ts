@@ -122,6 +122,90 @@ function meanVar(vals: ArrayLike<number>): [number, number] {
 /** Clamp of the per-feature robust z-score before combining (robust σ units). */
 const Z_CLAMP = 4;
 
+// The hot per-pixel loops live in small functions of their own: V8 optimises each one as a whole
+// (inside one long function every loop would first run unoptimised, then be OSR-compiled and
+// deoptimised again at the next unseen statement).
+
+/** Indices of the non-zero entries. */
+function indicesOf(m: Uint8Array): Int32Array {
+  let c = 0;
+  for (let i = 0; i < m.length; i++) if (m[i]) c++;
+  const idx = new Int32Array(c);
+  for (let i = 0, k = 0; i < m.length; i++) if (m[i]) idx[k++] = i;
+  return idx;
+}
+
+/** [Σ v > t, count v > t, Σ v ≤ t]. */
+function splitSums(vals: Float32Array, t: number): [number, number, number] {
+  let sa = 0;
+  let na = 0;
+  let sb = 0;
+  for (let k = 0; k < vals.length; k++) {
+    if (vals[k] > t) {
+      sa += vals[k];
+      na++;
+    } else sb += vals[k];
+  }
+  return [sa, na, sb];
+}
+
+/** out[idx[k]] = (v[idx[k]] > t). */
+function markAbove(v: Float32Array, idx: Int32Array, t: number, out: Uint8Array): void {
+  for (let k = 0; k < idx.length; k++) out[idx[k]] = v[idx[k]] > t ? 1 : 0;
+}
+
+/** a[i] = 0 where b[i] = 0. */
+function andMask(a: Uint8Array, b: Uint8Array): void {
+  for (let i = 0; i < a.length; i++) if (!b[i]) a[i] = 0;
+}
+
+/** Core / rim sample values (transition zone left out) and the core / specimen pixel counts. */
+function splitClasses(
+  spec: Uint8Array, core: Uint8Array, interior: Uint8Array, coreIn: Uint8Array, coreOut: Uint8Array,
+  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array,
+): [number, number, number, number] {
+  let nCv = 0;
+  let nRv = 0;
+  let nCore = 0;
+  let nSpec = 0;
+  for (let i = 0; i < spec.length; i++) {
+    if (!spec[i]) continue;
+    nSpec++;
+    if (core[i]) nCore++;
+    if (!interior[i]) continue;
+    if (coreIn[i]) cvBuf[nCv++] = comb[i];
+    else if (!coreOut[i]) rvBuf[nRv++] = comb[i];
+  }
+  return [nCv, nRv, nCore, nSpec];
+}
+
+/** Normalised histogram of v over [lo, hi] into h (bins clamped at both ends). */
+function histogramInto(v: Float32Array, lo: number, hi: number, h: Float64Array): void {
+  const nb = h.length;
+  for (let k = 0; k < v.length; k++) {
+    const b = Math.min(nb - 1, Math.max(0, Math.floor(((v[k] - lo) / (hi - lo || 1)) * nb)));
+    h[b] += 1 / v.length;
+  }
+}
+
+/** out[k] = src[idx[k]]. */
+function gather(src: Float32Array, idx: Int32Array, out: Float32Array): void {
+  for (let k = 0; k < idx.length; k++) out[k] = src[idx[k]];
+}
+
+/** a[i] −= p·b[i]. */
+function subtractScaled(a: Float32Array, p: number, b: Float64Array): void {
+  for (let i = 0; i < a.length; i++) a[i] -= p * b[i];
+}
+
+/** comb[i] += clamp((lg[i] − med)/spread, ±Z_CLAMP)/nF. */
+function addClampedZ(lg: Float32Array, med: number, spread: number, nF: number, comb: Float32Array): void {
+  for (let i = 0; i < lg.length; i++) {
+    const z = (lg[i] - med) / spread;
+    comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / nF;
+  }
+}
+
 /**
  * Classify the specimen into smooth rim and rough core.
  *
@@ -168,10 +252,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
 
   // combined, normalised log-feature
   const comb = new Float32Array(n);
-  let nIdx = 0;
-  for (let i = 0; i < n; i++) if (interior.data[i]) nIdx++;
-  const idx = new Int32Array(nIdx);
-  for (let i = 0, k = 0; i < n; i++) if (interior.data[i]) idx[k++] = i;
+  const idx = indicesOf(interior.data);
   const warnings: string[] = [];
   const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
   const fail = (reason: string, extra: Partial<RimCoreResult> = {}): RimCoreResult => ({
@@ -196,34 +277,23 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
         logBm = new Float64Array(n);
         logClampedInto(bm.data, 1e-3, logBm);
       }
-      for (let i = 0; i < n; i++) lg[i] -= pw * logBm[i];
+      subtractScaled(lg, pw, logBm);
     }
-    for (let k = 0; k < idx.length; k++) samp[k] = lg[idx[k]];
+    gather(lg, idx, samp);
     const [med, q75, q25] = quantiles(samp, [0.5, 0.75, 0.25]);
     const spread = (q75 - q25) / 1.349 || 1;
     // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
     // highlight) has a log-feature far out in the tail that would otherwise pull Otsu's threshold
     // into the rim class.
-    for (let i = 0; i < n; i++) {
-      const z = (lg[i] - med) / spread;
-      comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / nF;
-    }
+    addClampedZ(lg, med, spread, nF, comb);
   }
   const vals = new Float32Array(idx.length);
-  for (let k = 0; k < idx.length; k++) vals[k] = comb[idx[k]];
+  gather(comb, idx, vals);
   const [lo, hi] = quantiles(vals, [0.005, 0.995]);
   const t = otsuThreshold(vals, lo, hi);
   // Otsu η
   const [mAll, vAll] = meanVar(vals);
-  let sa = 0;
-  let na = 0;
-  let sb = 0;
-  for (let k = 0; k < vals.length; k++) {
-    if (vals[k] > t) {
-      sa += vals[k];
-      na++;
-    } else sb += vals[k];
-  }
+  const [sa, na, sb] = splitSums(vals, t);
   const nb0 = vals.length - na;
   const ma = sa / na;
   const mb = sb / nb0;
@@ -231,7 +301,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
 
   // rough class, restricted to the interior, cleaned
   const rough = createMask(fw, fh);
-  for (let k = 0; k < idx.length; k++) rough.data[idx[k]] = comb[idx[k]] > t ? 1 : 0;
+  markAbove(comb, idx, t, rough.data);
   const rm = Math.max(1, Math.round(0.35 * wF));
   const mm = maskToMat(rough);
   let cleaned: Mask;
@@ -242,7 +312,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   } finally {
     mm.delete();
   }
-  for (let i = 0; i < n; i++) if (!interior.data[i]) cleaned.data[i] = 0;
+  andMask(cleaned.data, interior.data);
   const cF = toFeat(centerFull);
   const core = keepComponent(cleaned, cF, 0.25);
   if (!core) return fail('no rough core was found around the centre');
@@ -256,18 +326,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   const coreOut = dilateMask(core, half);
   const cvBuf = new Float32Array(idx.length);
   const rvBuf = new Float32Array(idx.length);
-  let nCv = 0;
-  let nRv = 0;
-  let nCore = 0;
-  let nSpec = 0;
-  for (let i = 0; i < n; i++) {
-    if (!spec.data[i]) continue;
-    nSpec++;
-    if (core.data[i]) nCore++;
-    if (!interior.data[i]) continue;
-    if (coreIn.data[i]) cvBuf[nCv++] = comb[i];
-    else if (!coreOut.data[i]) rvBuf[nRv++] = comb[i];
-  }
+  const [nCv, nRv, nCore, nSpec] = splitClasses(spec.data, core.data, interior.data, coreIn.data, coreOut.data, comb, cvBuf, rvBuf);
   const cv = cvBuf.subarray(0, nCv);
   const rv = rvBuf.subarray(0, nRv);
   const coreFraction = nSpec ? nCore / nSpec : 0;
@@ -279,9 +338,8 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     const nb = 64;
     const hc = new Float64Array(nb);
     const hr = new Float64Array(nb);
-    const bin = (v: number): number => Math.min(nb - 1, Math.max(0, Math.floor(((v - lo) / (hi - lo || 1)) * nb)));
-    for (const v of cv) hc[bin(v)] += 1 / cv.length;
-    for (const v of rv) hr[bin(v)] += 1 / rv.length;
+    histogramInto(cv, lo, hi, hc);
+    histogramInto(rv, lo, hi, hr);
     overlap = 0;
     for (let k = 0; k < nb; k++) overlap += Math.min(hc[k], hr[k]);
   }
