@@ -41,11 +41,9 @@ export function localStd(r: GrayRaster, windowPx: number): GrayRaster {
 
 function varianceData(r: GrayRaster, windowPx: number, sqrt: boolean): Float32Array {
   const { width, height, data } = r;
-  let sum = 0;
-  for (let i = 0; i < data.length; i++) sum += data[i];
-  if (!Number.isFinite(sum)) nonFinite();
   const out = new Float32Array(width * height);
-  boxMomentsKernel(data, width, height, (windowPx - 1) / 2, sqrt ? Moment.Std : Moment.Variance, out);
+  // the kernel reports non-finite input (saves a separate pass over the image)
+  if (!boxMomentsKernel(data, width, height, (windowPx - 1) / 2, sqrt ? Moment.Std : Moment.Variance, out)) nonFinite();
   return out;
 }
 
