@@ -9,10 +9,22 @@
  * filtering algorithm", IEEE Trans. ASSP 27(1), 1979). The entropy itself is kept incrementally:
  * with counts c_i and population N,
  *
- *   H = log2 N − (1/N) · S,   S = Σ_i c_i · log2 c_i,
+ *   H = log2 N − (1/N) · S = (T[N] − S) / N,   S = Σ_i T[c_i],   T[c] = c · log2 c,
  *
- * and S is updated in O(1) per count change from the table T[c] = c·log2 c
- * (S += T[c ± 1] − T[c]). Restarting every row keeps rounding drift below 1e-12 bit.
+ * and S is updated in O(1) per count change from the table T
+ * (S += T[c + 1] − T[c] when a count goes up, S −= T[c] − T[c − 1] when it goes down).
+ *
+ * Fixed point: T[c] is stored rounded to a whole number of units 2^−k (in a double), with k
+ * the largest value ≤ 40 for which N·log2 N · 2^k < 2^52 (N = window population; k = 40 for
+ * windows up to 29×29 px). Every partial sum of S is then a whole number below 2^53, so all sums
+ * are exact: the result does not depend on the order of the updates (no drift along a row,
+ * deterministic for any loop order), and differs from the exact-arithmetic entropy by < 2^−(k+1)
+ * bit (rounding of T, at most N terms, divided by N).
+ *
+ * Speed: in the image interior two output rows y, y + 1 are slid together with two histograms;
+ * their windows share 2r rows, so each shared pixel pair (leaving, entering) is read once and
+ * applied to both histograms, and the two independent update chains overlap in the CPU.
+ * The exact fixed-point sums make this give the same values as row-by-row processing.
  */
 
 /**
@@ -35,83 +47,201 @@ export function entropyKernel(
   const W = width;
   const H = height;
   const maxN = Math.min(2 * r + 1, H) * Math.min(2 * r + 1, W);
-  // inc[c] = T[c+1] − T[c], dec[c] = T[c−1] − T[c], with T[c] = c·log2 c (T[0] = 0)
+  const SCALE = fixedPointScale(maxN);
+  // inc[c] = T[c+1] − T[c] (count c → c + 1); a count c → c − 1 changes S by −inc[c − 1]
   const T = new Float64Array(maxN + 2);
-  for (let c = 1; c < T.length; c++) T[c] = c * Math.log2(c);
+  for (let c = 1; c < T.length; c++) T[c] = Math.round(c * Math.log2(c) * SCALE);
   const inc = new Float64Array(maxN + 1);
-  const dec = new Float64Array(maxN + 1);
   for (let c = 0; c <= maxN; c++) inc[c] = T[c + 1] - T[c];
-  for (let c = 1; c <= maxN; c++) dec[c] = T[c - 1] - T[c];
-  const log2N = new Float64Array(maxN + 1);
+  // H = log2 N − S/N = (T[N] − S) / N: a flat window gives exactly 0
   const invN = new Float64Array(maxN + 1);
-  for (let n = 1; n <= maxN; n++) {
-    log2N[n] = Math.log2(n);
-    invN[n] = 1 / n;
-  }
-  const hist = new Int32Array(nBins);
-
+  for (let n = 1; n <= maxN; n++) invN[n] = 1 / (n * SCALE);
+  const hA = new Int32Array(nBins);
+  const hB = new Int32Array(nBins);
+  const k = new Kernel(bins, W, H, r, inc, T, invN, out);
+  // interior columns: leaving column x − r − 1 ≥ 0 and entering column x + r < W
+  const x0 = r + 1;
+  const x1 = W - 1 - r;
   for (let y = 0; y < H; y++) {
-    const ya = y - r < 0 ? 0 : y - r;
-    const yb = y + r > H - 1 ? H - 1 : y + r;
-    const rows = yb - ya + 1;
-    const pa = ya * W; // offset of the first window row
-    const pb = yb * W; // offset of the last window row
+    if (y - r >= 0 && y + 1 + r <= H - 1 && x0 <= x1) {
+      const pa = (y - r) * W;
+      const pb = (y + r) * W;
+      const n = (2 * r + 1) * (2 * r + 1);
+      const SA = k.left(hA, pa, pb, y * W);
+      const SB = k.left(hB, pa + W, pb + W, (y + 1) * W);
+      k.interiorPair(hA, hB, pa, x0, x1, SA, SB, T[n], invN[n], y * W);
+      k.right(hA, pa, pb, x1 + 1, k.sA, y * W);
+      k.right(hB, pa + W, pb + W, x1 + 1, k.sB, (y + 1) * W);
+      y++;
+    } else {
+      const ya = y - r < 0 ? 0 : y - r;
+      const yb = y + r > H - 1 ? H - 1 : y + r;
+      const S = k.left(hA, ya * W, yb * W, y * W);
+      k.right(hA, ya * W, yb * W, x0, S, y * W);
+    }
+  }
+}
+
+/** 2^k, k ≤ 40 the largest with N·log2 N · 2^k < 2^52 (all sums of S exact, see above). */
+function fixedPointScale(maxN: number): number {
+  const sMax = maxN * Math.log2(Math.max(2, maxN)) + 1;
+  return 2 ** Math.min(40, 52 - Math.ceil(Math.log2(sMax)));
+}
+
+/** Per-call state and the loops (small methods: V8 optimises each loop early and whole). */
+class Kernel {
+  /** S of histogram A / B after {@link Kernel.interiorPair}. */
+  sA = 0;
+  sB = 0;
+  constructor(
+    readonly bins: Uint8Array,
+    readonly W: number,
+    readonly H: number,
+    readonly r: number,
+    readonly inc: Float64Array,
+    readonly T: Float64Array,
+    readonly invN: Float64Array,
+    readonly out: Float32Array,
+  ) {}
+
+  /** Adds column x of rows pa..pb (offsets) to `hist`; returns the change of S. */
+  addCol(hist: Int32Array, pa: number, pb: number, x: number): number {
+    const bins = this.bins;
+    const inc = this.inc;
+    const W = this.W;
+    let d = 0;
+    for (let p = pa + x; p <= pb + x; p += W) {
+      const b = bins[p];
+      const c = hist[b];
+      d += inc[c];
+      hist[b] = c + 1;
+    }
+    return d;
+  }
+
+  /** Removes column x of rows pa..pb from `hist`; returns the change of S. */
+  subCol(hist: Int32Array, pa: number, pb: number, x: number): number {
+    const bins = this.bins;
+    const inc = this.inc;
+    const W = this.W;
+    let d = 0;
+    for (let p = pa + x; p <= pb + x; p += W) {
+      const b = bins[p];
+      const c = hist[b] - 1;
+      d -= inc[c];
+      hist[b] = c;
+    }
+    return d;
+  }
+
+  /** Writes entropy from S for a window of `n` pixels. */
+  put(i: number, S: number, n: number): void {
+    const e = (this.T[n] - S) * this.invN[n];
+    this.out[i] = e > 0 ? e : 0;
+  }
+
+  /**
+   * Rebuilds `hist` for the window rows pa..pb (offsets) at x = 0 and slides it over the left
+   * border part x < r + 1 (no column leaves), writing row `orow`; returns S at x = min(r, W − 1).
+   */
+  left(hist: Int32Array, pa: number, pb: number, orow: number): number {
+    const { W, r } = this;
+    const rows = (pb - pa) / W + 1;
     hist.fill(0);
     let S = 0;
     const xe = r < W - 1 ? r : W - 1;
-    for (let p = pa; p <= pb; p += W) {
-      for (let x = 0; x <= xe; x++) {
-        const b = bins[p + x];
-        const c = hist[b];
-        S += inc[c];
-        hist[b] = c + 1;
-      }
-    }
+    for (let x = 0; x <= xe; x++) S += this.addCol(hist, pa, pb, x);
     let cols = xe + 1;
-    let n = rows * cols;
-    let e = log2N[n] - S * invN[n];
-    const orow = y * W;
-    out[orow] = e > 0 ? e : 0;
-
-    for (let x = 1; x < W; x++) {
-      const xo = x - r - 1; // leaving column
-      const xi = x + r; // entering column
-      if (xo >= 0 && xi < W) {
-        for (let p = pa; p <= pb; p += W) {
-          const bo = bins[p + xo];
-          const bi = bins[p + xi];
-          if (bo !== bi) {
-            let c = hist[bo];
-            S += dec[c];
-            hist[bo] = c - 1;
-            c = hist[bi];
-            S += inc[c];
-            hist[bi] = c + 1;
-          }
-        }
-      } else {
-        if (xo >= 0) {
-          for (let p = pa; p <= pb; p += W) {
-            const b = bins[p + xo];
-            const c = hist[b];
-            S += dec[c];
-            hist[b] = c - 1;
-          }
-          cols--;
-        }
-        if (xi < W) {
-          for (let p = pa; p <= pb; p += W) {
-            const b = bins[p + xi];
-            const c = hist[b];
-            S += inc[c];
-            hist[b] = c + 1;
-          }
-          cols++;
-        }
-        n = rows * cols;
+    this.put(orow, S, rows * cols);
+    for (let x = 1; x <= r && x < W; x++) {
+      if (x + r < W) {
+        S += this.addCol(hist, pa, pb, x + r);
+        cols++;
       }
-      e = log2N[n] - S * invN[n];
-      out[orow + x] = e > 0 ? e : 0;
+      this.put(orow + x, S, rows * cols);
     }
+    return S;
+  }
+
+  /** Slides `hist` (state at x = xs − 1, xs ≥ r + 1) from x = xs to the row end, writing row `orow`. */
+  right(hist: Int32Array, pa: number, pb: number, xs: number, S: number, orow: number): void {
+    const { W, r } = this;
+    const rows = (pb - pa) / W + 1;
+    for (let x = xs; x < W; x++) {
+      S += this.subCol(hist, pa, pb, x - r - 1);
+      if (x + r < W) S += this.addCol(hist, pa, pb, x + r);
+      const cols = (x + r < W ? x + r : W - 1) - (x - r) + 1;
+      this.put(orow + x, S, rows * cols);
+    }
+  }
+
+  /**
+   * Interior x0..x1 of two full-height rows: histogram A covers the 2r + 1 rows from offset pa,
+   * histogram B the same rows shifted down by one. Rows 1..2r are read once for both. Final
+   * S values go to {@link Kernel.sA} / {@link Kernel.sB}.
+   */
+  interiorPair(
+    hA: Int32Array,
+    hB: Int32Array,
+    pa: number,
+    x0: number,
+    x1: number,
+    SA: number,
+    SB: number,
+    tN: number,
+    iN: number,
+    orow: number,
+  ): void {
+    const { bins, inc, out, W, r } = this;
+    const w = 2 * r + 1;
+    const span = 2 * r * W;
+    for (let x = x0; x <= x1; x++) {
+      const q0 = pa + x - r - 1;
+      // top row: A only
+      let bo = bins[q0];
+      let bi = bins[q0 + w];
+      let co = hA[bo] - 1;
+      hA[bo] = co;
+      let a0 = inc[co];
+      let ci = hA[bi];
+      hA[bi] = ci + 1;
+      let a1 = inc[ci];
+      // bottom row: B only
+      const qb = q0 + span + W;
+      bo = bins[qb];
+      bi = bins[qb + w];
+      co = hB[bo] - 1;
+      hB[bo] = co;
+      let b0 = inc[co];
+      ci = hB[bi];
+      hB[bi] = ci + 1;
+      let b1 = inc[ci];
+      // shared rows
+      const q1 = q0 + span;
+      for (let p = q0 + W; p <= q1; p += W) {
+        bo = bins[p];
+        bi = bins[p + w];
+        co = hA[bo] - 1;
+        hA[bo] = co;
+        a0 += inc[co];
+        ci = hA[bi];
+        hA[bi] = ci + 1;
+        a1 += inc[ci];
+        co = hB[bo] - 1;
+        hB[bo] = co;
+        b0 += inc[co];
+        ci = hB[bi];
+        hB[bi] = ci + 1;
+        b1 += inc[ci];
+      }
+      SA += a1 - a0;
+      SB += b1 - b0;
+      let e = (tN - SA) * iN;
+      out[orow + x] = e > 0 ? e : 0;
+      e = (tN - SB) * iN;
+      out[orow + W + x] = e > 0 ? e : 0;
+    }
+    this.sA = SA;
+    this.sB = SB;
   }
 }
