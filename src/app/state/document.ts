@@ -3,6 +3,7 @@
  * Konva, no worker); every edit is a patch on a Doc so undo/redo can keep inverse deltas.
  * Coordinates are image pixels (pixel centres at integer x, y; x right, y down).
  */
+import type { ScaleBarInfo } from '../worker/protocol.js';
 import type { PointPx } from '../../core/pipeline/types.js';
 
 /** Specimen outline as an ellipse, px; `angleDeg` follows the project convention (CCW on screen). */
@@ -14,14 +15,8 @@ export interface Outline {
   angleDeg: number;
 }
 
-export interface BarInfo {
-  x0: number;
-  y0: number;
-  x1: number;
-  y1: number;
-  lengthPx: number;
-  confidence: number;
-}
+/** The detected bar as the worker reports it (see worker/protocol.ts). */
+export type BarInfo = ScaleBarInfo;
 
 /** The active scale source. Only one is active at a time and it is always shown. */
 export type ScaleChoice =

@@ -6,7 +6,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import {
-  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea,
+  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2,
 } from './geometry.js';
 import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
 
@@ -231,14 +231,7 @@ export function createBandMeasurer(
         stamp[i] = stampId;
         const ax = EAx[i] - px;
         const ay = EAy[i] - py;
-        const ex = EDx[i];
-        const ey = EDy[i];
-        const ee = ex * ex + ey * ey;
-        let t = ee > 0 ? -(ax * ex + ay * ey) / ee : 0;
-        t = t < 0 ? 0 : t > 1 ? 1 : t;
-        const dx = ax + t * ex;
-        const dy = ay + t * ey;
-        const d2 = dx * dx + dy * dy;
+        const d2 = segmentDistance2(ax, ay, EDx[i], EDy[i]);
         if (d2 < best) best = d2;
       }
     }

@@ -150,13 +150,21 @@ export function distanceToPolygon(
     const ay = (a.y - p.y) * sy;
     const ex = (b.x - a.x) * sx;
     const ey = (b.y - a.y) * sy;
-    const ee = ex * ex + ey * ey;
-    let t = ee > 0 ? -(ax * ex + ay * ey) / ee : 0;
-    t = t < 0 ? 0 : t > 1 ? 1 : t;
-    const dx = ax + t * ex;
-    const dy = ay + t * ey;
-    const d2 = dx * dx + dy * dy;
+    const d2 = segmentDistance2(ax, ay, ex, ey);
     if (d2 < best) best = d2;
   }
   return Math.sqrt(best);
+}
+
+/**
+ * Squared distance from the origin to the segment a → a + e (a = segment start relative to the
+ * point, e = segment vector); the closest point's parameter is clamped to [0, 1].
+ */
+export function segmentDistance2(ax: number, ay: number, ex: number, ey: number): number {
+  const ee = ex * ex + ey * ey;
+  let t = ee > 0 ? -(ax * ex + ay * ey) / ee : 0;
+  t = t < 0 ? 0 : t > 1 ? 1 : t;
+  const dx = ax + t * ex;
+  const dy = ay + t * ey;
+  return dx * dx + dy * dy;
 }
