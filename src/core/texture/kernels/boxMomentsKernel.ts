@@ -11,9 +11,14 @@
  * part with direct indices and a right border part, each loop in a small function (V8 optimises
  * small functions early). Operation order per value is unchanged, so the result is identical to
  * the unfused two-pass form.
+ * Variance and standard deviation rows run in WebAssembly where available (boxMoments.wat,
+ * boxMomentsWasm.ts: the same operations, the vertical update two columns at a time with SIMD;
+ * identical output); the JavaScript rows below are the fallback and the reference.
  * Border: reflect-101 (… 2 1 | 0 1 2 …, OpenCV `BORDER_REFLECT_101`, SciPy mode `'mirror'`),
  * valid for 2r + 1 ≤ min(width, height) (checked by the callers).
  */
+
+import { prepareBoxWasm } from './boxMomentsWasm.js';
 
 /** What {@link boxMomentsKernel} writes. */
 export const Moment = { Mean: 0, Variance: 1, Std: 2 } as const;
@@ -51,12 +56,28 @@ export function boxMomentsKernel(
   const colS = new Float64Array(W);
   const colQ = new Float64Array(W);
   for (let k = -r; k <= r; k++) initCols(src, reflect101(k, H) * W, colS, colQ, W);
-  for (let y = 0; y < H; y++) {
-    // row 0: the column sums already hold the first window; entering = leaving row adds 0
-    const rin = y > 0 ? reflect101(y + r, H) * W : 0;
-    const rout = y > 0 ? reflect101(y - r - 1, H) * W : 0;
-    if (what === Moment.Mean) meanRow(src, rin, rout, colS, out, y * W, W, r, inv);
-    else varRow(src, rin, rout, colS, colQ, out, y * W, W, r, inv, what === Moment.Std);
+  const wk = what === Moment.Mean ? null : prepareBoxWasm(colS, colQ);
+  if (wk) {
+    const sq = what === Moment.Std ? 1 : 0;
+    for (let y = 0; y < H; y++) {
+      const rin = y > 0 ? reflect101(y + r, H) * W : 0;
+      const rout = y > 0 ? reflect101(y - r - 1, H) * W : 0;
+      wk.rowIn.set(src.subarray(rin, rin + W));
+      wk.rowLeave.set(src.subarray(rout, rout + W));
+      wk.varRow(wk.colOff, wk.inOff, wk.leaveOff, wk.outOff, W, r, inv, sq);
+      out.set(wk.rowOut, y * W);
+    }
+    const c = wk.cols;
+    for (let i = 0; i < c.length; i += 2) if (!Number.isFinite(c[i] + c[i + 1])) return false;
+    return true;
+  } else {
+    for (let y = 0; y < H; y++) {
+      // row 0: the column sums already hold the first window; entering = leaving row adds 0
+      const rin = y > 0 ? reflect101(y + r, H) * W : 0;
+      const rout = y > 0 ? reflect101(y - r - 1, H) * W : 0;
+      if (what === Moment.Mean) meanRow(src, rin, rout, colS, out, y * W, W, r, inv);
+      else varRow(src, rin, rout, colS, colQ, out, y * W, W, r, inv, what === Moment.Std);
+    }
   }
   for (let x = 0; x < W; x++) if (!Number.isFinite(colS[x] + colQ[x])) return false;
   return true;

@@ -25,7 +25,12 @@
  * their windows share 2r rows, so each shared pixel pair (leaving, entering) is read once and
  * applied to both histograms, and the two independent update chains overlap in the CPU.
  * The exact fixed-point sums make this give the same values as row-by-row processing.
+ *
+ * The interior loop of a row pair runs in WebAssembly where available (entropy.wat, same
+ * operations in the same order, so the output is identical; see entropyWasm.ts); the image
+ * borders and hosts without WebAssembly use the JavaScript loop below.
  */
+import { finishEntropyWasm, prepareEntropyWasm, type EntropyWasmCall } from './entropyWasm.js';
 
 /**
  * Local Shannon entropy (bits) of bin indices over a (2r+1)² window.
@@ -56,8 +61,9 @@ export function entropyKernel(
   // H = log2 N − S/N = (T[N] − S) / N: a flat window gives exactly 0
   const invN = new Float64Array(maxN + 1);
   for (let n = 1; n <= maxN; n++) invN[n] = 1 / (n * SCALE);
-  const hA = new Int32Array(nBins);
-  const hB = new Int32Array(nBins);
+  const wasm = W > 2 * r + 1 && H > 2 * r + 1 ? prepareEntropyWasm(bins, W, inc, nBins) : null;
+  const hA = wasm ? wasm.hA : new Int32Array(nBins);
+  const hB = wasm ? wasm.hB : new Int32Array(nBins);
   const k = new Kernel(bins, W, H, r, inc, T, invN, out);
   // interior columns: leaving column x − r − 1 ≥ 0 and entering column x + r < W
   const x0 = r + 1;
@@ -69,7 +75,8 @@ export function entropyKernel(
       const n = (2 * r + 1) * (2 * r + 1);
       const SA = k.left(hA, pa, pb, y * W);
       const SB = k.left(hB, pa + W, pb + W, (y + 1) * W);
-      k.interiorPair(hA, hB, pa, x0, x1, SA, SB, T[n], invN[n], y * W);
+      if (wasm) wasmInteriorPair(wasm, k, pa, x0, x1, SA, SB, T[n], invN[n], y * W);
+      else k.interiorPair(hA, hB, pa, x0, x1, SA, SB, T[n], invN[n], y * W);
       k.right(hA, pa, pb, x1 + 1, k.sA, y * W);
       k.right(hB, pa + W, pb + W, x1 + 1, k.sB, (y + 1) * W);
       y++;
@@ -80,6 +87,42 @@ export function entropyKernel(
       k.right(hA, ya * W, yb * W, x0, S, y * W);
     }
   }
+  if (wasm) finishEntropyWasm();
+}
+
+/** {@link Kernel.interiorPair} in WebAssembly: same arguments, same results in `k.sA` / `k.sB`. */
+function wasmInteriorPair(
+  w: EntropyWasmCall,
+  k: Kernel,
+  pa: number,
+  x0: number,
+  x1: number,
+  SA: number,
+  SB: number,
+  tN: number,
+  iN: number,
+  orow: number,
+): void {
+  const { W, r, out } = k;
+  w.interiorPair(
+    w.hAOff,
+    w.hBOff,
+    w.binsOff + pa + x0 - r - 1,
+    x1 - x0 + 1,
+    2 * r + 1,
+    W,
+    2 * r * W,
+    w.incOff,
+    w.outOff + 4 * x0,
+    SA,
+    SB,
+    tN,
+    iN,
+  );
+  out.set(w.outRows.subarray(x0, x1 + 1), orow + x0);
+  out.set(w.outRows.subarray(W + x0, W + x1 + 1), orow + W + x0);
+  k.sA = w.sOut[0];
+  k.sB = w.sOut[1];
 }
 
 /** 2^k, k ≤ 40 the largest with N·log2 N · 2^k < 2^52 (all sums of S exact, see above). */
