@@ -10,6 +10,15 @@
 // around a rough disc on a flat background). Timings are wall clock, best of 3 (skimage: 1 run
 // on the full image, it is slow), as CPU time of the process (wall time is printed for ours too).
 // OpenCV in Python is limited to one thread (cv2.setNumThreads(1)).
+//
+// Large-array allocation is measured under two conditions, the same on both sides, because it is
+// a large part of a box filter's time on 12 MP (a fresh 48 MB output is page-faulted in):
+//   huge pages  — NumPy asks the kernel for transparent huge pages on large arrays by default
+//                 (madvise(MADV_HUGEPAGE), numpy.core.multiarray._get_madvise_hugepage() is True);
+//                 Node gets the same from glibc with GLIBC_TUNABLES=glibc.malloc.hugetlb=1
+//   small pages — Node's default; NumPy with _set_madvise_hugepage(False)
+// Our timings for each condition come from a child process of this script started with or
+// without that variable (it cannot be changed inside a running process).
 import { register } from 'tsx/esm/api';
 import { spawnSync } from 'node:child_process';
 import { mkdtempSync, rmSync, writeFileSync, existsSync } from 'node:fs';
@@ -80,6 +89,7 @@ for (let i = 0; i < f.length; i++) f[i] = u8[i] / 255;
 const raster = { width: W, height: H, data: f };
 console.log(`image ${W}×${H} (${((W * H) / 1e6).toFixed(1)} MP), window ${WIN}×${WIN} px, Node ${process.version}, single thread`);
 
+const childMode = args.has('--child');
 const ours = {
   entropy256: best(() => tex.localEntropy(u8, W, H, WIN)),
   entropy32: best(() => tex.localEntropy(raster, W, H, WIN)),
@@ -92,13 +102,33 @@ const ours = {
     tex.gradientEnergy(raster, WIN);
   }),
 };
+if (childMode) {
+  process.stdout.write(JSON.stringify(ours) + '\n');
+  process.exit(0);
+}
+// variance and std again in a child per allocation condition (see the header)
+function oursIn(hugePages) {
+  const env = { ...process.env };
+  if (hugePages) env.GLIBC_TUNABLES = 'glibc.malloc.hugetlb=1';
+  else delete env.GLIBC_TUNABLES;
+  const c = spawnSync(process.execPath, [new URL(import.meta.url).pathname, '--child', ...(quick ? ['--quick'] : [])], {
+    encoding: 'utf8',
+    env,
+  });
+  if (c.status !== 0) throw new Error(`child failed: ${c.stderr}`);
+  return JSON.parse(c.stdout.trim().split('\n').pop());
+}
+const huge = process.platform === 'linux' ? oursIn(true) : null;
+const small = oursIn(false);
 const fmt = (s) => `${s.toFixed(3)} s`;
 const fmt2 = (t) => `${fmt(t.cpu)} CPU (${fmt(t.wall)} wall)`;
-console.log('ours (opencv-wasm + hand-written entropy):');
+console.log('ours (opencv-wasm + hand-written WebAssembly kernels):');
 console.log(`  localEntropy, 8-bit, 256 bins      ${fmt2(ours.entropy256)}`);
 console.log(`  localEntropy, raster, 32 bins      ${fmt2(ours.entropy32)}`);
 console.log(`  localVariance                      ${fmt2(ours.variance)}`);
 console.log(`  localStd                           ${fmt2(ours.std)}`);
+if (huge) console.log(`  localVariance, huge pages          ${fmt2(huge.variance)}`);
+console.log(`  localVariance, small pages         ${fmt2(small.variance)}`);
 console.log(`  gradientEnergy                     ${fmt2(ours.gradient)}`);
 console.log(`  set of three (std+entropy+gradient) ${fmt2(ours.set3)}`);
 
@@ -122,6 +152,12 @@ try:
         m2 = cv2.boxFilter(x * x, -1, (w, w), borderType=cv2.BORDER_REFLECT_101)
         return m2 - m * m
     res['cv2_variance'] = best(cvvar)
+    from numpy.core import multiarray as ma
+    res['numpy_hugepages_default'] = bool(ma._get_madvise_hugepage())
+    ma._set_madvise_hugepage(False)
+    res['cv2_variance_small'] = best(cvvar)
+    ma._set_madvise_hugepage(True)
+    res['cv2_variance_huge'] = best(cvvar)
 except ImportError as e:
     res['cv2_error'] = str(e)
 try:
@@ -170,11 +206,15 @@ if (args.has('--no-python') || !existsSync(PY)) {
         console.log(`  ${label.padEnd(44)} ${fmt(ref)}   ours ${fmt(mine.cpu)}   ratio ref/ours ${(ref / mine.cpu).toFixed(2)}× (CPU time)`);
       if (r.skimage_entropy !== undefined) line('skimage rank.entropy (1 run)', r.skimage_entropy, ours.entropy256);
       else console.log('  skimage missing:', r.skimage_error);
-      if (r.cv2_variance !== undefined) line('cv2.boxFilter variance (1 thread)', r.cv2_variance, ours.variance);
-      else console.log('  cv2 missing:', r.cv2_error);
+      if (r.cv2_variance !== undefined) {
+        if (huge) line('cv2.boxFilter variance, huge pages both', r.cv2_variance_huge, huge.variance);
+        line('cv2.boxFilter variance, small pages both', r.cv2_variance_small, small.variance);
+        line('cv2.boxFilter variance, each default', r.cv2_variance, ours.variance);
+      } else console.log('  cv2 missing:', r.cv2_error);
       if (r.scipy_variance !== undefined) line('scipy uniform_filter variance', r.scipy_variance, ours.variance);
       else console.log('  scipy missing:', r.scipy_error);
       console.log('targets: entropy ≥ 15× faster than skimage; variance no slower than cv2 (ratio ≥ 1)');
+      console.log('  (cv2 1 thread; "each default": NumPy with huge pages, this process as started)');
     }
   } finally {
     rmSync(dir, { recursive: true, force: true });

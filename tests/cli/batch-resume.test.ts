@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -35,8 +36,31 @@ describe('batch --resume after kill -9', () => {
       if (done >= 3) break;
       await new Promise((r) => setTimeout(r, 20));
     }
+    // the worker processes: forked from the batch, one per --jobs, each started --single-threaded
+    const workers = execFileSync('ps', ['-o', 'pid=', '--ppid', String(child.pid)], { encoding: 'utf8' })
+      .split('\n')
+      .map((l) => Number(l.trim()))
+      .filter((n) => n > 0);
+    expect(workers.length).toBe(2);
+    for (const pid of workers) {
+      const cmd = readFileSync(`/proc/${pid}/cmdline`, 'utf8').split('\0');
+      expect(cmd).toContain('--single-threaded');
+      expect(cmd.some((a) => a.endsWith('batch/worker.js'))).toBe(true);
+    }
     child.kill('SIGKILL');
     await exited;
+    // orphaned workers notice the lost IPC channel and exit (they never write files themselves)
+    const alive = (pid: number): boolean => {
+      try {
+        process.kill(pid, 0);
+        return !/^\S+ \(\S+\) Z/.test(readFileSync(`/proc/${pid}/stat`, 'utf8'));
+      } catch {
+        return false;
+      }
+    };
+    const tk = Date.now();
+    while (workers.some(alive) && Date.now() - tk < 10_000) await new Promise((r) => setTimeout(r, 50));
+    expect(workers.filter(alive)).toEqual([]);
     const afterKill = readdirSync(resultsDir).filter((n) => n.endsWith('.json') && !n.startsWith('.'));
     expect(afterKill.length).toBeGreaterThanOrEqual(3);
     expect(afterKill.length).toBeLessThan(N); // really interrupted

@@ -193,6 +193,7 @@ describe('fractozone batch: refusals and crashes', () => {
     const rec = JSON.parse(readFileSync(join(d, 'out/results/crash.png.json'), 'utf8'));
     expect(rec.error.code).toBe('PROCESSING_FAILED');
     expect(rec.error.message).toMatch(/worker stopped/);
+    expect(rec.error.message).toMatch(/simulated worker crash/); // the worker's own last error line
   });
 
   it('a processor that cannot load stops the batch with a clear one-line error (exit 1)', () => {
