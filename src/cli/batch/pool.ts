@@ -28,6 +28,8 @@ export type PoolOutcome =
 
 interface Slot {
   worker: ChildProcess;
+  /** CPU seconds the worker reported with its last image. */
+  cpuS: number;
   ready: boolean;
   busy: { id: number; resolve: (o: PoolOutcome) => void } | null;
 }
@@ -48,6 +50,13 @@ export class WorkerPool {
   private closed = false;
   /** Number of workers replaced after a crash. */
   replaced = 0;
+  /** CPU seconds reported by workers that have been replaced. */
+  private deadCpuS = 0;
+
+  /** CPU seconds used by the workers, as last reported (with each finished image). */
+  get workerCpuS(): number {
+    return this.slots.reduce((a, s) => a + s.cpuS, this.deadCpuS);
+  }
 
   constructor(private readonly opts: PoolOptions) {
     for (let i = 0; i < Math.max(1, opts.jobs); i++) this.slots.push(this.spawn());
@@ -60,7 +69,7 @@ export class WorkerPool {
       serialization: 'advanced',
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
     });
-    const slot: Slot = { worker, ready: false, busy: null };
+    const slot: Slot = { worker, cpuS: 0, ready: false, busy: null };
     worker.on('message', (msg: { type: string; id?: number; ok?: boolean; message?: string } & Record<string, unknown>) => {
       if (msg.type === 'ready') {
         slot.ready = true;
@@ -68,6 +77,7 @@ export class WorkerPool {
       } else if (msg.type === 'startup-failed') {
         this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${msg.message}`, 'processing'));
       } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
+        if (typeof msg.cpuS === 'number') slot.cpuS = msg.cpuS;
         const b = slot.busy;
         slot.busy = null;
         const overlay = msg.overlayPng as Uint8Array | null | undefined;
@@ -108,6 +118,7 @@ export class WorkerPool {
         });
       }
       this.replaced++;
+      this.deadCpuS += slot.cpuS;
       this.slots[idx] = this.spawn();
     });
     return slot;

@@ -53,7 +53,7 @@ export interface BatchSummary {
   skipped: number;
   workersReplaced: number;
   files: { csv: string; jsonl: string; report: string };
-  /** Wall-clock and CPU seconds of the whole run (CPU summed over all threads of the process). */
+  /** Wall-clock and CPU seconds of the whole run (CPU of this process plus what the worker processes reported). */
   timing: { wallS: number; cpuS: number };
 }
 
@@ -269,6 +269,9 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
     skipped: counts.skipped,
     workersReplaced: pool ? (pool as WorkerPool).replaced : 0,
     files: { csv: 'results.csv', jsonl: 'results.jsonl', report: 'report.html' },
-    timing: { wallS: round3((performance.now() - t0) / 1000), cpuS: round3(cpuSeconds(process.cpuUsage(c0))) },
+    timing: {
+      wallS: round3((performance.now() - t0) / 1000),
+      cpuS: round3(cpuSeconds(process.cpuUsage(c0)) + (pool ? (pool as WorkerPool).workerCpuS : 0)),
+    },
   };
 }

@@ -17,6 +17,12 @@ interface TaskMsg {
   params: MeasureParams;
 }
 
+/** CPU seconds this worker process has used so far (reported with every image). */
+function cpuS(): number {
+  const u = process.cpuUsage();
+  return (u.user + u.system) / 1e6;
+}
+
 async function main(): Promise<void> {
   const send = process.send?.bind(process);
   if (!send) throw new Error('batch worker started without an IPC channel');
@@ -32,13 +38,13 @@ async function main(): Promise<void> {
       (o) => {
         const overlayPng = o.overlayPng;
         const thumb = o.thumbnailPng ?? (overlayPng ? thumbnailPng(overlayPng) : null);
-        send({ type: 'done', id: msg.id, ok: true, result: o.result, overlayPng, thumbnailPng: thumb });
+        send({ type: 'done', id: msg.id, ok: true, result: o.result, overlayPng, thumbnailPng: thumb, cpuS: cpuS() });
       },
       (e: unknown) => {
         const error = isFractozoneError(e)
           ? { code: e.code, message: e.message }
           : { code: 'PROCESSING_FAILED', message: `processing failed: ${e instanceof Error ? e.message : String(e)}` };
-        send({ type: 'done', id: msg.id, ok: false, error });
+        send({ type: 'done', id: msg.id, ok: false, error, cpuS: cpuS() });
       },
     );
   });

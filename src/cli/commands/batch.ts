@@ -32,10 +32,10 @@ export function register(program: Command): void {
     .argument('[inputs...]', 'folders, glob patterns (quote them) or image files')
     .requiredOption('--out <folder>', 'output folder (must not be, or contain, an input folder)')
     .option('--manifest <file.csv>', 'per-image settings: file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material (file relative to the manifest); alone it also lists the images')
-    .option('--jobs <n>', 'worker threads (default: one per core)')
+    .option('--jobs <n>', 'worker processes, each using one core (default: one per core)')
     .option('--resume', 'skip images whose result exists for the same image content and parameters')
     .option('--shard <i/n>', 'process only shard i of n (image k of the sorted list goes to shard (k mod n) + 1)')
-    .option('--worker-memory <MB>', 'heap limit of each worker thread in MB (a worker that exceeds it fails its image and is replaced)')
+    .option('--worker-memory <MB>', 'heap limit of each worker process in MB (a worker that exceeds it fails its image and is replaced)')
     .option('--json', 'print the summary as JSON on stdout (progress and messages on stderr)')
     .option('--no-progress', 'no progress output on stderr');
   addMeasureOptions(cmd);
