@@ -14,6 +14,7 @@ import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './sta
 export type RayReason =
   | 'excluded'
   | 'outer-edge-at-frame'
+  | 'outer-edge-at-scale-mark'
   | 'no-outer-edge'
   | 'no-boundary'
   | 'boundary-outside-outer'
@@ -49,6 +50,11 @@ export interface MeasureParams {
   imageSize?: { width: number; height: number };
   /** Distance from the frame (px) under which an outer end counts as "at the frame" (default 1.5). */
   frameMarginPx?: number;
+  /**
+   * Boxes of scale marks (bar, plate, label; px): rays whose outer end lies in one (grown by
+   * `frameMarginPx`) are invalid, reason 'outer-edge-at-scale-mark' — the edge there is the mark's.
+   */
+  markBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
   /** Outlier threshold k in robust σ (1.4826·MAD), default 3.5. */
   outlierK?: number;
   /**
@@ -167,6 +173,8 @@ export function createBandMeasurer(
   const thetas: number[] = [];
   const outerR: (number | null)[] = [];
   const atFrame: boolean[] = [];
+  const atMark: boolean[] = [];
+  const marks = params.markBoxes ?? [];
   for (let i = 0; i < nRays; i++) {
     const th = (360 * i) / nRays;
     thetas.push(th);
@@ -181,15 +189,22 @@ export function createBandMeasurer(
       f = x <= margin || y <= margin || x >= size.width - 1 - margin || y >= size.height - 1 - margin;
     }
     atFrame.push(f);
+    let m = false;
+    if (r !== null && marks.length) {
+      const d = rayDirection(th);
+      m = inBoxes(marks, center.x + r * d.x, center.y + r * d.y, margin);
+    }
+    atMark.push(m);
   }
   const outerArea = polygonArea(outer);
-  const anyFrame = atFrame.some((v) => v);
+  const anyFrame = atFrame.some((v) => v) || atMark.some((v) => v);
   // outer edges lying on the frame are not real edges: skip them for the normal width.
   // Scaled edge arrays (µm) are prepared once so that the normal width is a tight loop.
   const sx = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.x;
   const sy = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.y;
   const onF = (q: Point): boolean =>
-    !!size && (q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin);
+    (!!size && (q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin)) ||
+    (marks.length > 0 && inBoxes(marks, q.x, q.y, margin));
   const nO = outer.length;
   const EAx = new Float64Array(nO);
   const EAy = new Float64Array(nO);
@@ -256,6 +271,7 @@ export function createBandMeasurer(
       if (isExcluded(th, params.exclude)) ray.reason = 'excluded';
       else if (ro === null) ray.reason = 'no-outer-edge';
       else if (atFrame[i]) ray.reason = 'outer-edge-at-frame';
+      else if (atMark[i]) ray.reason = 'outer-edge-at-scale-mark';
       else if (rb === null) ray.reason = 'no-boundary';
       else if (ray.widthPx !== null && ray.widthPx < 0) ray.reason = 'boundary-outside-outer';
       else if (ray.widthPx !== null && ray.widthPx < (params.minWidthPx ?? 0)) ray.reason = 'band-absent';
@@ -313,7 +329,8 @@ export function createBandMeasurer(
  * angle on the pixel grid).
  *
  * Invalid rays: 'excluded' (in a sector), 'no-outer-edge', 'outer-edge-at-frame' (the outer end
- * is within frameMarginPx of the image frame: the true edge is cut off), 'no-boundary',
+ * is within frameMarginPx of the image frame: the true edge is cut off), 'outer-edge-at-scale-mark'
+ * (the outer end lies on a scale bar, plate or label box), 'no-boundary',
  * 'boundary-outside-outer', 'band-absent' (width < minWidthPx). Outliers (|w − median| > k·1.4826·MAD) stay valid with
  * reason 'outlier' and leave the statistics only with dropOutliers.
  *
@@ -340,4 +357,12 @@ export function measureFromPolygons(
   params: MeasureParams,
 ): BandProfile {
   return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);
+}
+
+/** True when (x, y) lies in one of the boxes grown by `margin`. */
+function inBoxes(boxes: ReadonlyArray<{ x: number; y: number; w: number; h: number }>, x: number, y: number, margin: number): boolean {
+  for (const b of boxes) {
+    if (x >= b.x - margin && x <= b.x + b.w + margin && y >= b.y - margin && y <= b.y + b.h + margin) return true;
+  }
+  return false;
 }

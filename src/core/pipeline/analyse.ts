@@ -13,7 +13,7 @@ import type { GrayRaster } from '../image/raster.js';
 import { decodeImage, type DecodedImage } from '../decode/index.js';
 import { chooseScale, detectScaleBar, type Scale, type ScaleBar } from '../calibrate/index.js';
 import { defaultWindowUm, windowPxFromUm, isFeatureName, boxMean, computeFeature, downsample } from '../texture/index.js';
-import { findSpecimen, classifyRimCore, refineBoundary, refineOuterEdge, type Specimen, type RimCoreResult } from '../segment/index.js';
+import { findSpecimen, classifyRimCore, refineBoundary, refineOuterEdge, scaleMarkBoxes, paintOutBoxes, type Specimen, type RimCoreResult } from '../segment/index.js';
 import { measureBand, type BandProfile } from '../measure/index.js';
 import { resolveCriticalDistance, compareWidthWithL, impliedToughness } from '../tcd/index.js';
 import { renderOverlay } from '../report/overlay.js';
@@ -84,6 +84,11 @@ export interface MeasureResult {
     background: 'dark' | 'bright';
     touchesFrame: boolean;
     frameContactFraction: number;
+    /**
+     * Boxes of the detected scale bar, plate and label (px), painted out before the outline was
+     * found; rays whose outer edge ends in one are not measured.
+     */
+    scaleMarksPx?: { x: number; y: number; w: number; h: number }[];
     /** Outer edge used for the rays (px). */
     outline: PointPx[];
   };
@@ -209,6 +214,7 @@ function bandBlock(
   imageSize: { width: number; height: number },
   p: MeasureParams,
   minWidthPx: number,
+  markBoxes: readonly { x: number; y: number; w: number; h: number }[] = [],
 ): { band: BandProfile; block: Pick<MeasureResult['band'], 'widthUm' | 'normalWidthUm' | 'areaEquivalentWidthUm' | 'nRays' | 'nValid' | 'nOutliers' | 'profile'> } {
   const band = measureBand({
     outer,
@@ -218,6 +224,7 @@ function bandBlock(
     nRays: p.nRays,
     exclude: p.exclude,
     imageSize,
+    markBoxes,
     minWidthPx,
     outlierK: p.outlierK,
     dropOutliers: p.dropOutliers,
@@ -350,9 +357,17 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   // the outer edge is refined on the full-resolution image. Working pixel (i, j) covers the
   // full-resolution point ((i + 0.5)·sx − 0.5, (j + 0.5)·sy − 0.5).
   const factor = Math.max(1, Math.max(raster.width, raster.height) / WORKING_LONG_SIDE_PX);
-  const work = downsample(raster, factor);
-  const sx = raster.width / work.width;
-  const sy = raster.height / work.height;
+  const marks = bar ? scaleMarkBoxes(bar, raster.width, raster.height, raster) : [];
+  const work0 = downsample(raster, factor);
+  const sx = raster.width / work0.width;
+  const sy = raster.height / work0.height;
+  // scale marks painted out in the working copy (never in `raster`), see segment/marks.ts
+  const work = marks.length
+    ? paintOutBoxes(
+        work0,
+        marks.map((b) => ({ x: (b.x + 0.5) / sx - 0.5, y: (b.y + 0.5) / sy - 0.5, w: b.w / sx, h: b.h / sy })),
+      )
+    : work0;
   const toFull = (q: PointPx): PointPx => ({ x: (q.x + 0.5) * sx - 0.5, y: (q.y + 0.5) * sy - 0.5 });
   const toWork = (q: PointPx): PointPx => ({ x: (q.x + 0.5) / sx - 0.5, y: (q.y + 0.5) / sy - 0.5 });
   const specimen: Specimen = findSpecimen(work);
@@ -466,6 +481,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
       background: specimen.background,
       touchesFrame: specimen.touchesFrame,
       frameContactFraction: round(specimen.frameContactFraction, 4),
+      ...(marks.length ? { scaleMarksPx: marks.map((b) => ({ x: round(b.x, 2), y: round(b.y, 2), w: round(b.w, 2), h: round(b.h, 2) })) } : {}),
       outline,
     },
     band: {
@@ -488,7 +504,9 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
 
   let band: BandProfile | null = null;
   if (result.band.boundary) {
-    const m = bandBlock(outline, result.band.boundary.polygon, result.specimen.center, s, { width: raster.width, height: raster.height }, p, minWidthPxFor(result));
+    const m = bandBlock(outline, result.band.boundary.polygon, result.specimen.center, s, { width: raster.width, height: raster.height }, p, minWidthPxFor(result), result.specimen.scaleMarksPx);
+    const nMark = m.band.rays.filter((q) => q.reason === 'outer-edge-at-scale-mark').length;
+    if (nMark > 0) warnings.push(`the scale bar or its plate touches the specimen outline: ${nMark} rays there are not measured`);
     band = m.band;
     Object.assign(result.band, m.block);
     if (!m.block.widthUm) {
@@ -547,6 +565,7 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       { width: result.input.widthPx, height: result.input.heightPx },
       p,
       minWidthPxFor(result),
+      result.specimen.scaleMarksPx,
     );
     Object.assign(result.band, m.block);
     result.band.detected = m.block.widthUm !== null;
