@@ -6,7 +6,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import {
-  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2,
+  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2, inBoxes,
 } from './geometry.js';
 import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
 
@@ -357,12 +357,4 @@ export function measureFromPolygons(
   params: MeasureParams,
 ): BandProfile {
   return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);
-}
-
-/** True when (x, y) lies in one of the boxes grown by `margin`. */
-function inBoxes(boxes: ReadonlyArray<{ x: number; y: number; w: number; h: number }>, x: number, y: number, margin: number): boolean {
-  for (const b of boxes) {
-    if (x >= b.x - margin && x <= b.x + b.w + margin && y >= b.y - margin && y <= b.y + b.h + margin) return true;
-  }
-  return false;
 }

@@ -168,3 +168,16 @@ export function segmentDistance2(ax: number, ay: number, ex: number, ey: number)
   const dy = ay + t * ey;
   return dx * dx + dy * dy;
 }
+
+/** True when (x, y) lies in one of the axis-aligned boxes (x, y, w, h; px) grown by `margin`. */
+export function inBoxes(
+  boxes: ReadonlyArray<{ x: number; y: number; w: number; h: number }>,
+  x: number,
+  y: number,
+  margin = 0,
+): boolean {
+  for (const b of boxes) {
+    if (x >= b.x - margin && x <= b.x + b.w + margin && y >= b.y - margin && y <= b.y + b.h + margin) return true;
+  }
+  return false;
+}

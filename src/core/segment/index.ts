@@ -9,4 +9,4 @@ export type { RefineBoundaryOptions, RefinedBoundary, RefineOuterOptions } from 
 export { refineBoundary, refineOuterEdge, boxEnergy } from './refine.js';
 export type { SegmentAndMeasureParams, SegmentAndMeasureResult } from './segmentAndMeasure.js';
 export { segmentAndMeasure } from './segmentAndMeasure.js';
-export { scaleMarkBoxes, paintOutBoxes, inBoxes, MARK_PAD_PX } from './marks.js';
+export { scaleMarkBoxes, paintOutBoxes, MARK_PAD_PX } from './marks.js';

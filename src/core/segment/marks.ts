@@ -7,6 +7,7 @@
  */
 import type { BoxPx, ScaleBar } from '../calibrate/scaleBar.js';
 import { createRaster, type GrayRaster } from '../image/raster.js';
+import { inBoxes } from '../measure/geometry.js';
 
 /** Margin added around every mark box, px (anti-aliased edges, blur). */
 export const MARK_PAD_PX = 3;
@@ -97,14 +98,6 @@ function growPlate(r: GrayRaster, box: BoxPx, barThicknessPx: number): BoxPx {
   for (let g = 0; g < maxGrow && x0 > 0 && Math.abs(colMean(x0 - 1) - level) < tol; g++) x0--;
   for (let g = 0; g < maxGrow && x1 < W - 1 && Math.abs(colMean(x1 + 1) - level) < tol; g++) x1++;
   return { x: x0, y: y0, w: x1 - x0, h: y1 - y0 };
-}
-
-/** True when (x, y) lies in one of the boxes grown by `margin`. */
-export function inBoxes(boxes: readonly BoxPx[], x: number, y: number, margin = 0): boolean {
-  for (const b of boxes) {
-    if (x >= b.x - margin && x <= b.x + b.w + margin && y >= b.y - margin && y <= b.y + b.h + margin) return true;
-  }
-  return false;
 }
 
 /**

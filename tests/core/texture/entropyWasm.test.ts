@@ -4,16 +4,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { localEntropy } from '../../../src/core/texture/index.js';
 import { entropyWasmAvailable } from '../../../src/core/texture/kernels/entropyWasm.js';
 import { decodeBase64, setWasmKernelsEnabled } from '../../../src/core/texture/kernels/wasm.js';
-
-function seeded(n: number, seed: number, levels: number): Uint8Array {
-  let a = seed >>> 0;
-  const v = new Uint8Array(n);
-  for (let i = 0; i < n; i++) {
-    a = (Math.imul(a, 1664525) + 1013904223) >>> 0;
-    v[i] = Math.floor((a / 4294967296) * levels);
-  }
-  return v;
-}
+import { seeded } from './fixtures.js';
 
 /** Smooth field plus noise: long runs of equal bins (counts up and down by many) and busy parts. */
 function textured(W: number, H: number, seed: number): Uint8Array {

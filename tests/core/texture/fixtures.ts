@@ -52,3 +52,14 @@ export function maxOf(a: ArrayLike<number>): number {
   for (let i = 0; i < a.length; i++) m = Math.max(m, a[i]);
   return m;
 }
+
+/** Seeded pseudo-random levels 0..levels − 1 (linear congruential, Numerical Recipes constants). */
+export function seeded(n: number, seed: number, levels: number): Uint8Array {
+  let a = seed >>> 0;
+  const v = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    a = (Math.imul(a, 1664525) + 1013904223) >>> 0;
+    v[i] = Math.floor((a / 4294967296) * levels);
+  }
+  return v;
+}

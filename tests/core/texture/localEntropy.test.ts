@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { isFractozoneError } from '../../../src/core/errors.js';
 import { createRaster } from '../../../src/core/image/raster.js';
 import { intensityRange, localEntropy } from '../../../src/core/texture/index.js';
+import { seeded } from './fixtures.js';
 
 /** Brute force: Shannon entropy (bits) of the in-image pixels of the window (definition, Shannon 1948). */
 function bruteEntropy(v: Uint8Array, W: number, H: number, w: number): Float64Array {
@@ -25,16 +26,6 @@ function bruteEntropy(v: Uint8Array, W: number, H: number, w: number): Float64Ar
     }
   }
   return out;
-}
-
-function seeded(n: number, seed: number, levels: number): Uint8Array {
-  let a = seed >>> 0;
-  const v = new Uint8Array(n);
-  for (let i = 0; i < n; i++) {
-    a = (Math.imul(a, 1664525) + 1013904223) >>> 0;
-    v[i] = Math.floor((a / 4294967296) * levels);
-  }
-  return v;
 }
 
 function codeOf(f: () => unknown): string | undefined {
