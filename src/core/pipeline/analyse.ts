@@ -362,15 +362,11 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const sx = raster.width / work0.width;
   const sy = raster.height / work0.height;
   // scale marks painted out in the working copy (never in `raster`), see segment/marks.ts
-  const work = marks.length
-    ? paintOutBoxes(
-        work0,
-        marks.map((b) => ({ x: (b.x + 0.5) / sx - 0.5, y: (b.y + 0.5) / sy - 0.5, w: b.w / sx, h: b.h / sy })),
-      )
-    : work0;
+  const marksW = marks.map((b) => ({ x: (b.x + 0.5) / sx - 0.5, y: (b.y + 0.5) / sy - 0.5, w: b.w / sx, h: b.h / sy }));
+  const work = marks.length ? paintOutBoxes(work0, marksW) : work0;
   const toFull = (q: PointPx): PointPx => ({ x: (q.x + 0.5) * sx - 0.5, y: (q.y + 0.5) * sy - 0.5 });
   const toWork = (q: PointPx): PointPx => ({ x: (q.x + 0.5) / sx - 0.5, y: (q.y + 0.5) / sy - 0.5 });
-  const specimen: Specimen = findSpecimen(work);
+  const specimen: Specimen = findSpecimen(work, { excludeBoxes: marksW });
   const centerW = { x: specimen.circle.cx, y: specimen.circle.cy };
   const center = toFull(centerW);
   const outer = refineOuterEdge(raster, specimen.contour.map(toFull), center, { nRays: Math.max(p.nRays, 360) });

@@ -8,6 +8,7 @@ import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { Point } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat, rectMorph } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
+import { inBoxes } from '../measure/geometry.js';
 
 /** Options of {@link findSpecimen}. */
 export interface SpecimenOptions {
@@ -17,6 +18,12 @@ export interface SpecimenOptions {
   useTexture?: boolean;
   /** Components smaller than this fraction of the largest are ignored (default 0.25). */
   minComponentFraction?: number;
+  /**
+   * Boxes (px of `r`) whose contour points are left out of the circle and ellipse fits, like
+   * points on the frame: painted-out scale marks, where the outline is the mark's, not the
+   * specimen's (default none).
+   */
+  excludeBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
 }
 
 /** Result of {@link findSpecimen}; all coordinates px at full resolution. */
@@ -133,8 +140,12 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const onFrame = (p: Point): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
   const inner = contour.filter((p) => !onFrame(p));
   const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
-  const circle = fitCircle(inner);
-  const ellipse = fitEllipseToPoints(inner);
+  const marks = opts.excludeBoxes ?? [];
+  const fitPts = marks.length ? inner.filter((p) => !inBoxes(marks, p.x, p.y, 2)) : inner;
+  // a fit needs enough of the outline; if the marks would leave too little, keep them in
+  const use = fitPts.length >= Math.max(16, 0.5 * inner.length) ? fitPts : inner;
+  const circle = fitCircle(use);
+  const ellipse = fitEllipseToPoints(use);
   if (!circle || !ellipse) throw new FractozoneError('NO_SPECIMEN', 'The specimen outline is too short to fit a circle or ellipse.');
   return {
     mask, contour, circle, ellipse, areaPx: area, equivalentRadiusPx: Math.sqrt(area / Math.PI),
