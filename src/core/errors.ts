@@ -18,7 +18,8 @@ export type ErrorCode =
   | 'BAD_MANIFEST'
   | 'BAD_BOUNDARY'
   | 'NO_SPECIMEN'
-  | 'PROCESSING_FAILED';
+  | 'PROCESSING_FAILED'
+  | 'IMAGE_TIMEOUT';
 
 export type ErrorKind = 'input' | 'usage' | 'processing';
 

@@ -196,6 +196,37 @@ describe('fractozone batch: refusals and crashes', () => {
     expect(rec.error.message).toMatch(/simulated worker crash/); // the worker's own last error line
   });
 
+  it('a worker over --worker-memory fails that image with the heap message; the batch goes on', () => {
+    const d = tempDir('oom');
+    write(join(d, 'a.png'), discPng(32, 1));
+    write(join(d, 'oom.png'), discPng(32, 2));
+    write(join(d, 'z.png'), discPng(32, 3));
+    const r = runCli(['batch', d, '--out', join(d, 'out'), '--jobs', '1', '--json', '--worker-memory', '48']);
+    expect(r.code).toBe(1);
+    expect(JSON.parse(r.stdout)).toMatchObject({ total: 3, ok: 2, failed: 1, workersReplaced: 1 });
+    const rec = JSON.parse(readFileSync(join(d, 'out/results/oom.png.json'), 'utf8'));
+    expect(rec.error.code).toBe('PROCESSING_FAILED');
+    expect(rec.error.message).toMatch(/worker stopped/);
+    expect(rec.error.message).toMatch(/FATAL ERROR: .*heap out of memory/);
+    expect(r.stderr).not.toMatch(/\n\s+at /); // V8's report stays out of the batch's own output
+  });
+
+  it('--image-timeout stops a hanging image (IMAGE_TIMEOUT) and the batch goes on', () => {
+    const d = tempDir('hang');
+    write(join(d, 'a.png'), discPng(32, 1));
+    write(join(d, 'hang.png'), discPng(32, 2));
+    write(join(d, 'z.png'), discPng(32, 3));
+    const t0 = Date.now();
+    const r = runCli(['batch', d, '--out', join(d, 'out'), '--jobs', '2', '--json', '--image-timeout', '2']);
+    expect(Date.now() - t0).toBeLessThan(60_000);
+    expect(r.code).toBe(1);
+    expect(JSON.parse(r.stdout)).toMatchObject({ total: 3, ok: 2, failed: 1, workersReplaced: 1 });
+    const rec = JSON.parse(readFileSync(join(d, 'out/results/hang.png.json'), 'utf8'));
+    expect(rec.error.code).toBe('IMAGE_TIMEOUT');
+    expect(rec.error.message).toMatch(/--image-timeout 2 s/);
+    expect(runCli(['batch', d, '--out', join(d, 'out2'), '--image-timeout', '0']).code).toBe(2);
+  });
+
   it('a processor that cannot load stops the batch with a clear one-line error (exit 1)', () => {
     const d = tempDir('noproc');
     write(join(d, 'a.png'), discPng(32, 1));

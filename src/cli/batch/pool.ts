@@ -32,6 +32,10 @@ interface Slot {
   cpuS: number;
   ready: boolean;
   busy: { id: number; resolve: (o: PoolOutcome) => void } | null;
+  /** Timer of the image in progress (with {@link PoolOptions.imageTimeoutS}). */
+  timer: ReturnType<typeof setTimeout> | null;
+  /** Set when the pool killed the worker for taking too long. */
+  timedOut: boolean;
 }
 
 export interface PoolOptions {
@@ -39,6 +43,8 @@ export interface PoolOptions {
   processorModule: string;
   /** Heap limit per worker, MB (V8 `--max-old-space-size`); undefined = Node default. */
   workerMemoryMb?: number;
+  /** Longest time one image may take, s: the worker is then killed and replaced; undefined = no limit. */
+  imageTimeoutS?: number;
 }
 
 export class WorkerPool {
@@ -69,7 +75,7 @@ export class WorkerPool {
       serialization: 'advanced',
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
     });
-    const slot: Slot = { worker, cpuS: 0, ready: false, busy: null };
+    const slot: Slot = { worker, cpuS: 0, ready: false, busy: null, timer: null, timedOut: false };
     worker.on('message', (msg: { type: string; id?: number; ok?: boolean; message?: string } & Record<string, unknown>) => {
       if (msg.type === 'ready') {
         slot.ready = true;
@@ -78,6 +84,7 @@ export class WorkerPool {
         this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${msg.message}`, 'processing'));
       } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
         if (typeof msg.cpuS === 'number') slot.cpuS = msg.cpuS;
+        this.clearTimer(slot);
         const b = slot.busy;
         slot.busy = null;
         const overlay = msg.overlayPng as Uint8Array | null | undefined;
@@ -109,12 +116,15 @@ export class WorkerPool {
         this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker stopped during start-up (${why || `exit code ${code}`})`, 'processing'));
         return;
       }
+      this.clearTimer(slot);
       if (slot.busy) {
         const b = slot.busy;
         slot.busy = null;
         b.resolve({
           ok: false,
-          error: { code: 'PROCESSING_FAILED', message: `the worker stopped while processing this image (${why || `exit code ${code}`})` },
+          error: slot.timedOut
+            ? { code: 'IMAGE_TIMEOUT', message: `the image took longer than --image-timeout ${this.opts.imageTimeoutS} s; its worker was stopped` }
+            : { code: 'PROCESSING_FAILED', message: `the worker stopped while processing this image (${why || `exit code ${code}`})` },
         });
       }
       this.replaced++;
@@ -122,6 +132,11 @@ export class WorkerPool {
       this.slots[idx] = this.spawn();
     });
     return slot;
+  }
+
+  private clearTimer(slot: Slot): void {
+    if (slot.timer) clearTimeout(slot.timer);
+    slot.timer = null;
   }
 
   private fail(e: Error): void {
@@ -138,6 +153,14 @@ export class WorkerPool {
       slot.busy = { id: job.id, resolve: job.resolve };
       const b = job.task.bytes;
       slot.worker.send({ type: 'task', id: job.id, bytes: b, input: job.task.input, params: job.task.params });
+      const limit = this.opts.imageTimeoutS;
+      if (limit) {
+        slot.timer = setTimeout(() => {
+          slot.timer = null;
+          slot.timedOut = true;
+          slot.worker.kill('SIGKILL');
+        }, limit * 1000);
+      }
     }
   }
 
@@ -158,6 +181,7 @@ export class WorkerPool {
 
   async close(): Promise<void> {
     this.closed = true;
+    for (const s of this.slots) this.clearTimer(s);
     await Promise.all(
       this.slots.map(
         (s) =>
@@ -171,12 +195,16 @@ export class WorkerPool {
   }
 }
 
-/** The last line of a worker's stderr that names an error, without stack frames. */
+/**
+ * The line of a worker's stderr that names its error: V8's "FATAL ERROR: …" (out of memory) if
+ * present, else the last line naming an error, without stack or native frames.
+ */
 function lastErrorLine(text: string): string {
   const lines = text
     .split('\n')
     .map((l) => l.trim())
-    .filter((l) => l !== '' && !l.startsWith('at ') && !/^\^+$/.test(l) && !l.startsWith('Node.js v'));
-  const err = lines.filter((l) => /error|heap|memory/i.test(l));
+    .filter((l) => l !== '' && !l.startsWith('at ') && !/^\^+$/.test(l) && !l.startsWith('Node.js v') && !/^\d+: 0x[0-9a-f]+ /i.test(l));
+  const fatal = lines.filter((l) => l.startsWith('FATAL ERROR:'));
+  const err = fatal.length ? fatal : lines.filter((l) => /error|heap|memory/i.test(l));
   return (err.length ? err[err.length - 1] : (lines[lines.length - 1] ?? '')).slice(0, 300);
 }

@@ -39,6 +39,8 @@ export interface BatchOptions {
   /** Material reference from the command line (`SHEET:NAME`), the default for every image. */
   defaultMaterial?: string;
   workerMemoryMb?: number;
+  /** Longest time one image may take, s (undefined: no limit). */
+  imageTimeoutS?: number;
   progress: boolean;
   log: (line: string) => void;
 }
@@ -167,7 +169,7 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
   const progress = new Progress(process.stderr, o.progress);
   const jobs = Math.max(1, Math.min(o.jobs ?? availableParallelism(), Math.max(1, selected.length)));
   let pool: WorkerPool | null = null;
-  const getPool = (): WorkerPool => (pool ??= new WorkerPool({ jobs, processorModule: processorModuleUrl(), workerMemoryMb: o.workerMemoryMb }));
+  const getPool = (): WorkerPool => (pool ??= new WorkerPool({ jobs, processorModule: processorModuleUrl(), workerMemoryMb: o.workerMemoryMb, imageTimeoutS: o.imageTimeoutS }));
 
   const finish = (status: EntryStatus | 'skipped'): void => {
     counts.done++;

@@ -12,6 +12,7 @@ interface BatchCliOptions extends MeasureCliOptions {
   resume?: boolean;
   shard?: string;
   workerMemory?: string;
+  imageTimeout?: string;
   json?: boolean;
   progress?: boolean;
 }
@@ -36,6 +37,7 @@ export function register(program: Command): void {
     .option('--resume', 'skip images whose result exists for the same image content and parameters')
     .option('--shard <i/n>', 'process only shard i of n (image k of the sorted list goes to shard (k mod n) + 1)')
     .option('--worker-memory <MB>', 'heap limit of each worker process in MB (a worker that exceeds it fails its image and is replaced)')
+    .option('--image-timeout <s>', 'longest time one image may take, seconds (the worker is stopped, the image fails with IMAGE_TIMEOUT, a new worker goes on; default: no limit)')
     .option('--json', 'print the summary as JSON on stdout (progress and messages on stderr)')
     .option('--no-progress', 'no progress output on stderr');
   addMeasureOptions(cmd);
@@ -51,6 +53,7 @@ export function register(program: Command): void {
       defaults,
       defaultMaterial: opts.material,
       workerMemoryMb: intOption(opts.workerMemory, '--worker-memory', 16),
+      imageTimeoutS: intOption(opts.imageTimeout, '--image-timeout', 1),
       progress: opts.progress !== false,
       log: (l) => process.stderr.write(`${l}\n`),
     });
