@@ -34,7 +34,6 @@ export interface EntropyWasmCall {
   /** Final S of histograms A and B after {@link interiorPair}. */
   readonly sOut: Float64Array;
   readonly incOff: number;
-  readonly inc: Float64Array;
   readonly hAOff: number;
   readonly hBOff: number;
   readonly hA: Int32Array;
@@ -84,13 +83,11 @@ export function prepareEntropyWasm(
     }
     const buf = mem.buffer;
     new Uint8Array(buf, binsOff, bins.length).set(bins);
-    const incV = new Float64Array(buf, incOff, inc.length);
-    incV.set(inc);
+    new Float64Array(buf, incOff, inc.length).set(inc);
     return {
       interiorPair: instance.exports.interiorPair as InteriorPair,
       sOut: new Float64Array(buf, 0, 2),
       incOff,
-      inc: incV,
       hAOff,
       hBOff,
       hA: new Int32Array(buf, hAOff, nBins),
