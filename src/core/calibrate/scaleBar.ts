@@ -34,14 +34,8 @@
 import { getCv } from '../cv.js';
 import type { GrayRaster } from '../image/raster.js';
 import { FractozoneError } from '../errors.js';
+import type { BoxPx } from '../image/geometry.js';
 
-/** Axis-aligned box, px. */
-export interface BoxPx {
-  x: number;
-  y: number;
-  w: number;
-  h: number;
-}
 
 /** A detected scale bar. Coordinates are image coordinates (pixel centres at integer x, y). */
 export interface ScaleBar {

@@ -5,8 +5,9 @@
  * boundary is re-measured in milliseconds.
  */
 import { FractozoneError } from '../errors.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
 import {
-  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2, inBoxes,
+  type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2, inBoxes,
 } from './geometry.js';
 import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
 
@@ -54,7 +55,7 @@ export interface MeasureParams {
    * Boxes of scale marks (bar, plate, label; px): rays whose outer end lies in one (grown by
    * `frameMarginPx`) are invalid, reason 'outer-edge-at-scale-mark' — the edge there is the mark's.
    */
-  markBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
+  markBoxes?: readonly BoxPx[];
   /** Outlier threshold k in robust σ (1.4826·MAD), default 3.5. */
   outlierK?: number;
   /**
@@ -73,16 +74,16 @@ export interface MeasureParams {
 /** Input of {@link measureBand}. */
 export interface MeasureBandInput extends MeasureParams {
   /** Outer contour of the specimen, px. */
-  outer: readonly Point[];
+  outer: readonly PointPx[];
   /** Rim/core boundary polygon, px (null → every ray 'no-boundary'). */
-  boundary: readonly Point[] | null;
+  boundary: readonly PointPx[] | null;
   /** Ray origin, px (usually the fitted circle centre). */
-  center: Point;
+  center: PointPx;
 }
 
 /** Result of {@link measureBand}. */
 export interface BandProfile {
-  center: Point;
+  center: PointPx;
   rays: RayMeasure[];
   /** Statistics of the valid ray widths, µm. */
   stats: WidthStatistics;
@@ -123,7 +124,7 @@ export function isExcluded(thetaDeg: number, sectors: ReadonlyArray<readonly [nu
   return false;
 }
 
-function checkParams(p: MeasureParams, center: Point): void {
+function checkParams(p: MeasureParams, center: PointPx): void {
   const s = p.umPerPx;
   const ok = typeof s === 'number' ? s > 0 && Number.isFinite(s) : s && s.x > 0 && s.y > 0 && Number.isFinite(s.x) && Number.isFinite(s.y);
   if (!ok) throw new FractozoneError('BAD_SCALE', 'The pixel size must be a positive finite number of micrometres per pixel.');
@@ -141,7 +142,7 @@ function checkParams(p: MeasureParams, center: Point): void {
   }
 }
 
-function checkPolygon(poly: readonly Point[], what: string): void {
+function checkPolygon(poly: readonly PointPx[], what: string): void {
   if (poly.length < 3) throw new FractozoneError('BAD_BOUNDARY', `The ${what} polygon needs at least 3 points.`);
   for (const q of poly) {
     if (!Number.isFinite(q.x) || !Number.isFinite(q.y)) {
@@ -160,10 +161,10 @@ function checkPolygon(poly: readonly Point[], what: string): void {
  * @returns a function boundary → profile
  */
 export function createBandMeasurer(
-  outer: readonly Point[],
-  center: Point,
+  outer: readonly PointPx[],
+  center: PointPx,
   params: MeasureParams,
-): (boundary: readonly Point[] | null) => BandProfile {
+): (boundary: readonly PointPx[] | null) => BandProfile {
   checkParams(params, center);
   checkPolygon(outer, 'outer');
   const nRays = params.nRays ?? 360;
@@ -202,7 +203,7 @@ export function createBandMeasurer(
   // Scaled edge arrays (µm) are prepared once so that the normal width is a tight loop.
   const sx = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.x;
   const sy = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.y;
-  const onF = (q: Point): boolean =>
+  const onF = (q: PointPx): boolean =>
     (!!size && (q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin)) ||
     (marks.length > 0 && inBoxes(marks, q.x, q.y, margin));
   const nO = outer.length;
@@ -228,7 +229,7 @@ export function createBandMeasurer(
    * along-ray distance wPx lies within a disc of radius wPx around p, hence within
    * ±asin(wPx/rP) of θ seen from the centre: only the edges filed in those angular bins are tested.
    */
-  const distToOuterUm = (p: Point, thetaDeg: number, rP: number, wPx: number): number => {
+  const distToOuterUm = (p: PointPx, thetaDeg: number, rP: number, wPx: number): number => {
     const px = p.x * sx;
     const py = p.y * sy;
     const aniso = Math.max(sx, sy) / Math.min(sx, sy);
@@ -351,9 +352,9 @@ export function measureBand(input: MeasureBandInput): BandProfile {
  * @param params - pixel size (µm/px), rays, sectors, frame size
  */
 export function measureFromPolygons(
-  outerPolygon: readonly Point[],
-  boundaryPolygon: readonly Point[],
-  center: Point,
+  outerPolygon: readonly PointPx[],
+  boundaryPolygon: readonly PointPx[],
+  center: PointPx,
   params: MeasureParams,
 ): BandProfile {
   return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);

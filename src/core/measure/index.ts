@@ -1,5 +1,5 @@
 /** Band-width measurement: ray geometry, width profile, statistics. */
-export type { Point, RayIndex } from './geometry.js';
+export type { RayIndex } from './geometry.js';
 export { rayDirection, angleOf, buildRayIndex, castRay, polygonArea, distanceToPolygon } from './geometry.js';
 export type { RayReason, RayMeasure, PixelSize, MeasureParams, MeasureBandInput, BandProfile } from './band.js';
 export { measureBand, measureFromPolygons, createBandMeasurer, isExcluded } from './band.js';

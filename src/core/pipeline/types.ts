@@ -6,10 +6,9 @@
 
 export const RESULT_SCHEMA = 'fractozone.result/1' as const;
 
-export interface PointPx {
-  x: number;
-  y: number;
-}
+import type { PointPx } from '../image/geometry.js';
+
+export type { PointPx };
 
 /** How the scale is set. Precedence: typed pixel size > two points > scale bar (length given) > metadata. */
 export interface ScaleParams {

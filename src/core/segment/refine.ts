@@ -13,7 +13,8 @@
 import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createRaster, type GrayRaster } from '../image/raster.js';
-import { type Point, buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
+import type { PointPx } from '../image/geometry.js';
+import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
 import { rasterToMat } from './cvutil.js';
 
 /**
@@ -107,7 +108,7 @@ export interface RefineBoundaryOptions {
 /** Result of {@link refineBoundary}. */
 export interface RefinedBoundary {
   /** Refined boundary, one vertex per ray, px. */
-  polygon: Point[];
+  polygon: PointPx[];
   thetaDeg: number[];
   /** Refined radii from the centre (null where the coarse boundary was missing). */
   radiiPx: (number | null)[];
@@ -135,9 +136,9 @@ export interface RefinedBoundary {
  */
 export function refineBoundary(
   r: GrayRaster,
-  outer: readonly Point[],
-  coarse: readonly Point[],
-  center: Point,
+  outer: readonly PointPx[],
+  coarse: readonly PointPx[],
+  center: PointPx,
   opts: RefineBoundaryOptions,
 ): RefinedBoundary {
   if (!(opts.windowPx >= 1)) throw new FractozoneError('BAD_PARAMETER', 'The refinement window must be at least 1 px.');
@@ -295,7 +296,7 @@ export function refineBoundary(
     } else refined.push(best);
   }
   const smooth = circularMedian(refined, opts.medianRays ?? 5);
-  const polygon: Point[] = [];
+  const polygon: PointPx[] = [];
   smooth.forEach((rad, i) => {
     if (rad === null) return;
     const d = rayDirection(thetas[i]);
@@ -382,17 +383,17 @@ export interface RefineOuterOptions {
  */
 export function refineOuterEdge(
   r: GrayRaster,
-  contour: readonly Point[],
-  center: Point,
+  contour: readonly PointPx[],
+  center: PointPx,
   opts: RefineOuterOptions = {},
-): { polygon: Point[]; radiiPx: (number | null)[]; nFallback: number } {
+): { polygon: PointPx[]; radiiPx: (number | null)[]; nFallback: number } {
   const nRays = opts.nRays ?? 360;
   const sig = opts.sigmaPx ?? 1;
   const search = opts.searchPx ?? 4;
   const sm = localGaussian(r, sig);
   const idx = buildRayIndex(contour, center);
   const radii: (number | null)[] = [];
-  const polygon: Point[] = [];
+  const polygon: PointPx[] = [];
   let nFallback = 0;
   for (let i = 0; i < nRays; i++) {
     const th = (360 * i) / nRays;

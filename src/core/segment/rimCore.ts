@@ -5,7 +5,8 @@
  */
 import { FractozoneError } from '../errors.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { type Point, buildRayIndex, castRay } from '../measure/geometry.js';
+import type { PointPx } from '../image/geometry.js';
+import { buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';
@@ -17,7 +18,7 @@ export interface RimCoreOptions {
   /** Full-resolution px per feature px (default image width / feature width). */
   featureScale?: number;
   /** Ray origin / topological centre, px (default: the specimen's fitted circle centre). */
-  center?: Point;
+  center?: PointPx;
   /** Fisher ratio below which the result is refused (default 0.5). */
   minFisher?: number;
   /** Fisher ratio below which a warning is given (default 4). */
@@ -67,7 +68,7 @@ export interface RimCoreResult {
   /** Core mask at feature resolution (holes filled), null when no core was found. */
   coreMask: Mask | null;
   /** Core outer contour, px at full resolution (null when not detected). */
-  boundary: Point[] | null;
+  boundary: PointPx[] | null;
   separability: Separability;
   /** Fraction of rays on which the core comes within ~one window of the outer edge. */
   coreAtEdgeFraction: number;
@@ -242,8 +243,8 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     throw new FractozoneError('BAD_PARAMETER', 'The feature rasters do not match the image size at the given scale factor.');
   }
   const centerFull = opts.center ?? { x: specimen.circle.cx, y: specimen.circle.cy };
-  const toFeat = (p: Point): Point => ({ x: (p.x + 0.5) / s - 0.5, y: (p.y + 0.5) / s - 0.5 });
-  const toFull = (p: Point): Point => ({ x: (p.x + 0.5) * s - 0.5, y: (p.y + 0.5) * s - 0.5 });
+  const toFeat = (p: PointPx): PointPx => ({ x: (p.x + 0.5) / s - 0.5, y: (p.y + 0.5) / s - 0.5 });
+  const toFull = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * s - 0.5, y: (p.y + 0.5) * s - 0.5 });
   const wF = opts.windowPx / s; // window in feature px
   const half = Math.max(1, Math.ceil(wF / 2));
   const spec = maskAtScale(specimen.mask, fw, fh, s);

@@ -23,7 +23,7 @@ export interface SegmentAndMeasureResult {
   specimen: Specimen;
   rimCore: RimCoreResult;
   refined: RefinedBoundary | null;
-  outerPolygon: import('../measure/geometry.js').Point[];
+  outerPolygon: import('../image/geometry.js').PointPx[];
   band: BandProfile | null;
   timingsMs: Record<string, number>;
 }

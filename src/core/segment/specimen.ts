@@ -5,7 +5,7 @@
 import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import type { Point } from '../measure/geometry.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat, rectMorph } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 import { inBoxes } from '../measure/geometry.js';
@@ -23,14 +23,14 @@ export interface SpecimenOptions {
    * points on the frame: painted-out scale marks, where the outline is the mark's, not the
    * specimen's (default none).
    */
-  excludeBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
+  excludeBoxes?: readonly BoxPx[];
 }
 
 /** Result of {@link findSpecimen}; all coordinates px at full resolution. */
 export interface Specimen {
   mask: Mask;
   /** Outer contour, every boundary pixel (pixel centres of the outermost specimen pixels). */
-  contour: Point[];
+  contour: PointPx[];
   circle: CircleFit;
   ellipse: EllipseFit;
   areaPx: number;
@@ -137,7 +137,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
   const contour = outerContour(mask);
-  const onFrame = (p: Point): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
+  const onFrame = (p: PointPx): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
   const inner = contour.filter((p) => !onFrame(p));
   const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
   const marks = opts.excludeBoxes ?? [];
