@@ -8,6 +8,7 @@
  * image and parameters give the same numbers everywhere. `remeasure` re-measures an edited
  * boundary from a previous result without touching the image (what the app calls on every edit).
  */
+import { CAUTION } from '../caution.js';
 import { FractozoneError, isFractozoneError } from '../errors.js';
 import type { GrayRaster } from '../image/raster.js';
 import { decodeImage, type DecodedImage } from '../decode/index.js';
@@ -20,12 +21,10 @@ import { renderOverlay } from '../report/overlay.js';
 import type { RgbaImage } from '../draw/index.js';
 import { TOOL_NAME, TOOL_VERSION } from '../version.js';
 import { validateParams } from './params.js';
-import { RESULT_SCHEMA, type MeasureParams, type PointPx, type RayResult, type WidthStats } from './types.js';
+import type { MeasureParams } from './types.js';
+import type { PointPx, BoxPx } from '../image/geometry.js';
+import { RESULT_SCHEMA, type MeasureResult, type RayResult, type WidthSummary } from './result.js';
 
-/** Caution carried by every result and report. */
-export const CAUTION =
-  'Measurements and critical-distance estimates from this tool support, and do not replace, the judgement of a qualified engineer. ' +
-  'Structural assessment must follow the applicable codes, standards and the responsible organisation\'s procedures.';
 
 /** How each feature scales with a multiplicative brightness change (see classifyRimCore). */
 const GAIN_POWER: Record<string, number> = { localStd: 1, localVariance: 2, gradientEnergy: 2, highPassEnergy: 2, localEntropy: 0 };
@@ -39,87 +38,6 @@ export interface InputInfo {
 }
 
 export type ProgressFn = (stage: string, fraction: number) => void;
-
-/** The result object written as JSON by every shell. */
-export interface MeasureResult {
-  schema: typeof RESULT_SCHEMA;
-  tool: { name: string; version: string };
-  input: {
-    file: string;
-    sha256: string;
-    format: string;
-    widthPx: number;
-    heightPx: number;
-    bitDepth: number;
-    channels: number;
-    colorType: string;
-    pageCount: number;
-  };
-  params: MeasureParams;
-  resolved: {
-    windowUm: number;
-    windowPx: number;
-    workingScaleFactor: number;
-    features: string[];
-    boundarySource: 'auto' | 'manual';
-  };
-  scale: {
-    umPerPx: number;
-    umPerPxX: number;
-    umPerPxY: number;
-    source: string;
-    detail: string;
-    metadata: { umPerPxX: number; umPerPxY: number; source: string } | null;
-    metadataNote: string | null;
-    detectedBar: (Omit<ScaleBar, 'plate' | 'labelBox'> & { umPerPx: number | null }) | null;
-  };
-  specimen: {
-    center: PointPx;
-    radiusPx: number;
-    radiusUm: number;
-    circle: { cx: number; cy: number; radiusPx: number; radiusUm: number; rmsResidualPx: number };
-    ellipse: { cx: number; cy: number; semiMajorUm: number; semiMinorUm: number; angleDeg: number; rmsResidualPx: number };
-    areaMm2: number;
-    equivalentRadiusUm: number;
-    background: 'dark' | 'bright';
-    touchesFrame: boolean;
-    frameContactFraction: number;
-    /**
-     * Boxes of the detected scale bar, plate and label (px), painted out before the outline was
-     * found; rays whose outer edge ends in one are not measured.
-     */
-    scaleMarksPx?: { x: number; y: number; w: number; h: number }[];
-    /** Outer edge used for the rays (px). */
-    outline: PointPx[];
-  };
-  band: {
-    detected: boolean;
-    reason?: string;
-    boundary: { source: 'auto' | 'manual'; polygon: PointPx[] } | null;
-    widthUm: WidthStats | null;
-    normalWidthUm: { mean: number; median: number; n: number } | null;
-    areaEquivalentWidthUm: number | null;
-    nRays: number;
-    nValid: number;
-    nOutliers: number;
-    profile: RayResult[];
-    separability: {
-      fisher: number;
-      overlap: number;
-      eta: number;
-      coreFraction: number;
-      rimFraction: number;
-    } | null;
-  };
-  criticalDistance?: ReturnType<typeof resolveCriticalDistance>;
-  comparison?: ReturnType<typeof compareWidthWithL> & {
-    impliedToughness_MPa_sqrtm: ReturnType<typeof impliedToughness> | null;
-  };
-  warnings: string[];
-  caution: string;
-  /** Wall-clock figures; not part of the reproducible content. */
-  diagnostics: { timingsMs: Record<string, number> };
-}
 
 /** What the shells get back besides the result: the overlay picture. */
 export interface Analysis {
@@ -186,7 +104,7 @@ function rayResults(band: BandProfile, umPerPx: { x: number; y: number }): RayRe
   });
 }
 
-function widthStats(band: BandProfile): WidthStats | null {
+function widthStats(band: BandProfile): WidthSummary | null {
   const s = band.stats;
   if (!s || s.n === 0) return null;
   const ci = s.ci95Median ?? [NaN, NaN];
@@ -214,7 +132,7 @@ function bandBlock(
   imageSize: { width: number; height: number },
   p: MeasureParams,
   minWidthPx: number,
-  markBoxes: readonly { x: number; y: number; w: number; h: number }[] = [],
+  markBoxes: readonly BoxPx[] = [],
 ): { band: BandProfile; block: Pick<MeasureResult['band'], 'widthUm' | 'normalWidthUm' | 'areaEquivalentWidthUm' | 'nRays' | 'nValid' | 'nOutliers' | 'profile'> } {
   const band = measureBand({
     outer,

@@ -1,14 +1,12 @@
 /**
- * The serialisable parameter object and the versioned result schema shared by the CLI, the batch
- * runner, the reports and the web app. One schema for all: `fractozone.result/1`.
+ * The serialisable parameter object shared by the CLI, the batch runner and the web app; every
+ * result echoes it whole. The result itself is typed in result.ts.
  * Every length a user sees is in µm (names end in `Um`), pixel quantities end in `Px`.
  */
-
-export const RESULT_SCHEMA = 'fractozone.result/1' as const;
-
 import type { PointPx } from '../image/geometry.js';
 
 export type { PointPx };
+export { RESULT_SCHEMA } from './result.js';
 
 /** How the scale is set. Precedence: typed pixel size > two points > scale bar (length given) > metadata. */
 export interface ScaleParams {
@@ -59,27 +57,4 @@ export interface MeasureParams {
   strainRatePerS: number | null;
   reference: 'L' | 'L/2' | '2L';
   tolerancePct: number;
-}
-
-export interface WidthStats {
-  n: number;
-  nEff: number;
-  mean: number;
-  median: number;
-  sd: number;
-  min: number;
-  max: number;
-  p05: number;
-  p95: number;
-  ci95: [number, number];
-  medianCi95: [number, number];
-}
-
-export interface RayResult {
-  angleDeg: number;
-  widthUm: number | null;
-  valid: boolean;
-  reason?: string;
-  outerRadiusUm?: number | null;
-  boundaryRadiusUm?: number | null;
 }

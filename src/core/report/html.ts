@@ -2,13 +2,16 @@
  * The batch report: one self-contained HTML page (inline CSS and SVG, thumbnails as data: URIs,
  * no script, no external font or resource), deterministic for the same entries (no timestamp).
  */
+import { CAUTION } from '../caution.js';
 import type { BatchEntry } from './csv.js';
 import { NO_NOTCH, type SeriesAnalysis } from './series.js';
-import { escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
+import { escapeText, escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
 
-/** The engineering caution printed on every report. */
-export const CAUTION_TEXT =
-  'Measurements and critical-distance estimates from this tool support, and do not replace, the judgement of a qualified engineer. Structural assessment must follow the applicable codes, standards and the responsible organisation\u2019s procedures.';
+/**
+ * The engineering caution (the one in core/caution.ts), under the name the app and tests import.
+ * @deprecated import CAUTION from core/caution.ts
+ */
+export const CAUTION_TEXT = CAUTION;
 
 export interface ReportInput {
   title?: string;
@@ -36,33 +39,33 @@ th{background:#f0f0f0}td.n{text-align:right;font-variant-numeric:tabular-nums;wh
 code{font-size:11px}
 `;
 
-function n(v: unknown, unit = '', digits = 4): string {
+function n(v: number | null | undefined, unit = '', digits = 4): string {
   if (typeof v !== 'number' || !Number.isFinite(v)) return '—';
   return unit ? `${fmt(v, digits)}\u00a0${unit}` : fmt(v, digits);
 }
 
-function interval(v: unknown, unit: string): string {
-  if (!Array.isArray(v) || typeof v[0] !== 'number' || typeof v[1] !== 'number') return '—';
+function interval(v: readonly [number, number] | null | undefined, unit: string): string {
+  if (!v || typeof v[0] !== 'number' || typeof v[1] !== 'number') return '—';
   return `${fmt(v[0], 4)}–${fmt(v[1], 4)}\u00a0${unit}`;
 }
 
 function summaryRow(e: BatchEntry): string {
   const r = e.result;
-  const w = r?.band?.widthUm;
+  const w = r?.band.widthUm;
   const ok = e.status === 'ok';
-  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (r?.band?.reason ?? 'no band found') : '';
+  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (r?.band.reason ?? 'no band found') : '';
   const cells = [
     `<td><a href="#img-${esc(e.safeName)}">${esc(e.file)}</a></td>`,
     `<td>${esc(e.metadata.specimen_id ?? '')}</td>`,
     `<td>${esc(e.metadata.notch ?? '')}</td>`,
     `<td class="status-${e.status}">${e.status}</td>`,
-    `<td class="n">${n(r?.scale?.umPerPx, 'µm/px')}${r?.scale?.source ? ` <span class="muted">(${esc(r.scale.source)})</span>` : ''}</td>`,
+    `<td class="n">${n(r?.scale.umPerPx, 'µm/px')}${r ? ` <span class="muted">(${esc(r.scale.source)})</span>` : ''}</td>`,
     `<td class="n">${ok ? n(w?.mean, 'µm') : '—'}</td>`,
     `<td class="n">${ok ? n(w?.median, 'µm') : '—'}</td>`,
     `<td class="n">${ok ? n(w?.sd, 'µm') : '—'}</td>`,
     `<td class="n">${ok ? interval(w?.ci95, 'µm') : '—'}</td>`,
-    `<td class="n">${n(r?.specimen?.radiusUm, 'µm')}</td>`,
-    `<td class="n">${n(typeof r?.band?.separability === 'number' ? r.band.separability : r?.band?.separability?.fisher)}</td>`,
+    `<td class="n">${n(r?.specimen.radiusUm, 'µm')}</td>`,
+    `<td class="n">${n(r?.band.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
     `<td class="n">${n(r?.criticalDistance?.L_um, 'µm')}</td>`,
     `<td class="n">${n(r?.comparison?.ratio)}</td>`,
@@ -74,7 +77,7 @@ function summaryRow(e: BatchEntry): string {
 
 function card(e: BatchEntry, thumb: string | undefined): string {
   const r = e.result;
-  const prof = r?.band?.profile ?? [];
+  const prof = r?.band.profile ?? [];
   const widths = prof.filter((p) => p.valid && typeof p.widthUm === 'number').map((p) => p.widthUm as number);
   const img = thumb ? `<img src="${thumb}" alt="overlay of ${esc(e.file)}">` : '<p class="muted">no overlay</p>';
   const body =
@@ -122,7 +125,7 @@ export function buildReportHtml(input: ReportInput): string {
 <body>
 <h1>${esc(title)}</h1>
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
-<div class="caution"><strong>Caution.</strong> ${esc(CAUTION_TEXT)}</div>
+<div class="caution"><strong>Caution.</strong> ${escapeText(CAUTION)}</div>
 <h2>Summary</h2>
 <table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>

@@ -45,6 +45,7 @@ export {
   DEFAULT_TOLERANCE_PCT,
   type CompareInput,
   type CompareResult,
+  type ImpliedToughness,
   type Verdict,
   type WidthReference,
 } from './compare.js';
