@@ -58,3 +58,14 @@ export interface MeasureParams {
   reference: 'L' | 'L/2' | '2L';
   tolerancePct: number;
 }
+
+/** The file being measured, as the shell names it. */
+export interface InputInfo {
+  /** File name as the user gave it. */
+  file: string;
+  /** SHA-256 of the file's bytes, hex (computed by the shell). */
+  sha256: string;
+}
+
+/** Progress callback: the next stage's name and the fraction of the work done (0..1). */
+export type ProgressFn = (stage: string, fraction: number) => void;

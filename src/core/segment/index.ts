@@ -7,6 +7,4 @@ export type { RimCoreOptions, RimCoreResult, Separability } from './rimCore.js';
 export { classifyRimCore } from './rimCore.js';
 export type { RefineBoundaryOptions, RefinedBoundary, RefineOuterOptions } from './refine.js';
 export { refineBoundary, refineOuterEdge, boxEnergy } from './refine.js';
-export type { SegmentAndMeasureParams, SegmentAndMeasureResult } from './segmentAndMeasure.js';
-export { segmentAndMeasure } from './segmentAndMeasure.js';
 export { scaleMarkBoxes, paintOutBoxes, MARK_PAD_PX } from './marks.js';
