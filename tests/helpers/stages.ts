@@ -22,13 +22,13 @@ import {
   type SpecimenLocation,
   type TextureWindow,
 } from '../../src/core/pipeline/stages/index.js';
-import { boxMean } from '../../src/core/texture/index.js';
+import { boxMean, type FeatureName } from '../../src/core/texture/index.js';
 
 export interface StageRunOptions {
   /** Texture window, px of the working copy (= full resolution up to 1200 px on the long side). */
   windowPx: number;
   /** Features computed by the texture stage (default localStd), unless `maps` are given. */
-  features?: string[];
+  features?: FeatureName[];
   /** Feature maps on the working copy, in place of the texture stage's. */
   maps?: FeatureMap[];
   bootstrap?: number;

@@ -13,9 +13,7 @@
  * measure and compare stages on a previous result (what the app calls on every edit).
  */
 import { decodeImage, type DecodedImage } from '../decode/index.js';
-import { FractozoneError } from '../errors.js';
 import type { RgbaImage } from '../draw/index.js';
-import { isFeatureName } from '../texture/index.js';
 import { WorkingFrame } from './frame.js';
 import { overlayFor } from './overlay.js';
 import { validateParams } from './params.js';
@@ -65,9 +63,6 @@ function stageTimer(onProgress?: ProgressFn): { lap: (stage: string, next: strin
  */
 export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: MeasureParams, onProgress?: ProgressFn): Analysis {
   const p = validateParams(structuredClone(params));
-  for (const f of p.features) {
-    if (!isFeatureName(f)) throw new FractozoneError('BAD_PARAMETER', `unknown roughness feature "${f}" (known: localStd, localEntropy, gradientEnergy, localVariance, highPassEnergy)`);
-  }
   const T = stageTimer(onProgress);
   onProgress?.('scale bar', 0.05);
   const calibration = calibrate({ decoded, scale: p.scale });
@@ -75,7 +70,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const frame = new WorkingFrame(decoded.raster, calibration.marks);
   const location = locateSpecimen({ frame, scale: calibration.scale, nRays: p.nRays });
   T.lap('specimen', 'texture', 0.25);
-  const window = textureWindow({ frame, scale: calibration.scale, location, windowUm: p.windowUm });
+  const window = textureWindow({ frame, scale: calibration.scale, location, windowUm: p.windowUm, features: p.features });
   const warnings = [...calibration.warnings, ...location.warnings];
   let boundary: RimBoundary;
   if (p.boundaryPolygon) {

@@ -15,6 +15,7 @@ import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { RayReason } from '../measure/band.js';
 import type { CompareResult, ImpliedToughness } from '../tcd/compare.js';
 import type { ResolvedDistance } from '../tcd/resolve.js';
+import type { FeatureName } from '../texture/registry.js';
 import type { MeasureParams } from './types.js';
 
 /** Schema name and version of {@link MeasureResult}; a change of the result bumps it. */
@@ -54,7 +55,7 @@ export interface ResolvedSettings {
   windowPx: number;
   /** Full-resolution px per working-copy px (≥ 1). */
   workingScaleFactor: number;
-  features: string[];
+  features: FeatureName[];
   boundarySource: BoundarySource;
 }
 

@@ -4,6 +4,7 @@
  * Every length a user sees is in µm (names end in `Um`), pixel quantities end in `Px`.
  */
 import type { PointPx } from '../image/geometry.js';
+import type { FeatureName } from '../texture/registry.js';
 
 export type { PointPx };
 export { RESULT_SCHEMA } from './result.js';
@@ -35,8 +36,8 @@ export interface MeasureParams {
   scale: ScaleParams;
   /** Texture window side in µm; null = automatic from the specimen size (rule in DEVELOPERS.md). */
   windowUm: number | null;
-  /** Roughness features combined for the classification. */
-  features: string[];
+  /** Roughness features combined for the classification (default texture/registry.ts DEFAULT_FEATURES). */
+  features: FeatureName[];
   /** Number of rays around the circumference. */
   nRays: number;
   /** Angular exclusion sectors, degrees [from, to], wrap-around allowed. */

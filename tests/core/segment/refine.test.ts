@@ -14,7 +14,7 @@ describe('refineBoundary', () => {
   it('bias test: a threshold on the nonlinear log-std under-estimates the width; the refinement removes it', () => {
     // std_rough = 10·std_smooth; truth width 60 px (outer 240, boundary 180)
     const img = makeDiscImage({ rimStd: 0.01, coreStd: 0.1, seed: 21 });
-    const maps = [{ name: 'localStd', raster: testLocalStd(img.raster, W) }];
+    const maps = [{ name: 'localStd' as const, raster: testLocalStd(img.raster, W) }];
     const coarse = runStages(img.raster, 1, { windowPx: W, maps, bootstrap: 0, refine: false });
     const fine = runStages(img.raster, 1, { windowPx: W, maps, bootstrap: 0 });
     const errCoarse = coarse.band!.stats.mean - img.meanWidthPx;
@@ -27,7 +27,7 @@ describe('refineBoundary', () => {
 
   it("both methods ('step' and 'box') are unbiased on a clean texture step", () => {
     const img = makeDiscImage({ rimStd: 0.01, coreStd: 0.1, seed: 21 });
-    const run = runStages(img.raster, 1, { windowPx: W, maps: [{ name: 'localStd', raster: testLocalStd(img.raster, W) }], bootstrap: 0, refine: false });
+    const run = runStages(img.raster, 1, { windowPx: W, maps: [{ name: 'localStd' as const, raster: testLocalStd(img.raster, W) }], bootstrap: 0, refine: false });
     const coarse = run.boundary.polygon!;
     const c = run.location.center;
     for (const method of ['step', 'box'] as const) {

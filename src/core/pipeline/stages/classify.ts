@@ -1,15 +1,14 @@
 /**
  * Stage 4, classify: smooth rim against rough core on the working copy (segment/rimCore.ts):
- * brightness-normalised, winsorised z-scores of the features, Otsu's threshold, morphology, and
+ * brightness-normalised (each feature's transform and gain power come from its definition in
+ * texture/), winsorised z-scores of the features, Otsu's threshold, morphology, and
  * the topology of the problem (core = rough region around the centre, holes filled).
  */
 import type { RimCoreResult } from '../../segment/index.js';
 import { classifyRimCore } from '../../segment/index.js';
+import { FEATURES } from '../../texture/index.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 import type { TextureMaps } from './texture.js';
-
-/** How each feature scales with a multiplicative brightness change (see classifyRimCore). */
-const GAIN_POWER: Record<string, number> = { localStd: 1, localVariance: 2, gradientEnergy: 2, highPassEnergy: 2, localEntropy: 0 };
 
 /** Input of {@link classifyTexture}. */
 export interface ClassifyInput {
@@ -26,7 +25,7 @@ export interface Classification {
 /** Splits the specimen into rim and core; `rimCore.detected` is false (with a reason) when there is no rim. */
 export function classifyTexture(input: ClassifyInput): Classification {
   const { location, texture } = input;
-  const names = texture.maps.map((m) => m.name);
+  const defs = texture.maps.map((m) => FEATURES[m.name]);
   const rimCore = classifyRimCore(
     location.specimen,
     texture.maps.map((m) => m.raster),
@@ -34,9 +33,9 @@ export function classifyTexture(input: ClassifyInput): Classification {
       windowPx: texture.window.windowPxWork,
       featureScale: 1,
       center: location.centerWork,
-      transforms: names.map((n) => (n === 'localEntropy' ? 'identity' : 'log')),
+      transforms: defs.map((d) => d.transform),
       brightness: texture.brightness,
-      gainPowers: names.map((n) => GAIN_POWER[n] ?? 0),
+      gainPowers: defs.map((d) => d.gainPower),
     },
   );
   return { rimCore, warnings: [...rimCore.warnings] };

@@ -5,7 +5,7 @@
  */
 import type { Scale } from '../../calibrate/index.js';
 import type { GrayRaster } from '../../image/raster.js';
-import { boxMean, computeFeature, defaultWindowUm, windowPxFromUm } from '../../texture/index.js';
+import { boxMean, computeFeature, defaultWindowUm, FEATURES, windowPxFromUm, type FeatureName } from '../../texture/index.js';
 import type { WorkingFrame } from '../frame.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 
@@ -25,11 +25,13 @@ export interface WindowInput {
   location: SpecimenLocation;
   /** Window side given by the user, µm, or null for the default rule. */
   windowUm: number | null;
+  /** The features the window is for: the default is the widest of their default windows. */
+  features: readonly FeatureName[];
 }
 
 /** One roughness map on the working copy. */
 export interface FeatureMap {
-  name: string;
+  name: FeatureName;
   raster: GrayRaster;
 }
 
@@ -45,13 +47,19 @@ export interface TextureMaps {
 export interface TextureInput {
   frame: WorkingFrame;
   window: TextureWindow;
-  features: readonly string[];
+  features: readonly FeatureName[];
 }
 
-/** The window used for this image (also for a manual boundary, where it sets no texture). */
+/**
+ * The window used for this image (also for a manual boundary, where it sets the narrowest band
+ * counted): the given one, or the widest default window of the chosen features (the features are
+ * combined pixel by pixel, so they share one window).
+ */
 export function textureWindow(input: WindowInput): TextureWindow {
   const { frame, scale } = input;
-  const windowUm = input.windowUm ?? defaultWindowUm({ umPerPx: scale.umPerPx, specimenRadiusUm: input.location.radiusUm, scaleFactor: frame.factor });
+  const defaultUm = (): number =>
+    Math.max(...input.features.map((f) => defaultWindowUm({ umPerPx: scale.umPerPx, specimenRadiusUm: input.location.radiusUm, scaleFactor: frame.factor, rule: FEATURES[f].defaultWindow })));
+  const windowUm = input.windowUm ?? defaultUm();
   return {
     windowUm,
     windowPxWork: windowPxFromUm(windowUm, scale.umPerPx * frame.lengthScale),
