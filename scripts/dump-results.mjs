@@ -7,8 +7,9 @@
 //       tests/core/pipeline/external.test.ts),
 //   (d) a manual boundary (as `measure --boundary`) and two re-measures of one sample.
 // Besides `<case>.result.json` it writes the CLI summary text (`<case>.summary.txt`), the CSV row
-// (`<case>.row.json`) and the SHA-256 of the overlay PNG (`<case>.overlay.sha256`), so a change in a
-// view shows up apart from a change in the numbers.
+// (`<case>.row.json`), the SHA-256 of the overlay PNG (`<case>.overlay.sha256`) and one batch HTML
+// report over all cases (`report.html`), so a change in a view shows up apart from a change in the
+// numbers.
 //
 //   npm run build && node scripts/dump-results.mjs [OUT_DIR]     (default /tmp/results-now)
 //   diff -r /tmp/baseline-results OUT_DIR
@@ -28,6 +29,9 @@ const { encodeGrayRaster } = await import(new URL('core/encode/index.js', dist))
 const { parseCsv, entryRow, RESULT_COLUMNS } = await import(new URL('core/report/csv.js', dist));
 const { parseMaterialSheet, selectMaterial } = await import(new URL('core/tcd/materials.js', dist));
 const { summaryText } = await import(new URL('cli/commands/measure.js', dist));
+const { buildReportHtml } = await import(new URL('core/report/html.js', dist));
+const { analyseSeries } = await import(new URL('core/report/series.js', dist));
+const entries = [];
 
 const out = process.argv[2] ?? '/tmp/results-now';
 mkdirSync(out, { recursive: true });
@@ -49,6 +53,7 @@ function write(name, result, overlay, meta = {}) {
     overlay: null,
     result,
   };
+  entries.push(entry);
   const row = entryRow(entry);
   writeFileSync(`${out}/${name}.row.json`, JSON.stringify(RESULT_COLUMNS.map((c) => [c, row[c] ?? null])) + '\n');
   if (overlay) writeFileSync(`${out}/${name}.overlay.sha256`, sha(encodeOverlayPng(overlay)) + '\n');
@@ -130,3 +135,5 @@ for (const t of readdirSync(ext).filter((f) => f.endsWith('.truth.json')).sort()
   write('remeasure-boundary', remeasure(result, { boundaryPolygon: edited }), null);
   write('remeasure-options', remeasure(result, { exclude: [[80, 110]], dropOutliers: true, nRays: 180, reference: 'L/2' }), null);
 }
+
+writeFileSync(`${out}/report.html`, buildReportHtml({ entries, series: analyseSeries(entries), thumbnails: {}, params: defaultParams(), toolVersion: 'dump' }));

@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { CAUTION } from '../../src/core/caution.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const main = join(root, 'dist/cli/main.js');
@@ -52,6 +53,8 @@ describe('fractozone critical-distance', () => {
     expect(r.code).toBe(0);
     expect(r.out).toMatch(/critical distance L\s+1414\.7 µm/);
     for (const line of r.out.split('\n').filter((l) => /^\s+(point|line|area|critical|fracture|inherent)/.test(l))) expect(line).toMatch(/µm|MPa/);
+    // the one caution of core/caution.ts closes the text
+    expect(r.out.trimEnd().endsWith(CAUTION)).toBe(true);
   });
   it('material FILE:NAME and strain rate', () => {
     const s = JSON.parse(run('critical-distance', '--material', `${materials}:ZX-17 (invented)`, '--json').out);

@@ -3,6 +3,7 @@
  * interval. Thin shell: parses options, reads the material sheet, calls core.
  */
 import type { Command } from 'commander';
+import { CAUTION } from '../../core/caution.js';
 import { FractozoneError } from '../../core/errors.js';
 import {
   parseMaterialSheet,
@@ -18,9 +19,6 @@ import {
 import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
 import { readInputFile, toJsonText } from '../io.js';
 
-/** Caution printed under every text result. */
-export const CAUTION =
-  'Critical-distance estimates support, and do not replace, the judgement of a qualified engineer; structural assessment must follow the applicable codes, standards and procedures.';
 
 /** Read a text file for a command (UTF-8). */
 export function readText(path: string): string {

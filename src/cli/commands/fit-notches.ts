@@ -18,7 +18,8 @@ import {
 } from '../../core/tcd/index.js';
 import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
 import { toJsonText } from '../io.js';
-import { CAUTION, readText } from './critical-distance.js';
+import { CAUTION } from '../../core/caution.js';
+import { readText } from './critical-distance.js';
 
 interface Options {
   curve: string[];

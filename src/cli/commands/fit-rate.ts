@@ -6,7 +6,8 @@ import type { Command } from 'commander';
 import { evaluateRateLaw, fitPowerLaw, parseRatePairsCsv } from '../../core/tcd/index.js';
 import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
 import { toJsonText } from '../io.js';
-import { CAUTION, parseStrainRate, readText } from './critical-distance.js';
+import { CAUTION } from '../../core/caution.js';
+import { parseStrainRate, readText } from './critical-distance.js';
 
 interface Options {
   at?: string;

@@ -39,8 +39,8 @@ export interface RayMeasure {
 /** Pixel size: one number for square pixels, or separate x / y sizes (µm per px). */
 export type PixelSize = number | { x: number; y: number };
 
-/** Parameters of {@link measureBand} besides the polygons. */
-export interface MeasureParams {
+/** Options of {@link measureBand} besides the polygons (the pipeline builds them from its MeasureParams). */
+export interface BandMeasureOptions {
   /** Pixel size, µm/px (number, or {x, y} for non-square pixels). */
   umPerPx: PixelSize;
   /** Number of rays, evenly spaced from 0° (default 360). */
@@ -72,7 +72,7 @@ export interface MeasureParams {
 }
 
 /** Input of {@link measureBand}. */
-export interface MeasureBandInput extends MeasureParams {
+export interface MeasureBandInput extends BandMeasureOptions {
   /** Outer contour of the specimen, px. */
   outer: readonly PointPx[];
   /** Rim/core boundary polygon, px (null → every ray 'no-boundary'). */
@@ -124,7 +124,7 @@ export function isExcluded(thetaDeg: number, sectors: ReadonlyArray<readonly [nu
   return false;
 }
 
-function checkParams(p: MeasureParams, center: PointPx): void {
+function checkParams(p: BandMeasureOptions, center: PointPx): void {
   const s = p.umPerPx;
   const ok = typeof s === 'number' ? s > 0 && Number.isFinite(s) : s && s.x > 0 && s.y > 0 && Number.isFinite(s.x) && Number.isFinite(s.y);
   if (!ok) throw new FractozoneError('BAD_SCALE', 'The pixel size must be a positive finite number of micrometres per pixel.');
@@ -163,7 +163,7 @@ function checkPolygon(poly: readonly PointPx[], what: string): void {
 export function createBandMeasurer(
   outer: readonly PointPx[],
   center: PointPx,
-  params: MeasureParams,
+  params: BandMeasureOptions,
 ): (boundary: readonly PointPx[] | null) => BandProfile {
   checkParams(params, center);
   checkPolygon(outer, 'outer');
@@ -355,7 +355,7 @@ export function measureFromPolygons(
   outerPolygon: readonly PointPx[],
   boundaryPolygon: readonly PointPx[],
   center: PointPx,
-  params: MeasureParams,
+  params: BandMeasureOptions,
 ): BandProfile {
   return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);
 }

@@ -7,6 +7,7 @@ import type { RgbaImage } from '../draw/index.js';
 import type { GrayRaster } from '../image/raster.js';
 import type { BandProfile } from '../measure/index.js';
 import { renderOverlay } from '../report/overlay.js';
+import { formatValue, summarise, type ResultSummary } from '../report/summary.js';
 import type { MeasureResult } from './result.js';
 
 /**
@@ -17,16 +18,6 @@ import type { MeasureResult } from './result.js';
  * @param bar the detected scale bar, boxed when it set the scale
  */
 export function overlayFor(raster: GrayRaster, result: MeasureResult, band: BandProfile | null, bar: ScaleBar | null): RgbaImage {
-  const w = result.band.widthUm;
-  const label = [
-    `${result.input.file}`,
-    result.band.detected && w
-      ? `band width mean ${w.mean.toFixed(1)} µm, 95% CI ${w.ci95[0].toFixed(1)}-${w.ci95[1].toFixed(1)} µm`
-      : `no smooth rim band: ${result.band.reason ?? 'not detected'}`,
-    result.band.detected && w ? `median ${w.median.toFixed(1)} µm, sd ${w.sd.toFixed(1)} µm, n = ${w.n} rays` : '',
-    `pixel ${result.scale.umPerPx.toPrecision(4)} µm (${result.scale.source})`,
-  ];
-  if (result.comparison) label.push(`w/${result.comparison.reference} = ${result.comparison.ratio.toFixed(2)}: ${result.comparison.verdict}`);
   return renderOverlay({
     raster,
     umPerPx: result.scale.umPerPx,
@@ -37,6 +28,20 @@ export function overlayFor(raster: GrayRaster, result: MeasureResult, band: Band
       ? band.rays.map((r) => ({ angleDeg: r.thetaDeg, outerRadiusPx: r.outerRadiusPx, boundaryRadiusPx: r.boundaryRadiusPx, valid: r.valid, outlier: r.outlier }))
       : [],
     scaleBar: bar && result.scale.source === 'scale-bar' ? bar : null,
-    label: label.filter(Boolean),
+    label: overlayLabel(summarise(result)),
   });
+}
+
+/** The label lines (the overlay font has no en dash: intervals use a hyphen). */
+export function overlayLabel(s: ResultSummary): string[] {
+  const f1 = (v: number | null): string => formatValue(v, 1);
+  const b = s.band;
+  const label = [
+    s.file,
+    b.detected ? `band width mean ${f1(b.mean.value)} µm, 95% CI ${f1(b.ci95.lo)}-${f1(b.ci95.hi)} µm` : `no smooth rim band: ${b.reason}`,
+    b.detected ? `median ${f1(b.median.value)} µm, sd ${f1(b.sd.value)} µm, n = ${b.n} rays` : '',
+    `pixel ${(s.scale.umPerPx.value ?? NaN).toPrecision(4)} µm (${s.scale.source})`,
+  ];
+  if (s.comparison) label.push(`w/${s.comparison.reference} = ${formatValue(s.comparison.ratio.value, 2)}: ${s.comparison.verdict}`);
+  return label.filter(Boolean);
 }

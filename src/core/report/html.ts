@@ -5,6 +5,7 @@
 import { CAUTION } from '../caution.js';
 import type { BatchEntry } from './csv.js';
 import { NO_NOTCH, type SeriesAnalysis } from './series.js';
+import { summarise, type Figure } from './summary.js';
 import { escapeText, escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
 
 /**
@@ -49,27 +50,31 @@ function interval(v: readonly [number, number] | null | undefined, unit: string)
   return `${fmt(v[0], 4)}–${fmt(v[1], 4)}\u00a0${unit}`;
 }
 
+/** A summary figure as a table cell text (4 significant digits, unit). */
+function cell(f: Figure | null | undefined): string {
+  return n(f?.value, f?.unit ?? '');
+}
+
 function summaryRow(e: BatchEntry): string {
-  const r = e.result;
-  const w = r?.band.widthUm;
-  const ok = e.status === 'ok';
-  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (r?.band.reason ?? 'no band found') : '';
+  const s = e.result ? summarise(e.result) : null;
+  const w = e.status === 'ok' && s?.band.detected ? s.band : null;
+  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (s && !s.band.detected ? s.band.reason : 'no band found') : '';
   const cells = [
     `<td><a href="#img-${esc(e.safeName)}">${esc(e.file)}</a></td>`,
     `<td>${esc(e.metadata.specimen_id ?? '')}</td>`,
     `<td>${esc(e.metadata.notch ?? '')}</td>`,
     `<td class="status-${e.status}">${e.status}</td>`,
-    `<td class="n">${n(r?.scale.umPerPx, 'µm/px')}${r ? ` <span class="muted">(${esc(r.scale.source)})</span>` : ''}</td>`,
-    `<td class="n">${ok ? n(w?.mean, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? n(w?.median, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? n(w?.sd, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? interval(w?.ci95, 'µm') : '—'}</td>`,
-    `<td class="n">${n(r?.specimen.radiusUm, 'µm')}</td>`,
-    `<td class="n">${n(r?.band.separability?.fisher)}</td>`,
+    `<td class="n">${cell(s?.scale.umPerPx)}${s ? ` <span class="muted">(${esc(s.scale.source)})</span>` : ''}</td>`,
+    `<td class="n">${w ? cell(w.mean) : '—'}</td>`,
+    `<td class="n">${w ? cell(w.median) : '—'}</td>`,
+    `<td class="n">${w ? cell(w.sd) : '—'}</td>`,
+    `<td class="n">${w && w.ci95.lo !== null && w.ci95.hi !== null ? interval([w.ci95.lo, w.ci95.hi], w.ci95.unit) : '—'}</td>`,
+    `<td class="n">${cell(s?.specimen.radius)}</td>`,
+    `<td class="n">${cell(s?.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
-    `<td class="n">${n(r?.criticalDistance?.L_um, 'µm')}</td>`,
-    `<td class="n">${n(r?.comparison?.ratio)}</td>`,
-    `<td>${esc(r?.comparison?.verdict ?? '')}</td>`,
+    `<td class="n">${cell(s?.criticalDistance?.L)}</td>`,
+    `<td class="n">${cell(s?.comparison?.ratio)}</td>`,
+    `<td>${esc(s?.comparison?.verdict ?? '')}</td>`,
     `<td>${esc(note)}</td>`,
   ];
   return `<tr class="image-row">${cells.join('')}</tr>`;
