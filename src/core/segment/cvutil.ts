@@ -1,10 +1,7 @@
 /** Small OpenCV helpers shared by the segmentation stages (every Mat is freed by the caller or here). */
-import { getCv } from '../cv.js';
+import { getCv, type Mat } from '../cv.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
-
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type Mat = any;
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {

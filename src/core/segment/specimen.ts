@@ -2,7 +2,7 @@
  * Specimen outline: separate the fracture surface from a dark or bright background, fill holes,
  * keep the specimen component, trace its outer contour and fit a circle and an ellipse.
  */
-import { getCv } from '../cv.js';
+import { getCv, type Mat } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
@@ -154,8 +154,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   };
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-function addTexture(small: any, m: Mask, _nBorder: number, w: number, h: number): void {
+function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number): void {
   const cv = getCv();
   const mean = new cv.Mat();
   const sq = new cv.Mat();
