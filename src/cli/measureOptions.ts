@@ -3,14 +3,20 @@
  * image). Parsing only: turns option strings into a validated MeasureParams.
  */
 import { readFileSync } from 'node:fs';
-import { parseQuantity } from '../core/tcd/index.js';
-import { loadMaterial, parseStrainRate } from './commands/critical-distance.js';
 import type { Command } from 'commander';
-import { FractozoneError } from '../core/errors.js';
-import { parseLengthUm } from '../core/units/units.js';
-import { defaultParams, validateParams } from '../core/pipeline/params.js';
-import { DEFAULT_FEATURES, FEATURE_NAMES, parseFeatureList } from '../core/texture/registry.js';
-import type { MeasureParams, PointPx } from '../core/pipeline/types.js';
+import {
+  DEFAULT_FEATURES,
+  defaultParams,
+  FEATURE_NAMES,
+  FractozoneError,
+  parseFeatureList,
+  parseLengthUm,
+  parseQuantity,
+  validateParams,
+  type MeasureParams,
+  type PointPx,
+} from '../core/index.js';
+import { loadMaterial, parseStrainRate } from './commands/critical-distance.js';
 
 export interface MeasureCliOptions {
   pixelSize?: string;

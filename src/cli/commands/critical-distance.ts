@@ -3,20 +3,21 @@
  * interval. Thin shell: parses options, reads the material sheet, calls core.
  */
 import type { Command } from 'commander';
-import { CAUTION } from '../../core/caution.js';
-import { FractozoneError } from '../../core/errors.js';
 import {
+  CAUTION,
+  FractozoneError,
   parseMaterialSheet,
   parseQuantity,
   resolveCriticalDistance,
   selectMaterial,
   splitMaterialRef,
+  TOOL_NAME,
+  TOOL_VERSION,
   type EchoedValue,
   type Material,
   type QuantityInput,
   type UnitSystem,
-} from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+} from '../../core/index.js';
 import { readInputFile, toJsonText } from '../io.js';
 
 

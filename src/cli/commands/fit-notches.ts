@@ -3,8 +3,9 @@
  * loads (point, line or area method), or L from one notch and a known K_c.
  */
 import type { Command } from 'commander';
-import { FractozoneError } from '../../core/errors.js';
 import {
+  CAUTION,
+  FractozoneError,
   fitNotches,
   fitWithToughness,
   methodDistances,
@@ -15,10 +16,10 @@ import {
   type Load,
   type NotchSpecimen,
   type TcdMethod,
-} from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+  TOOL_NAME,
+  TOOL_VERSION,
+} from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { CAUTION } from '../../core/caution.js';
 import { readText } from './critical-distance.js';
 
 interface Options {

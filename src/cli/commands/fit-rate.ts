@@ -3,10 +3,8 @@
  * log–log least squares; optionally evaluate the law at a strain rate with a 95 % interval.
  */
 import type { Command } from 'commander';
-import { evaluateRateLaw, fitPowerLaw, parseRatePairsCsv } from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+import { CAUTION, evaluateRateLaw, fitPowerLaw, parseRatePairsCsv, TOOL_NAME, TOOL_VERSION } from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { CAUTION } from '../../core/caution.js';
 import { parseStrainRate, readText } from './critical-distance.js';
 
 interface Options {

@@ -5,11 +5,17 @@
  */
 import { basename } from 'node:path';
 import type { Command } from 'commander';
-import { detectScaleBar, scaleFromBar, type ScaleBar } from '../../core/calibrate/index.js';
-import { decodeImage } from '../../core/decode/index.js';
-import { FractozoneError, isFractozoneError } from '../../core/errors.js';
-import { parseLengthUm } from '../../core/units/units.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+import {
+  decodeImage,
+  detectScaleBar,
+  FractozoneError,
+  isFractozoneError,
+  parseLengthUm,
+  scaleFromBar,
+  TOOL_NAME,
+  TOOL_VERSION,
+  type ScaleBar,
+} from '../../core/index.js';
 import { loadCvNode } from '../cv-node.js';
 import { readInputFile, sha256Hex, toJsonText } from '../io.js';
 

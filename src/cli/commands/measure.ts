@@ -4,8 +4,7 @@
  */
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
-import { analyseImage, encodeOverlayPng, type MeasureResult } from '../../core/pipeline/index.js';
-import { formatValue, summarise, type Figure, type ResultSummary } from '../../core/report/summary.js';
+import { analyseImage, encodeOverlayPng, formatValue, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
 import { loadCvNode } from '../cv-node.js';
 import { readInputFile, sha256Hex, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
