@@ -1,10 +1,10 @@
 /**
- * Boundary and outer-edge refinement (src/core/segment/refine.ts) on synthetic discs whose truth
+ * Boundary refinement (src/core/segment/refine.ts) on synthetic discs whose truth
  * radii come from the disc geometry (tests/helpers/discImages.ts).
  */
 import { describe, expect, it } from 'vitest';
 import { measureBand } from '../../../src/core/measure/index.js';
-import { findSpecimen, refineBoundary, refineOuterEdge } from '../../../src/core/segment/index.js';
+import { findSpecimen, refineBoundary } from '../../../src/core/segment/index.js';
 import { makeDiscImage, testLocalStd } from '../../helpers/discImages.js';
 import { runStages } from '../../helpers/stages.js';
 
@@ -55,20 +55,5 @@ describe('refineBoundary', () => {
     const img = makeDiscImage({ width: 200, height: 150, outerA: 60, seed: 9 });
     const sp = findSpecimen(img.raster);
     expect(() => refineBoundary(img.raster, sp.contour, sp.contour, { x: 100, y: 75 }, { windowPx: 0 })).toThrow(/window/);
-  });
-});
-
-describe('refineOuterEdge', () => {
-  it('puts the edge of a disc within 0.3 px of the true radius on every ray (geometry truth)', () => {
-    const img = makeDiscImage({ seed: 12 });
-    const sp = findSpecimen(img.raster);
-    const c = { x: img.cx, y: img.cy };
-    const r = refineOuterEdge(img.raster, sp.contour, c, { nRays: 360 });
-    expect(r.polygon.length).toBe(360);
-    const errs = r.radiiPx.map((rad, i) => (rad === null ? NaN : rad - img.outerRadiusAt(i)));
-    const finite = errs.filter(Number.isFinite);
-    expect(finite.length).toBe(360);
-    const meanErr = finite.reduce((a, b) => a + b, 0) / finite.length;
-    expect(Math.abs(meanErr)).toBeLessThan(0.3);
   });
 });
