@@ -26,7 +26,8 @@ describe('refineOuterEdge', () => {
     const sp = findSpecimen(img.raster);
     const r = refineOuterEdge(flat, sp.contour, { x: img.cx, y: img.cy }, { nRays: 90 });
     expect(r.nFallback).toBe(90);
-    // the contour runs through the outermost pixel centres: + 0.5 px lands within a pixel of the true edge
-    r.radiiPx.forEach((rad, i) => expect(Math.abs(rad! - img.outerRadiusAt(i * 4))).toBeLessThan(1));
+    // the contour runs through the outermost pixel centres of the specimen mask (a staircase, up to
+    // √2 px off a circle along diagonals): + 0.5 px stays within 1.5 px of the true edge
+    for (let i = 0; i < 90; i++) expect(Math.abs(r.radiiPx[i]! - img.outerRadiusAt(i * 4))).toBeLessThan(1.5);
   });
 });
