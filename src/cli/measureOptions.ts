@@ -16,7 +16,7 @@ import {
   type MeasureParams,
   type PointPx,
 } from '../core/index.js';
-import { loadMaterial, parseStrainRate } from './commands/critical-distance.js';
+import { loadMaterial, parseStrainRate } from './commands/criticalDistance.js';
 
 export interface MeasureCliOptions {
   pixelSize?: string;

@@ -3,7 +3,7 @@
  * OpenCV once, loads the processor, then processes one image per message. Messages in: {type:'task', id, bytes, input, params}. Out: {type:'ready'} once, then
  * {type:'done', id, ok, result?, overlayPng?, error?} per task.
  */
-import { loadCvNode } from '../cv-node.js';
+import { loadCvNode } from '../cvNode.js';
 import { isFractozoneError } from '../../core/errors.js';
 import { loadProcessor, type ProcessInput } from './processor.js';
 import { thumbnailPng } from './thumb.js';

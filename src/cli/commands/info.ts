@@ -16,7 +16,7 @@ import {
   TOOL_VERSION,
   type ScaleBar,
 } from '../../core/index.js';
-import { loadCvNode } from '../cv-node.js';
+import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, toJsonText } from '../io.js';
 
 interface Options {

@@ -5,7 +5,7 @@
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
 import { analyseImage, encodeOverlayPng, formatValue, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
-import { loadCvNode } from '../cv-node.js';
+import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 

@@ -3,7 +3,7 @@
  * typed values, optionally at a strain rate, with its uncertainty and the method distances.
  */
 import { FractozoneError } from '../errors.js';
-import { criticalDistance, methodDistances, type MethodDistances } from './critical-distance.js';
+import { criticalDistance, methodDistances, type MethodDistances } from './criticalDistance.js';
 import { evaluateRateLaw } from './dynamic.js';
 import type { Material, MaterialValue } from './materials.js';
 import { criticalDistanceUncertainty, type Scatter } from './uncertainty.js';

@@ -5,7 +5,7 @@
 import type { Command } from 'commander';
 import { CAUTION, evaluateRateLaw, fitPowerLaw, parseRatePairsCsv, TOOL_NAME, TOOL_VERSION } from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { parseStrainRate, readText } from './critical-distance.js';
+import { parseStrainRate, readText } from './criticalDistance.js';
 
 interface Options {
   at?: string;

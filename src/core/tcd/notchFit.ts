@@ -14,8 +14,8 @@
  * actual failure load = σ_0 / (P_i e_i(L)).
  */
 import { FractozoneError } from '../errors.js';
-import { criticalDistance, type TcdMethod } from './critical-distance.js';
-import { effectiveStress, maxCriticalDistance, type StressCurve } from './stress-curve.js';
+import { criticalDistance, type TcdMethod } from './criticalDistance.js';
+import { effectiveStress, maxCriticalDistance, type StressCurve } from './stressCurve.js';
 
 /** One notched specimen: its stress per unit load and its failure load (same load unit for all). */
 export interface NotchSpecimen {

@@ -20,7 +20,7 @@ import {
   TOOL_VERSION,
 } from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { readText } from './critical-distance.js';
+import { readText } from './criticalDistance.js';
 
 interface Options {
   curve: string[];

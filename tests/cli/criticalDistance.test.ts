@@ -17,7 +17,7 @@ function run(...args: string[]): { code: number; out: string; err: string } {
 }
 
 beforeAll(() => {
-  if (!existsSync(join(root, 'dist/cli/commands/critical-distance.js'))) execFileSync('npm', ['run', 'build'], { cwd: root, stdio: 'ignore' });
+  if (!existsSync(join(root, 'dist/cli/commands/criticalDistance.js'))) execFileSync('npm', ['run', 'build'], { cwd: root, stdio: 'ignore' });
 }, 120_000);
 
 describe('fractozone critical-distance', () => {
