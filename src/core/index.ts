@@ -49,8 +49,22 @@ export type {
   SeparabilitySummary,
   Comparison,
   Diagnostics,
+  Quality,
+  QualityVerdict,
 } from './pipeline/index.js';
+export { judgeQuality, assessQuality, QUALITY_RULES, type QualityRule } from './pipeline/stages/quality.js';
 export { CAUTION } from './caution.js';
+export {
+  WARNINGS,
+  WARNING_CODES,
+  warn,
+  severityOf,
+  mergeWarnings,
+  type Warning,
+  type WarningCode,
+  type WarningDefinition,
+  type Severity,
+} from './warnings.js';
 
 // Errors
 export { FractozoneError, isFractozoneError, type ErrorCode, type ErrorKind } from './errors.js';
@@ -128,7 +142,7 @@ export {
 } from './tcd/index.js';
 
 // Reports and views
-export { summarise, formatFigure, formatValue, type ResultSummary, type Figure, type IntervalFigure } from './report/summary.js';
+export { summarise, formatFigure, formatValue, VERDICT_HEADLINES, type ResultSummary, type QualitySummary, type Figure, type IntervalFigure } from './report/summary.js';
 export {
   RESULT_COLUMNS,
   entryRow,

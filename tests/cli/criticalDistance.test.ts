@@ -61,6 +61,7 @@ describe('fractozone critical-distance', () => {
     expect(s.L_um).toBeCloseTo(1414.71, 2);
     expect(s.inputs.material).toBe('ZX-17 (invented)');
     expect(s.interval95_um).not.toBeNull();
+    expect(s.warnings).toContainEqual({ code: 'INVENTED_MATERIAL', message: 'material "ZX-17 (invented)" is invented demo data' });
     const d = JSON.parse(run('critical-distance', '--material', `${materials}:ZX-17 (invented)`, '--strain-rate', '1e3', '--json').out);
     expect(d.L_um).toBeCloseTo(1400 * Math.pow(1e3, -0.04), 6);
     expect(d.inputs.strainRate_per_s).toBe(1000);

@@ -53,6 +53,7 @@ export function makeResult(o: ResultOptions = {}): MeasureResult {
     schema: RESULT_SCHEMA,
     tool: { name: 'fractozone', version: '0.0.0-test' },
     input: { file: o.file ?? 'test.png', sha256: 'ab'.repeat(32), format: 'png', widthPx: 1000, heightPx: 800, bitDepth: 8, channels: 1, colorType: 'gray', pageCount: 1 },
+    quality: { verdict: 'ok', reasons: [] },
     params: defaultParams(),
     resolved: { windowUm: 50, windowPx: 21, workingScaleFactor: 1, features: ['localStd', 'localEntropy', 'gradientEnergy'], boundarySource: 'auto' },
     scale: { umPerPx, umPerPxX: umPerPx, umPerPxY: umPerPx, source: 'typed', detail: `typed pixel size ${umPerPx} µm/px`, metadata: null, metadataNote: null, detectedBar: null },

@@ -127,7 +127,7 @@ export function register(program: Command): void {
         seed,
         draws,
       });
-      for (const w of r.warnings) if (opts.json) process.stderr.write(`fractozone: note: ${w}\n`);
+      for (const w of r.warnings) if (opts.json) process.stderr.write(`fractozone: note: ${w.message} [${w.code}]\n`);
       if (opts.json) {
         process.stdout.write(
           toJsonText({
@@ -169,7 +169,7 @@ export function register(program: Command): void {
         `  point method, r = L/2      ${fmt(r.pointDistance_um)} µm`,
         `  line method, 0 … 2L        ${fmt(r.lineDistance_um)} µm`,
         `  area method, radius L      ${fmt(r.areaRadius_um)} µm`,
-        ...r.warnings.map((w) => `  note: ${w}`),
+        ...r.warnings.map((w) => `  note: ${w.message} [${w.code}]`),
         CAUTION,
       ];
       process.stdout.write(lines.join('\n') + '\n');

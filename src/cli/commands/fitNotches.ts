@@ -18,6 +18,7 @@ import {
   type TcdMethod,
   TOOL_NAME,
   TOOL_VERSION,
+  type Warning,
 } from '../../core/index.js';
 import { toJsonText } from '../io.js';
 import { readText } from './criticalDistance.js';
@@ -77,6 +78,7 @@ export function register(program: Command): void {
       const loadKey = dimension === 'force' ? 'N' : 'MPa';
       let result: Record<string, unknown>;
       let text: string[];
+      let warnings: Warning[] = [];
       if (specimens.length === 1) {
         if (opts.toughness === undefined) throw new FractozoneError('BAD_PARAMETER', 'one curve is not enough: give a second --curve, or --toughness to fit L from one notch');
         const K = parseQuantity(opts.toughness, 'toughness', '--toughness');
@@ -106,17 +108,18 @@ export function register(program: Command): void {
           })),
           warnings: f.warnings,
         };
+        warnings = f.warnings;
         text = [
           `Critical distance from ${specimens.length} notches (${method} method, ${f.solver})`,
           `  critical distance L     ${fmt(f.L_um)} µm`,
           `  inherent strength σ_0   ${fmt(f.sigma0_MPa)} MPa`,
           `  rms log residual        ${fmt(f.rmsLogResidualPct, 3)} %`,
           ...f.residuals.map((r) => `  ${r.name}: failure ${fmt(r.failureLoad)} ${loadKey}, predicted ${fmt(r.predictedLoad)} ${loadKey}, ratio ${fmt(r.ratio, 4)}`),
-          ...f.warnings.map((w) => `  note: ${w}`),
+          ...f.warnings.map((w) => `  note: ${w.message} [${w.code}]`),
         ];
       }
       if (opts.json) {
-        for (const w of result.warnings as string[]) process.stderr.write(`fractozone: note: ${w}\n`);
+        for (const w of warnings) process.stderr.write(`fractozone: note: ${w.message} [${w.code}]\n`);
         process.stdout.write(toJsonText({ tool: TOOL_NAME, version: TOOL_VERSION, ...result }));
       } else {
         process.stdout.write([...text, CAUTION].join('\n') + '\n');

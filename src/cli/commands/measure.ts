@@ -54,10 +54,12 @@ export function summaryText(r: MeasureResult): string {
   const s = summarise(r);
   const lines: string[] = [];
   lines.push(`${s.file}  (${s.image})`);
+  lines.push(`  quality        ${s.quality.headline.replace(/^\w+/, (v) => v.toUpperCase())}`);
+  for (const w of s.quality.reasons) lines.push(`                 - ${w.message} [${w.code}]`);
   lines.push(`  scale          ${(s.scale.umPerPx.value ?? NaN).toPrecision(5)} µm/px  [${s.scale.source}: ${s.scale.detail}]`);
   lines.push(`  specimen       centre (${f1(s.specimen.centerPx.x)}, ${f1(s.specimen.centerPx.y)}) px, radius ${f1(s.specimen.radius)} µm` + (s.specimen.cutByFrame ? ' (cut by the frame)' : ''));
   lines.push(...bandLines(s), ...criticalDistanceLines(s));
-  for (const w of s.warnings) lines.push(`  warning        ${w}`);
+  for (const w of s.notes) lines.push(`  note           ${w.message} [${w.code}]`);
   lines.push(`  ${s.caution}`);
   return lines.join('\n') + '\n';
 }

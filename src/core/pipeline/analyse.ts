@@ -2,7 +2,7 @@
  * The measurement pipeline, as a list of stages (each in stages/, each with a typed input and
  * output record):
  *
- *   calibrate → locate specimen → texture → classify → refine boundary → measure → compare → assemble
+ *   calibrate → locate specimen → texture → classify → refine boundary → measure → compare → quality → assemble
  *
  * plus the overlay picture. The working copy and its mapping to full-resolution pixels live in one
  * WorkingFrame (frame.ts); numbers are rounded to their stored precision at assembly (precision.ts).
@@ -19,7 +19,7 @@ import { overlayFor } from './overlay.js';
 import { validateParams } from './params.js';
 import { round } from './precision.js';
 import type { MeasureResult } from './result.js';
-import { assembleBand, assembleResult, reportWidths, storedGeometry } from './stages/assemble.js';
+import { assembleBand, assembleResult, assembleScale, reportWidths, storedGeometry } from './stages/assemble.js';
 import { calibrate } from './stages/calibrate.js';
 import { classifyTexture } from './stages/classify.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
@@ -28,7 +28,8 @@ import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
 import { computeTexture, textureWindow } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
-import { mergeWarnings } from './warnings.js';
+import { mergeWarnings } from '../warnings.js';
+import { judgeQuality } from './stages/quality.js';
 
 /** What the shells get back besides the result: the overlay picture. */
 export interface Analysis {
@@ -58,7 +59,7 @@ function stageTimer(onProgress?: ProgressFn): { lap: (stage: string, next: strin
  * @param input - file name (as the user gave it) and SHA-256 of the bytes (computed by the shell)
  * @param params - the measurement parameters (validated here)
  * @param onProgress - called with the next stage name and the fraction done
- * @returns the result (schema fractozone.result/1) and the overlay picture
+ * @returns the result (schema fractozone.result/2) and the overlay picture
  * @throws FractozoneError when the scale cannot be set, no specimen is found, or a parameter is bad
  */
 export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: MeasureParams, onProgress?: ProgressFn): Analysis {
@@ -95,9 +96,11 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   warnings.push(...measured.warnings);
   const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY }) : null, p.nRays);
   const tcd = compareWithCriticalDistance({ params: p, width: band.detected ? band.widthUm : null });
+  const scale = assembleScale(decoded, calibration, p);
+  const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band, scale });
   const result = assembleResult({
-    input, decoded, params: p, calibration, frame, location, window, boundarySource: boundary.source, geometry, band,
-    criticalDistance: tcd, warnings: mergeWarnings(warnings, tcd.warnings), timingsMs: T.timings,
+    input, decoded, params: p, calibration, frame, location, window, boundarySource: boundary.source, geometry, scale, band,
+    criticalDistance: tcd, warnings: judged.warnings, quality: judged.quality, timingsMs: T.timings,
   });
   T.lap('measure', 'overlay', 0.95);
   const overlay = overlayFor(decoded.raster, result, measured.profile, calibration.bar);

@@ -1,25 +1,33 @@
 /**
- * Re-measuring a saved result: the measure and compare stages on the stored outline and an edited
- * boundary, without the image. What the web app runs on every edit (~25 ms for 360 rays).
+ * Re-measuring a saved result: the measure, compare and quality stages on the stored outline and
+ * an edited boundary, without the image. What the web app runs on every edit (~25 ms for 360 rays).
  */
+import { mergeWarnings, type Warning, type WarningCode } from '../warnings.js';
+import { validateParams } from './params.js';
 import { storedPolygon } from './precision.js';
-import type { MeasureResult } from './result.js';
+import { inResultOrder, type MeasureResult } from './result.js';
 import { reportWidths, withMeasurement } from './stages/assemble.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
-import { validateParams } from './params.js';
+import { judgeQuality, RULE_CODES } from './stages/quality.js';
 import type { MeasureParams } from './types.js';
-import { mergeWarnings } from './warnings.js';
 
-/** Warnings of the compare stage, given again (or not) by the new run. */
-const TCD_WARNING = /strain-rate law|invented demo data|extrapolat/;
+/** Warnings of the stages that re-measuring runs again (the new run gives them again, or not). */
+const REMADE: ReadonlySet<WarningCode> = new Set<WarningCode>([
+  'SCALE_MARK_ON_OUTLINE',
+  'INVENTED_MATERIAL',
+  'L_FROM_RATE_LAW',
+  'SIGMA0_FROM_RATE_LAW',
+  'RATE_EXTRAPOLATED',
+  ...RULE_CODES,
+]);
 
 /**
  * Re-measure a previous result with an edited boundary polygon and/or changed measurement
  * parameters (rays, exclusion sectors, outliers, bootstrap, material): pure geometry on the
  * stored outline, no image access. Gives the same numbers as a full run with the same boundary.
  *
- * @param prev - a previous result (from analyseImage or a result JSON)
+ * @param prev - a previous result (from analyseImage or a result JSON of this schema)
  * @param changes - parameters to change; `boundaryPolygon` is the edited boundary (px)
  */
 export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>): MeasureResult {
@@ -31,7 +39,7 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
     result.resolved.boundarySource = 'manual';
     result.band.boundary = { source: 'manual', polygon: storedPolygon(changes.boundaryPolygon) };
   }
-  const warnings = prev.warnings.filter((w) => !TCD_WARNING.test(w));
+  let warnings: Warning[] = prev.warnings.filter((w) => !REMADE.has(w.code));
   if (polygon && result.band.boundary) {
     const measured = measureWidths({
       geometry: { outline: result.specimen.outline, boundary: result.band.boundary.polygon, center: result.specimen.center, marks: result.specimen.scaleMarksPx ?? [] },
@@ -40,14 +48,17 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       minWidthPx: minWidthPxFor(result.resolved.boundarySource, result.resolved.windowPx),
       params: p,
     });
+    warnings = mergeWarnings(warnings, measured.warnings);
     if (measured.profile) result.band = withMeasurement(result.band, reportWidths(measured.profile, { x: result.scale.umPerPxX, y: result.scale.umPerPxY }));
   }
-  delete result.criticalDistance;
-  delete result.comparison;
   const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null });
-  result.warnings = mergeWarnings(warnings, tcd.warnings);
-  result.diagnostics = { timingsMs: {} };
-  if (tcd.criticalDistance) result.criticalDistance = tcd.criticalDistance;
-  if (tcd.comparison) result.comparison = tcd.comparison;
-  return result;
+  const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: result.band, scale: result.scale });
+  return inResultOrder({
+    ...result,
+    criticalDistance: tcd.criticalDistance,
+    comparison: tcd.comparison,
+    warnings: judged.warnings,
+    quality: judged.quality,
+    diagnostics: { timingsMs: {} },
+  });
 }

@@ -1,5 +1,5 @@
 /**
- * The versioned result of one measurement (`fractozone.result/1`): what `analyseImage`,
+ * The versioned result of one measurement (`fractozone.result/2`): what `analyseImage`,
  * `analyseDecoded` and `remeasure` return, what the CLI writes as `<name>.result.json`, what the
  * batch workers send back, what the reports, the CSV rows and the web app read. Every field is
  * typed here, with its unit in its name (µm `…Um`, px `…Px`, mm² `…Mm2`).
@@ -16,10 +16,11 @@ import type { RayReason } from '../measure/band.js';
 import type { CompareResult, ImpliedToughness } from '../tcd/compare.js';
 import type { ResolvedDistance } from '../tcd/resolve.js';
 import type { FeatureName } from '../texture/registry.js';
+import type { Warning } from '../warnings.js';
 import type { MeasureParams } from './types.js';
 
 /** Schema name and version of {@link MeasureResult}; a change of the result bumps it. */
-export const RESULT_SCHEMA = 'fractozone.result/1' as const;
+export const RESULT_SCHEMA = 'fractozone.result/2' as const;
 
 /** Where the rim/core boundary came from: found by the texture stages, or drawn / given by a person. */
 export type BoundarySource = 'auto' | 'manual';
@@ -202,28 +203,60 @@ export interface Comparison extends CompareResult {
   impliedToughness_MPa_sqrtm: ImpliedToughness | null;
 }
 
+/** How far the numbers of a result can be trusted (pipeline/stages/quality.ts). */
+export type QualityVerdict = 'ok' | 'check' | 'unreliable';
+
+/** The quality verdict and the warnings that set it (severity `check` or `unreliable`). */
+export interface Quality {
+  verdict: QualityVerdict;
+  reasons: Warning[];
+}
+
 /** Wall-clock figures; not part of the reproducible content. */
 export interface Diagnostics {
   /** Milliseconds per stage. */
   timingsMs: Record<string, number>;
 }
 
-/** The result object written as JSON by every shell. */
+/** The result object written as JSON by every shell; the keys are written in this order. */
 export interface MeasureResult {
   schema: typeof RESULT_SCHEMA;
   tool: ResultTool;
   input: ResultInput;
+  /** Whether the numbers can be used as they stand: read this first. */
+  quality: Quality;
   /** Every parameter used (validated). */
   params: MeasureParams;
   resolved: ResolvedSettings;
   scale: ResultScale;
   specimen: ResultSpecimen;
   band: ResultBand;
-  warnings: string[];
-  caution: string;
-  diagnostics: Diagnostics;
   /** Present when a material or typed toughness and strength were given. */
   criticalDistance?: ResolvedDistance;
   /** Present when a critical distance and a band width are both known. */
   comparison?: Comparison;
+  /** Every warning, each with its code (core/warnings.ts), in the order the stages gave them. */
+  warnings: Warning[];
+  caution: string;
+  diagnostics: Diagnostics;
+}
+
+/** A result with its keys in the documented order (for results built or changed in parts). */
+export function inResultOrder(r: MeasureResult): MeasureResult {
+  return {
+    schema: r.schema,
+    tool: r.tool,
+    input: r.input,
+    quality: r.quality,
+    params: r.params,
+    resolved: r.resolved,
+    scale: r.scale,
+    specimen: r.specimen,
+    band: r.band,
+    ...(r.criticalDistance ? { criticalDistance: r.criticalDistance } : {}),
+    ...(r.comparison ? { comparison: r.comparison } : {}),
+    warnings: r.warnings,
+    caution: r.caution,
+    diagnostics: r.diagnostics,
+  };
 }

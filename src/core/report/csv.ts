@@ -43,11 +43,17 @@ export type ResultView = MeasureResult & Record<string, unknown>;
 /** A table cell: numbers stay numbers (JSON Lines), null is an empty CSV field. */
 export type Cell = string | number | boolean | null;
 
-/** The fixed columns of `results.csv`, in order. Lengths in µm, rates in 1/s, units in the names. */
+/**
+ * The fixed columns of `results.csv`, in order. Lengths in µm, rates in 1/s, units in the names.
+ * `quality` is the result's verdict (ok, check, unreliable), `warning_codes` its warning codes
+ * separated by `;` (core/warnings.ts).
+ */
 export const RESULT_COLUMNS = [
   'file',
   'sha256',
   'status',
+  'quality',
+  'warning_codes',
   'error_code',
   'error_message',
   'um_per_px',
@@ -118,6 +124,9 @@ export function entryRow(entry: BatchEntry): BatchRow {
     file: entry.file,
     sha256: entry.sha256,
     status: entry.status,
+    // a result read back from an older or partial file may lack these: empty, never "ok"
+    quality: r?.quality?.verdict ?? null,
+    warning_codes: r ? r.warnings.map((w) => w.code).join(';') : null,
     error_code: entry.error?.code ?? null,
     error_message: entry.error?.message ?? (entry.status === 'no-band' ? (r?.band.reason ?? null) : null),
     um_per_px: finite(r?.scale.umPerPx),

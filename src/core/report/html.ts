@@ -34,6 +34,7 @@ h3{font-size:14px;margin:0 0 6px;word-break:break-all}
 table{border-collapse:collapse;font-size:12px;margin:6px 0}th,td{border:1px solid #ccc;padding:3px 6px;text-align:left;vertical-align:top}
 th{background:#f0f0f0}td.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
 .status-ok{color:#1c6b2a}.status-no-band{color:#8a6100}.status-error{color:#a01c1c;font-weight:bold}
+.quality-ok{color:#1c6b2a}.quality-check{color:#8a6100;font-weight:bold}.quality-unreliable{color:#a01c1c;font-weight:bold}
 .cards{display:flex;flex-wrap:wrap;gap:14px}.card{border:1px solid #ccc;padding:8px;width:560px;page-break-inside:avoid}
 .card .plots{display:flex;gap:6px;align-items:flex-start;flex-wrap:wrap}.card img{width:320px;max-width:100%;display:block;margin-bottom:6px;border:1px solid #eee}
 .muted{color:#666;font-size:12px}pre{background:#f6f6f6;padding:8px;font-size:11px;overflow:auto;max-height:360px}
@@ -64,6 +65,7 @@ function summaryRow(e: BatchEntry): string {
     `<td>${esc(e.metadata.specimen_id ?? '')}</td>`,
     `<td>${esc(e.metadata.notch ?? '')}</td>`,
     `<td class="status-${e.status}">${e.status}</td>`,
+    `<td class="quality-${s?.quality.verdict ?? 'none'}"${s?.quality.reasons.length ? ` title="${esc(s.quality.reasons.map((w) => w.code).join(', '))}"` : ''}>${s?.quality.verdict ?? '—'}</td>`,
     `<td class="n">${cell(s?.scale.umPerPx)}${s ? ` <span class="muted">(${esc(s.scale.source)})</span>` : ''}</td>`,
     `<td class="n">${w ? cell(w.mean) : '—'}</td>`,
     `<td class="n">${w ? cell(w.median) : '—'}</td>`,
@@ -89,8 +91,10 @@ function card(e: BatchEntry, thumb: string | undefined): string {
     e.status === 'error'
       ? `<p class="status-error">${esc(e.error?.code ?? 'ERROR')}: ${esc(e.error?.message ?? '')}</p>`
       : `<div class="plots">${histogramSvg(widths, { width: 260, height: 170 })}${polarProfileSvg(prof, { size: 200 })}</div>`;
-  const warn = (r?.warnings ?? []).map((w) => `<li>${esc(w)}</li>`).join('');
-  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
+  const s = r ? summarise(r) : null;
+  const warn = (r?.warnings ?? []).map((w) => `<li>${esc(w.message)} <code>${esc(w.code)}</code></li>`).join('');
+  const quality = s ? `<p class="quality-${s.quality.verdict}">quality: ${esc(s.quality.headline)}</p>` : '';
+  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${quality}${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
 }
 
 /**
@@ -132,7 +136,7 @@ export function buildReportHtml(input: ReportInput): string {
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
 <div class="caution"><strong>Caution.</strong> ${escapeText(CAUTION)}</div>
 <h2>Summary</h2>
-<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
+<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>
 <h2>Series: band width against strain rate</h2>
 ${seriesPlotSvg(series)}

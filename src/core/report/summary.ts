@@ -7,7 +7,8 @@
  */
 import type { ScaleSource } from '../calibrate/scale.js';
 import type { PointPx } from '../image/geometry.js';
-import type { MeasureResult } from '../pipeline/result.js';
+import type { MeasureResult, QualityVerdict } from '../pipeline/result.js';
+import { severityOf, type Warning } from '../warnings.js';
 import type { Verdict, WidthReference } from '../tcd/compare.js';
 
 /** Units of the summary figures. */
@@ -75,9 +76,27 @@ export interface ComparisonSummary {
   impliedToughness: Figure | null;
 }
 
+/** The quality verdict as views show it. */
+export interface QualitySummary {
+  verdict: QualityVerdict;
+  /** One line for people: "ok", "check: look at …", "unreliable: …". */
+  headline: string;
+  /** The warnings that set the verdict. */
+  reasons: Warning[];
+}
+
+/** What each verdict tells the reader (the same words in every view). */
+export const VERDICT_HEADLINES: Record<QualityVerdict, string> = {
+  ok: 'ok: no warning that affects the numbers',
+  check: 'check: look at the image and the overlay before using the numbers',
+  unreliable: 'unreliable: the numbers are likely wrong as they stand',
+};
+
 /** Every figure a view of one result shows. */
 export interface ResultSummary {
   file: string;
+  /** Read first: whether the numbers can be used as they stand. */
+  quality: QualitySummary;
   /** "jpeg, 1600×1200 px, 8-bit". */
   image: string;
   scale: { umPerPx: Figure; source: ScaleSource; detail: string };
@@ -87,7 +106,9 @@ export interface ResultSummary {
   separability: { fisher: Figure; overlap: Figure } | null;
   criticalDistance: CriticalDistanceSummary | null;
   comparison: ComparisonSummary | null;
-  warnings: string[];
+  /** All warnings with their codes; `notes` are those of severity info (not among the reasons). */
+  warnings: Warning[];
+  notes: Warning[];
   caution: string;
 }
 
@@ -131,8 +152,11 @@ function bandSummary(r: MeasureResult): MeasuredBandSummary | MissingBandSummary
 export function summarise(r: MeasureResult): ResultSummary {
   const cd = r.criticalDistance;
   const c = r.comparison;
+  // a result read back from an older or partial file may lack the verdict: say so, never "ok"
+  const q = r.quality ?? { verdict: 'check' as const, reasons: [] };
   return {
     file: r.input.file,
+    quality: { verdict: q.verdict, headline: VERDICT_HEADLINES[q.verdict], reasons: q.reasons },
     image: `${r.input.format}, ${r.input.widthPx}×${r.input.heightPx} px, ${r.input.bitDepth}-bit`,
     scale: { umPerPx: fig('pixel size', r.scale.umPerPx, 'µm/px'), source: r.scale.source, detail: r.scale.detail },
     specimen: { centerPx: r.specimen.center, radius: fig('specimen radius', r.specimen.radiusUm, 'µm'), cutByFrame: r.specimen.touchesFrame },
@@ -150,6 +174,7 @@ export function summarise(r: MeasureResult): ResultSummary {
         }
       : null,
     warnings: [...r.warnings],
+    notes: r.warnings.filter((w) => severityOf(w.code) === 'info'),
     caution: r.caution,
   };
 }

@@ -4,6 +4,7 @@
  * centre, holes filled; rim = the rest of the specimen, touching the outer edge).
  */
 import { FractozoneError } from '../errors.js';
+import { warn, type Warning } from '../warnings.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
@@ -64,7 +65,7 @@ export interface RimCoreResult {
   detected: boolean;
   /** Why nothing was detected (detected = false). */
   reason?: string;
-  warnings: string[];
+  warnings: Warning[];
   /** Core mask at feature resolution (holes filled), null when no core was found. */
   coreMask: Mask | null;
   /** Core outer contour, px at full resolution (null when not detected). */
@@ -359,9 +360,9 @@ function verdict(base: Omit<RimCoreResult, 'detected' | 'reason'>, nRim: number,
     return { ...base, detected: false, reason: `no smooth rim: rim and core textures are not separable (Fisher ratio ${fmt(fisher)}, overlap ${fmt(overlap)})` };
   }
   const warnings = base.warnings;
-  if (fisher < (opts.warnFisher ?? 4)) warnings.push(`weak texture contrast between rim and core (Fisher ratio ${fmt(fisher)} < ${opts.warnFisher ?? 4})`);
-  if (overlap > (opts.warnOverlap ?? 0.2)) warnings.push(`rim and core texture histograms overlap by ${fmt(overlap)}`);
-  if (base.coreAtEdgeFraction > 0.2) warnings.push(`the band seems missing on ${(base.coreAtEdgeFraction * 100).toFixed(0)} % of the circumference`);
+  if (fisher < (opts.warnFisher ?? 4)) warnings.push(warn('WEAK_TEXTURE_CONTRAST', `weak texture contrast between rim and core (Fisher ratio ${fmt(fisher)} < ${opts.warnFisher ?? 4})`));
+  if (overlap > (opts.warnOverlap ?? 0.2)) warnings.push(warn('TEXTURE_OVERLAP', `rim and core texture histograms overlap by ${fmt(overlap)}`));
+  if (base.coreAtEdgeFraction > 0.2) warnings.push(warn('BAND_MISSING_IN_PLACES', `the band seems missing on ${(base.coreAtEdgeFraction * 100).toFixed(0)} % of the circumference`));
   return { ...base, detected: true };
 }
 
@@ -399,7 +400,7 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   const interior = erodeMask(spec, half);
   const comb = new Float32Array(fw * fh);
   const idx = indicesOf(interior.data);
-  const warnings: string[] = [];
+  const warnings: Warning[] = [];
   const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
   const fail = (reason: string): RimCoreResult => ({
     detected: false, reason, warnings, coreMask: null, boundary: null, separability: empty, coreAtEdgeFraction: NaN,

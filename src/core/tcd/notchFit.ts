@@ -14,6 +14,7 @@
  * actual failure load = σ_0 / (P_i e_i(L)).
  */
 import { FractozoneError } from '../errors.js';
+import { warn, type Warning } from '../warnings.js';
 import { criticalDistance, type TcdMethod } from './criticalDistance.js';
 import { effectiveStress, maxCriticalDistance, type StressCurve } from './stressCurve.js';
 
@@ -40,7 +41,7 @@ export interface NotchFit {
   rmsLogResidualPct: number;
   /** Search range for L in metres. */
   searchRange_m: [number, number];
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /**
@@ -123,7 +124,7 @@ function crossings(specimens: NotchSpecimen[], method: TcdMethod, grid: number[]
 }
 
 /** More specimens: the grid minimum of Σ(ln P_i e_i(L) − mean)², refined by golden section in log L. */
-function leastSquaresL(specimens: NotchSpecimen[], method: TcdMethod, grid: number[], warnings: string[]): number {
+function leastSquaresL(specimens: NotchSpecimen[], method: TcdMethod, grid: number[], warnings: Warning[]): number {
   const n = grid.length;
   const f = (x: number): number => {
     const v = specimens.map((sp) => logStress(sp, x, method));
@@ -141,7 +142,7 @@ function leastSquaresL(specimens: NotchSpecimen[], method: TcdMethod, grid: numb
     }
   }
   if (!Number.isFinite(bestF)) throw new FractozoneError('PROCESSING_FAILED', 'no L in the search range gives positive stresses for all specimens', 'processing');
-  if (best === 0 || best === n - 1) warnings.push(`the best L lies at the edge of the search range (${fmtUm(grid[best])}); widen the range or check the curves`);
+  if (best === 0 || best === n - 1) warnings.push(warn('FIT_AT_RANGE_EDGE', `the best L lies at the edge of the search range (${fmtUm(grid[best])}); widen the range or check the curves`));
   // golden-section in log L on the bracket around the grid minimum
   let a = Math.log(grid[Math.max(0, best - 1)]);
   let b = Math.log(grid[Math.min(n - 1, best + 1)]);
@@ -186,7 +187,7 @@ export function fitNotches(specimens: NotchSpecimen[], method: TcdMethod, option
       throw new FractozoneError('BAD_PARAMETER', `${sp.name}: failure load must be positive, got ${sp.failureLoad}`);
     }
   }
-  const warnings: string[] = [];
+  const warnings: Warning[] = [];
   const [lo, hi] = searchRange(specimens, method, options.range_m);
   const grid = logGrid(lo, hi, Math.max(50, options.gridPoints ?? 800));
   let L: number;
@@ -201,7 +202,7 @@ export function fitNotches(specimens: NotchSpecimen[], method: TcdMethod, option
         'processing',
       );
     }
-    if (roots.length > 1) warnings.push(`the curves cross ${roots.length} times; the smallest L was taken (others: ${roots.slice(1).map(fmtUm).join(', ')})`);
+    if (roots.length > 1) warnings.push(warn('CURVES_CROSS_MORE_THAN_ONCE', `the curves cross ${roots.length} times; the smallest L was taken (others: ${roots.slice(1).map(fmtUm).join(', ')})`));
     L = roots[0];
   } else {
     solver = 'least-squares';
@@ -215,7 +216,7 @@ export function fitNotches(specimens: NotchSpecimen[], method: TcdMethod, option
   });
   const rms = Math.sqrt(logs.reduce((acc, v) => acc + (v - lnS0) ** 2, 0) / logs.length) * 100;
   for (const sp of specimens) {
-    if (sp.unitCurve.analysis === 'elastoplastic') warnings.push(`${sp.name}: elastoplastic curve scaled linearly with load; the fit assumes linear-elastic scaling`);
+    if (sp.unitCurve.analysis === 'elastoplastic') warnings.push(warn('ELASTOPLASTIC_SCALED_LINEARLY', `${sp.name}: elastoplastic curve scaled linearly with load; the fit assumes linear-elastic scaling`));
   }
   return { method, L_m: L, L_um: L * 1e6, sigma0_MPa: Math.exp(lnS0), solver, residuals, rmsLogResidualPct: rms, searchRange_m: [lo, hi], warnings };
 }

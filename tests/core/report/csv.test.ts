@@ -53,6 +53,16 @@ describe('results table rows', () => {
     });
   });
 
+  it('carries the quality verdict and the warning codes (separated by ;)', () => {
+    const e = entry();
+    e.result!.warnings = [{ code: 'SPECIMEN_CUT_BY_FRAME', message: 'cut' }, { code: 'INVENTED_MATERIAL', message: 'demo' }];
+    e.result!.quality = { verdict: 'check', reasons: [e.result!.warnings[0]] };
+    expect(entryRow(e)).toMatchObject({ quality: 'check', warning_codes: 'SPECIMEN_CUT_BY_FRAME;INVENTED_MATERIAL' });
+    expect(entryRow(entry())).toMatchObject({ quality: 'ok', warning_codes: '' });
+    expect(entryRow(entry({ status: 'error', result: null }))).toMatchObject({ quality: null, warning_codes: null });
+    expect(RESULT_COLUMNS.slice(0, 5)).toEqual(['file', 'sha256', 'status', 'quality', 'warning_codes']);
+  });
+
   it('leaves width columns empty for no-band and error rows, and carries the error', () => {
     const noBand = makeResult({ meanUm: null });
     noBand.band.reason = 'no band found';

@@ -9,6 +9,7 @@ import { buildReportHtml } from '../../../src/core/report/html.js';
 import { analyseSeries } from '../../../src/core/report/series.js';
 import type { BatchEntry } from '../../../src/core/report/csv.js';
 import { makeResult } from '../../helpers/result.js';
+import type { MeasureResult } from '../../../src/core/pipeline/result.js';
 
 describe('summarise', () => {
   it('labels every figure and gives it its unit', () => {
@@ -47,6 +48,7 @@ describe('views built on the summary', () => {
     const label = overlayLabel(summarise(makeResult({ file: 'a.png', meanUm: 577.25, ci95: [533.1, 621.3], umPerPx: 4.5, L_um: 554.5, ratio: 1.041, verdict: 'agrees' })));
     expect(label).toEqual([
       'a.png',
+      'quality: ok',
       'band width mean 577.3 µm, 95% CI 533.1-621.3 µm',
       'median 577.3 µm, sd 5.0 µm, n = 360 rays',
       'pixel 4.500 µm (typed)',
@@ -54,7 +56,8 @@ describe('views built on the summary', () => {
     ]);
     const none = makeResult({ file: 'b.png', meanUm: null });
     none.band.reason = 'no smooth rim';
-    expect(overlayLabel(summarise(none))).toEqual(['b.png', 'no smooth rim band: no smooth rim', 'pixel 2.500 µm (typed)']);
+    none.quality = { verdict: 'check', reasons: [{ code: 'NO_BAND_FOUND', message: 'no band' }] };
+    expect(overlayLabel(summarise(none))).toEqual(['b.png', 'quality: check (NO_BAND_FOUND)', 'no smooth rim band: no smooth rim', 'pixel 2.500 µm (typed)']);
   });
 
   it('the batch report summary row shows the same figures (4 significant digits, units)', () => {
@@ -69,5 +72,23 @@ describe('views built on the summary', () => {
     expect(row).toContain('4.5\u00a0µm/px');
     expect(row).toContain('554.5\u00a0µm');
     expect(row).toContain('1.041');
+    expect(row).toContain('<td class="quality-ok">ok</td>');
+  });
+
+  it('the batch report shows the quality verdict of each image, its reasons by code, and the warnings with codes', () => {
+    const r = makeResult({ file: 'b.png', meanUm: 100 });
+    r.warnings = [{ code: 'WIDE_WIDTH_INTERVAL', message: 'the 95 % CI spans 40 %' }, { code: 'INVENTED_MATERIAL', message: 'demo' }];
+    r.quality = { verdict: 'check', reasons: [r.warnings[0]] };
+    const entry: BatchEntry = { file: 'b.png', safeName: 'b', sha256: 'ff', status: 'ok', metadata: {}, strainRatePerS: null, material: null, overlay: null, result: r };
+    const html = buildReportHtml({ entries: [entry], series: analyseSeries([entry]), thumbnails: {}, params: {}, toolVersion: 't' });
+    expect(html).toContain('<td class="quality-check" title="WIDE_WIDTH_INTERVAL">check</td>');
+    expect(html).toContain('quality: check: look at the image and the overlay before using the numbers');
+    expect(html).toContain('the 95 % CI spans 40 % <code>WIDE_WIDTH_INTERVAL</code>');
+  });
+
+  it('a result without a verdict (an older or partial file) is never shown as ok', () => {
+    const r = makeResult({ meanUm: 100 }) as Partial<MeasureResult>;
+    delete r.quality;
+    expect(summarise(r as MeasureResult).quality.verdict).toBe('check');
   });
 });

@@ -1,5 +1,5 @@
 /**
- * Stage 8, assemble: the result object (schema fractozone.result/1) from the stage outputs, with
+ * Stage 8, assemble: the result object (schema fractozone.result/2) from the stage outputs, with
  * every number rounded to its stored precision (precision.ts). Also the band block that
  * `remeasure` rebuilds on a saved result.
  */
@@ -9,11 +9,13 @@ import type { BoxPx } from '../../image/geometry.js';
 import type { BandProfile } from '../../measure/index.js';
 import type { Separability } from '../../segment/index.js';
 import { TOOL_NAME, TOOL_VERSION } from '../../version.js';
+import type { Warning } from '../../warnings.js';
 import type { WorkingFrame } from '../frame.js';
 import { round, storedBox, storedPoint, storedPolygon } from '../precision.js';
 import {
   RESULT_SCHEMA,
   type MeasureResult,
+  type Quality,
   type RayResult,
   type ResultBand,
   type ResultScale,
@@ -123,7 +125,8 @@ export function assembleBand(boundary: RimBoundary, geometry: StoredGeometry, me
   return measured ? withMeasurement(band, measured) : band;
 }
 
-function assembleScale(decoded: DecodedImage, calibration: Calibration, params: MeasureParams): ResultScale {
+/** The scale block of the result. */
+export function assembleScale(decoded: DecodedImage, calibration: Calibration, params: MeasureParams): ResultScale {
   const { scale, bar } = calibration;
   return {
     umPerPx: scale.umPerPx,
@@ -194,9 +197,13 @@ export interface AssembleInput {
   window: TextureWindow;
   boundarySource: RimBoundary['source'];
   geometry: StoredGeometry;
+  /** The assembled scale and band blocks (the quality rules read them too). */
+  scale: ResultScale;
   band: ResultBand;
   criticalDistance: CriticalDistanceBlocks;
-  warnings: string[];
+  /** All warnings and the verdict (stages/quality.ts). */
+  warnings: Warning[];
+  quality: Quality;
   /** Stage timings, filled in as the run goes on (the overlay adds its own after assembly). */
   timingsMs: Record<string, number>;
 }
@@ -218,6 +225,7 @@ export function assembleResult(a: AssembleInput): MeasureResult {
       colorType: decoded.colorType,
       pageCount: decoded.pageCount,
     },
+    quality: a.quality,
     params: p,
     resolved: {
       windowUm: round(a.window.windowUm, 3),
@@ -226,14 +234,14 @@ export function assembleResult(a: AssembleInput): MeasureResult {
       features: [...p.features],
       boundarySource: a.boundarySource,
     },
-    scale: assembleScale(decoded, a.calibration, p),
+    scale: a.scale,
     specimen: assembleSpecimen(a.frame, a.location, a.calibration, a.geometry),
     band: a.band,
+    ...(a.criticalDistance.criticalDistance ? { criticalDistance: a.criticalDistance.criticalDistance } : {}),
+    ...(a.criticalDistance.comparison ? { comparison: a.criticalDistance.comparison } : {}),
     warnings: a.warnings,
     caution: CAUTION,
     diagnostics: { timingsMs: a.timingsMs },
   };
-  if (a.criticalDistance.criticalDistance) result.criticalDistance = a.criticalDistance.criticalDistance;
-  if (a.criticalDistance.comparison) result.comparison = a.criticalDistance.comparison;
   return result;
 }

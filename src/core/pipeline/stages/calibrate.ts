@@ -3,6 +3,7 @@
  * (typed pixel size > two points > scale bar with its length > file metadata, see calibrate/scale.ts)
  * and mark the bar, its plate and its label so that later stages leave them out.
  */
+import { warn, type Warning } from '../../warnings.js';
 import { chooseScale, detectScaleBar, type Scale, type ScaleBar } from '../../calibrate/index.js';
 import type { DecodedImage } from '../../decode/index.js';
 import { FractozoneError, isFractozoneError } from '../../errors.js';
@@ -23,7 +24,7 @@ export interface Calibration {
   scale: Scale;
   /** Boxes of the bar, plate and label (full-resolution px), to be painted out; empty without a bar. */
   marks: BoxPx[];
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /**
@@ -34,7 +35,7 @@ export interface Calibration {
 export function calibrate(input: CalibrateInput): Calibration {
   const { decoded, scale: s } = input;
   const raster = decoded.raster;
-  const warnings: string[] = [];
+  const warnings: Warning[] = [];
   const bar = detectScaleBar(raster);
   const metadata = s.useMetadata === false ? null : decoded.metadataScale;
   const typed = s.pixelSizeUm !== undefined ? (s.pixelSizeYUm !== undefined ? { x: s.pixelSizeUm, y: s.pixelSizeYUm } : s.pixelSizeUm) : undefined;
@@ -46,7 +47,7 @@ export function calibrate(input: CalibrateInput): Calibration {
         'input',
       );
     }
-    warnings.push('a scale-bar length was given but no scale bar was found: the pixel size from the file metadata is used instead');
+    warnings.push(warn('SCALE_BAR_NOT_FOUND', 'a scale-bar length was given but no scale bar was found: the pixel size from the file metadata is used instead'));
   }
   let scale: Scale;
   try {
@@ -57,7 +58,9 @@ export function calibrate(input: CalibrateInput): Calibration {
   }
   const sx = scale.umPerPxX;
   const sy = scale.umPerPxY;
-  if (Math.abs(sx - sy) / Math.max(sx, sy) > 1e-6) warnings.push(`pixels are not square (${sx.toPrecision(4)} × ${sy.toPrecision(4)} µm): widths are converted per ray direction`);
+  if (Math.abs(sx - sy) / Math.max(sx, sy) > 1e-6) {
+    warnings.push(warn('NON_SQUARE_PIXELS', `pixels are not square (${sx.toPrecision(4)} × ${sy.toPrecision(4)} µm): widths are converted per ray direction`));
+  }
   const marks = bar ? scaleMarkBoxes(bar, raster.width, raster.height, raster) : [];
   return { bar, scale, marks, warnings };
 }

@@ -4,6 +4,7 @@
  * texture/), winsorised z-scores of the features, Otsu's threshold, morphology, and
  * the topology of the problem (core = rough region around the centre, holes filled).
  */
+import type { Warning } from '../../warnings.js';
 import type { RimCoreResult } from '../../segment/index.js';
 import { classifyRimCore } from '../../segment/index.js';
 import { FEATURES } from '../../texture/index.js';
@@ -19,7 +20,7 @@ export interface ClassifyInput {
 /** Output of {@link classifyTexture}: the rim/core split in working px. */
 export interface Classification {
   rimCore: RimCoreResult;
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /** Splits the specimen into rim and core; `rimCore.detected` is false (with a reason) when there is no rim. */

@@ -4,6 +4,7 @@
  * and the toughness the width implies (tcd/compare.ts). Runs only when a material or typed values
  * are given; the comparison only when a band width was measured.
  */
+import type { Warning } from '../../warnings.js';
 import { compareWidthWithL, impliedToughness, resolveCriticalDistance, type ImpliedToughness, type ResolvedDistance } from '../../tcd/index.js';
 import type { Comparison, WidthSummary } from '../result.js';
 import type { MeasureParams } from '../types.js';
@@ -19,7 +20,7 @@ export interface CompareStageInput {
 export interface CriticalDistanceBlocks {
   criticalDistance?: ResolvedDistance;
   comparison?: Comparison;
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /** Critical distance and comparison (see the module comment). */

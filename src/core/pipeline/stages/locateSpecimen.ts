@@ -3,6 +3,7 @@
  * component at the centre; segment/specimen.ts), then the outer edge to sub-pixel precision along
  * rays on the full-resolution image (segment/refine.ts `refineOuterEdge`).
  */
+import { warn, type Warning } from '../../warnings.js';
 import type { Scale } from '../../calibrate/index.js';
 import type { PointPx } from '../../image/geometry.js';
 import { findSpecimen, refineOuterEdge, type Specimen } from '../../segment/index.js';
@@ -28,7 +29,7 @@ export interface SpecimenLocation {
   /** Fitted circle radius, full-resolution px and µm. */
   radiusPx: number;
   radiusUm: number;
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /**
@@ -41,9 +42,9 @@ export function locateSpecimen(input: LocateInput): SpecimenLocation {
   const centerWork = { x: specimen.circle.cx, y: specimen.circle.cy };
   const center = frame.toFull(centerWork);
   const edge = refineOuterEdge(frame.full, specimen.contour.map((q) => frame.toFull(q)), center, { nRays: Math.max(input.nRays, 360) });
-  const warnings: string[] = [];
+  const warnings: Warning[] = [];
   if (specimen.touchesFrame) {
-    warnings.push(`the specimen is cut by the image frame (${(specimen.frameContactFraction * 100).toFixed(0)} % of its outline): rays that reach the frame are not measured`);
+    warnings.push(warn('SPECIMEN_CUT_BY_FRAME', `the specimen is cut by the image frame (${(specimen.frameContactFraction * 100).toFixed(0)} % of its outline): rays that reach the frame are not measured`));
   }
   const radiusPx = frame.lengthToFull(specimen.circle.radiusPx);
   return { specimen, centerWork, center, outer: edge.polygon, radiusPx, radiusUm: radiusPx * scale.umPerPx, warnings };

@@ -3,6 +3,7 @@
  * profile in µm, validity and outlier flags, and the statistics (measure/band.ts). Pure geometry
  * on the stored polygons, so `remeasure` runs exactly this stage on a saved result.
  */
+import { warn, type Warning } from '../../warnings.js';
 import type { BoxPx, PointPx } from '../../image/geometry.js';
 import { measureBand, type BandProfile } from '../../measure/index.js';
 import type { MeasureParams } from '../types.js';
@@ -30,7 +31,7 @@ export interface MeasureInput {
 /** Output of {@link measureWidths}: the profile, or null without a boundary. */
 export interface WidthMeasurement {
   profile: BandProfile | null;
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /**
@@ -61,6 +62,6 @@ export function measureWidths(input: MeasureInput): WidthMeasurement {
     bootstrap: p.bootstrap,
   });
   const nMark = profile.rays.filter((q) => q.reason === 'outer-edge-at-scale-mark').length;
-  const warnings = nMark > 0 ? [`the scale bar or its plate touches the specimen outline: ${nMark} rays there are not measured`] : [];
+  const warnings = nMark > 0 ? [warn('SCALE_MARK_ON_OUTLINE', `the scale bar or its plate touches the specimen outline: ${nMark} rays there are not measured`)] : [];
   return { profile, warnings };
 }
