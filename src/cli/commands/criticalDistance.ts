@@ -74,7 +74,10 @@ function echoText(e: EchoedValue): string {
   return `${fmt(e.value)} ${e.unit}${sc}  [${e.source}]`;
 }
 
-function echoJson(e: EchoedValue, key: string, given?: string): Record<string, unknown> {
+/** An echoed input in the JSON output: value, sd and interval under unit-carrying keys, source, the text given. */
+type EchoRecord = Record<string, number | [number, number] | string | null>;
+
+function echoJson(e: EchoedValue, key: string, given?: string): EchoRecord {
   return {
     [`value_${key}`]: e.value,
     [`sd_${key}`]: e.sd,

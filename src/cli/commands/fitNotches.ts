@@ -35,6 +35,9 @@ function fmt(v: number, digits = 5): string {
   return Number(v.toPrecision(digits)).toString();
 }
 
+/** A JSON value (the output record). */
+type JsonValue = string | number | boolean | null | JsonValue[] | { [key: string]: JsonValue };
+
 /** Register `fit-notches`. */
 export function register(program: Command): void {
   program
@@ -76,7 +79,7 @@ export function register(program: Command): void {
         return { name: file, unitCurve: scaleCurve(parsed.curve, 1 / ref.value), failureLoad: load.value };
       });
       const loadKey = dimension === 'force' ? 'N' : 'MPa';
-      let result: Record<string, unknown>;
+      let result: { [key: string]: JsonValue };
       let text: string[];
       let warnings: Warning[] = [];
       if (specimens.length === 1) {
@@ -106,7 +109,7 @@ export function register(program: Command): void {
             [`predictedLoad_${loadKey}`]: r.predictedLoad,
             ratio: r.ratio,
           })),
-          warnings: f.warnings,
+          warnings: f.warnings.map((w) => ({ code: w.code, message: w.message })),
         };
         warnings = f.warnings;
         text = [
