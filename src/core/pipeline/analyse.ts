@@ -124,3 +124,7 @@ export async function analyseImage(bytes: Uint8Array, input: InputInfo, params: 
   a.result.diagnostics.timingsMs = { decode: round(tDecode, 1), ...a.result.diagnostics.timingsMs };
   return a;
 }
+
+// Also importable from here, where they lived before the pipeline was split into stages.
+export { remeasure } from './remeasure.js';
+export type { MeasureResult } from './result.js';
