@@ -99,7 +99,7 @@ function flankHeights(c: Canvas, s: PlacedSpecimen, o: ResolvedRenderOptions, f:
       const dpx = Math.sqrt(dx * dx + dy * dy);
       const k = dpx > 1e-9 ? r / dpx : pxUm;
       const cov = (rBar - r) / k + 0.5;
-      if (cov <= -1.5) continue;
+      if (cov <= -2.5) continue; // the profile continues 3 px beyond the bar edge, so its gradient there is the flank's
       let al = Math.atan2(Y, X);
       if (al < 0) al += 2 * Math.PI;
       let fi = al * lutScale;

@@ -49,3 +49,4 @@ export {
 } from './sceneOptions.js';
 export { autoBarLabel, layoutScaleBar, type ScaleBarTruth, type BoxPx } from './scalebar.js';
 export { encodeRender } from './encode.js';
+export { SCENE_SET, findScene, type SceneCase } from './scenes.js';
