@@ -15,6 +15,7 @@ import {
   findScene,
   renderFractograph,
   SCENE_SET,
+  SEM_DETECTOR_LIGHT,
   type Background,
   type Corner,
   type RenderOptions,
@@ -133,6 +134,7 @@ function elementOptions(o: Opts): RenderOptions {
   if (o.sem || o.semStrip !== undefined) {
     r.sem = o.semStrip !== undefined ? { stripHeightPx: number(o.semStrip, '--sem-strip (px)', 0, 20000) } : {};
     r.semEdge = 0.6;
+    if (o.lightAzimuth === undefined) r.light = { ...SEM_DETECTOR_LIGHT };
   }
   if (o.glints) r.glints = {};
   if (o.colour || o.colourNoise !== undefined) r.colour = o.colourNoise !== undefined ? { noiseSigma: number(o.colourNoise, '--colour-noise', 0, 0.5) } : {};

@@ -34,6 +34,7 @@ export {
   DEFAULT_SEM,
   DEFAULT_SHADOW,
   DEFAULT_U_FLANK,
+  SEM_DETECTOR_LIGHT,
   type Tint,
   type FlankOptions,
   type HolderKind,

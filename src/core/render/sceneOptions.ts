@@ -222,6 +222,11 @@ export const DEFAULT_SEM: SemOptions = {
   stripHeightPx: 0,
   stripText: 'SE  15.0 kV  WD 14.2 mm  x20  FZ-7 (invented)',
 };
+/**
+ * Light for an SEM look: the secondary-electron detector sits to one side, so the image looks lit from
+ * the detector (Goldstein et al. 2018, ch. 5 — from memory); here from the top at 35° with little ambient.
+ */
+export const SEM_DETECTOR_LIGHT = { azimuthDeg: 90, elevationDeg: 35, ambient: 0.3 } as const;
 export const DEFAULT_GLINTS: GlintOptions = { strength: 1.2, sharpness: 80, facetUm: 25, facetTiltDeg: 25 };
 export const DEFAULT_COLOUR: ColourOptions = {
   rimTint: [1.1, 0.94, 0.74],

@@ -9,6 +9,7 @@
  * label needs room), 10–12 µm/px with one (so the whole bar fits), 14 µm/px for two halves side by side.
  */
 import type { RenderOptions } from './options.js';
+import { SEM_DETECTOR_LIGHT } from './sceneOptions.js';
 
 /** One scene of the set. */
 export interface SceneCase {
@@ -26,6 +27,8 @@ export interface SceneCase {
   /** JPEG quality (default 92) */
   readonly jpegQuality?: number;
 }
+
+const SE_DETECTOR = SEM_DETECTOR_LIGHT;
 
 const BAND = { widthUm: 400, harmonics: [{ order: 1, amplitudePct: 6, phaseDeg: 40 }, { order: 3, amplitudePct: 4, phaseDeg: 110 }], transitionUm: 40 };
 
@@ -68,7 +71,7 @@ const SINGLE: SceneCase[] = [
   scene('holder-clamp-b', 'knurled clamp closing at 70°, brighter steel', ['holder'], typical(21, 8.5, { background: 'clamp', holder: { clampAxisDeg: 70, level: 0.55 }, light: { azimuthDeg: 100 } })),
   scene('holder-paper', 'bright mottled paper background, shadow to the upper left', ['holder', 'shadow'], typical(22, 8.5, { background: 'paper', light: { azimuthDeg: 315 }, shadow: {} })),
   scene('shadow-bright', 'bright plain background with a long soft shadow to the lower left', ['shadow'], typical(23, 8.5, { background: 'bright', light: { azimuthDeg: 45 }, shadow: { lengthUm: 2500, softnessUm: 350 } })),
-  scene('sem', 'SEM look: tilt contrast, edge glow, scan-line noise, signal noise, data strip with scale bar (16-bit TIFF)', ['sem'], typical(24, 8.5, { sem: { stripHeightPx: 56 }, semEdge: 0.6, noiseSignal: 0.04, noiseSigma: 0.02, vignetting: 0.03, light: { azimuthDeg: 90, elevationDeg: 55, ambient: 0.5 } }), 'tiff', { bitDepth: 16 }),
+  scene('sem', 'SEM look: tilt contrast, edge glow, scan-line noise, signal noise, data strip with scale bar (16-bit TIFF)', ['sem'], typical(24, 8.5, { sem: { stripHeightPx: 56 }, semEdge: 0.6, noiseSignal: 0.04, noiseSigma: 0.02, vignetting: 0.03, light: SE_DETECTOR }), 'tiff', { bitDepth: 16 }),
   scene('glints', 'glints on a 30° slanted rim: a highlight crescent and sparkling facets on the lit side', ['glints'], typical(25, 8.5, { rim: { ...BAND, slopeDeg: 30 }, glints: {} })),
   scene('glints-b', 'glints under a higher light from the lower right, finer facets', ['glints'], typical(26, 8.5, { light: { azimuthDeg: 300, elevationDeg: 55 }, rim: { ...BAND, slopeDeg: 25 }, glints: { facetUm: 15, strength: 0.8 } })),
   scene('tint', 'colour: straw/bronze heat tint on the band, neutral grey core (RGB)', ['tint'], typical(27, 8.5, { colour: {} })),
@@ -88,8 +91,8 @@ const COMBINED: SceneCase[] = [
   scene('flank-holder-tint', 'V flank + putty holder with shadow + band tint (RGB)', ['flank', 'holder', 'shadow', 'tint'], typical(41, 11, { flank: { kind: 'V', diameterRatio: 1.3, inclineDeg: 50 }, background: 'putty', shadow: {}, colour: {} })),
   scene('flank-holder-tint-b', 'U flank (dark) + paper with shadow to the upper right + bluish band tint (RGB)', ['flank', 'holder', 'shadow', 'tint'], typical(42, 11, { light: { azimuthDeg: 220 }, flank: { kind: 'U', diameterRatio: 1.25, albedo: 0.8 }, background: 'paper', shadow: {}, colour: { rimTint: [0.8, 0.92, 1.15] } })),
   scene('flank-clamp-glints', 'V flank (dark) in a knurled clamp, glints on the rim', ['flank', 'holder', 'glints'], typical(43, 12, { flank: { kind: 'V', diameterRatio: 1.35, albedo: 0.8, inclineDeg: 40 }, background: 'clamp', rim: { ...BAND, slopeDeg: 28 }, glints: {} })),
-  scene('sem-strip-noise', 'SEM look with a data strip and heavy noise (σ = 0.04 + signal noise), 16-bit TIFF', ['sem', 'noise'], typical(44, 8.5, { sem: { stripHeightPx: 56, lineNoise: 0.03 }, semEdge: 0.7, noiseSignal: 0.06, noiseSigma: 0.04, vignetting: 0.02 }), 'tiff', { bitDepth: 16 }),
-  scene('sem-strip-noise-flank', 'SEM look with strip and noise around a V-notched specimen (the flank shows as a bright cone)', ['sem', 'noise', 'flank'], typical(45, 11, { sem: { stripHeightPx: 56 }, semEdge: 0.6, noiseSignal: 0.05, noiseSigma: 0.03, vignetting: 0.02, flank: { kind: 'V', diameterRatio: 1.25 } }), 'tiff', { bitDepth: 16 }),
+  scene('sem-strip-noise', 'SEM look with a data strip and heavy noise (σ = 0.04 + signal noise), 16-bit TIFF', ['sem', 'noise'], typical(44, 8.5, { sem: { stripHeightPx: 56, lineNoise: 0.03 }, semEdge: 0.7, noiseSignal: 0.06, noiseSigma: 0.04, vignetting: 0.02, light: SE_DETECTOR }), 'tiff', { bitDepth: 16 }),
+  scene('sem-strip-noise-flank', 'SEM look with strip and noise around a V-notched specimen (the flank shows as a bright cone)', ['sem', 'noise', 'flank'], typical(45, 11, { sem: { stripHeightPx: 56 }, semEdge: 0.6, noiseSignal: 0.05, noiseSigma: 0.03, vignetting: 0.02, light: SE_DETECTOR, flank: { kind: 'V', diameterRatio: 1.25 } }), 'tiff', { bitDepth: 16 }),
   scene('halves-rule', 'both halves + steel rule along the top', ['halves', 'rule'], typical(46, 14, { halves: { rotationDeg: -20 }, rule: { side: 'top', visibleUm: 1100 } })),
   scene('halves-rule-flank', 'both halves with V flanks + steel rule along the bottom, scale bar top right', ['halves', 'rule', 'flank'], typical(47, 14, { halves: { gapUm: 900 }, flank: { kind: 'V', diameterRatio: 1.2 }, rule: { side: 'bottom', visibleUm: 900, angleDeg: -1 }, scaleBar: { lengthUm: 1000, corner: 'tr' } })),
   scene('narrow-band-noise', 'band of 150 µm (≈ 1.5 windows) with noise σ = 0.035', ['narrow', 'noise'], typical(48, 8.5, { rim: { ...BAND, widthUm: 150, transitionUm: 25 }, noiseSigma: 0.035 })),
@@ -101,7 +104,7 @@ const COMBINED: SceneCase[] = [
 /** A few larger images (slower; benches and the command line). */
 const LARGE: SceneCase[] = [
   scene('large-flank-v', 'V flank, 2000 × 1520 px at 5.5 µm/px', ['flank', 'large'], typical(61, 5.5, { widthPx: 2000, heightPx: 1520, flank: { kind: 'V', diameterRatio: 1.3 } })),
-  scene('large-combo', 'U flank + putty + shadow + tint + glints + rule + label, 2000 × 1520 px at 5.5 µm/px (RGB)', ['flank', 'holder', 'shadow', 'tint', 'glints', 'rule', 'label', 'large'], typical(62, 5.5, { widthPx: 2000, heightPx: 1520, flank: { kind: 'U', diameterRatio: 1.2 }, background: 'putty', shadow: {}, colour: {}, glints: {}, rule: { side: 'left', visibleUm: 1400 }, label: { corner: 'tr' } })),
+  scene('large-combo', 'U flank + putty + shadow + tint + glints + rule + label, 2000 × 1520 px at 5.5 µm/px (RGB)', ['flank', 'holder', 'shadow', 'tint', 'glints', 'rule', 'label', 'large'], typical(62, 5.5, { widthPx: 2000, heightPx: 1520, flank: { kind: 'U', diameterRatio: 1.2 }, background: 'putty', shadow: {}, colour: {}, glints: {}, rule: { side: 'left', visibleUm: 1400 }, label: { corner: 'tr', text: 'FZ7-U-62\nINVENTED' } })),
 ];
 
 /** Every scene of the set, in a fixed order. */
