@@ -61,11 +61,30 @@ function splitmix32(state: number): () => number {
   };
 }
 
+/**
+ * Standard normal variates by the Box–Muller transform, both outputs of each pair used (the sine one
+ * is kept for the next call): r = √(−2 ln u₁), θ = 2π u₂, z₀ = r cos θ, z₁ = r sin θ.
+ * @param radial draws u₁ in (0, 1] (first), @param angular draws u₂ in [0, 1) (second)
+ */
+function boxMuller(radial: () => number, angular: () => number): () => number {
+  let spare: number | null = null;
+  return () => {
+    if (spare !== null) {
+      const s = spare;
+      spare = null;
+      return s;
+    }
+    const rad = Math.sqrt(-2 * Math.log(radial()));
+    const t = 2 * Math.PI * angular();
+    spare = rad * Math.sin(t);
+    return rad * Math.cos(t);
+  };
+}
+
 function mulberry32(seed: number): Rng {
   if (!Number.isFinite(seed)) throw new RangeError('seed must be a finite number');
   const seed32 = Math.trunc(seed) >>> 0;
   let state = seed32;
-  let spare: number | null = null;
   const nextFloat = (): number => {
     state = (state + 0x6d2b79f5) >>> 0;
     let t = state;
@@ -79,19 +98,8 @@ function mulberry32(seed: number): Rng {
     nextFloat,
     uniform: (lo, hi) => lo + (hi - lo) * nextFloat(),
     int: (n) => Math.floor(nextFloat() * n),
-    normal: () => {
-      if (spare !== null) {
-        const s = spare;
-        spare = null;
-        return s;
-      }
-      // u1 in (0, 1] so that log(u1) is finite
-      const u1 = 1 - nextFloat();
-      const u2 = nextFloat();
-      const rad = Math.sqrt(-2 * Math.log(u1));
-      spare = rad * Math.sin(2 * Math.PI * u2);
-      return rad * Math.cos(2 * Math.PI * u2);
-    },
+    // u1 in (0, 1] so that log(u1) is finite
+    normal: boxMuller(() => 1 - nextFloat(), nextFloat),
     fork: (label) => mulberry32((Math.floor(nextFloat() * 4294967296) ^ hashLabel(label)) >>> 0),
   };
 }
@@ -105,7 +113,6 @@ function sfc32(seed: number): Rng {
   let b = sm();
   let c = sm();
   let d = sm();
-  let spare: number | null = null;
   const u32 = (): number => {
     const t = (((a + b) >>> 0) + d) >>> 0;
     d = (d + 1) >>> 0;
@@ -123,19 +130,11 @@ function sfc32(seed: number): Rng {
     nextFloat,
     uniform: (lo, hi) => lo + (hi - lo) * nextFloat(),
     int: (n) => Math.floor(nextFloat() * n),
-    normal: () => {
-      if (spare !== null) {
-        const s = spare;
-        spare = null;
-        return s;
-      }
+    normal: boxMuller(() => {
       let u = nextFloat();
       while (u <= 1e-300) u = nextFloat();
-      const v = nextFloat();
-      const m = Math.sqrt(-2 * Math.log(u));
-      spare = m * Math.sin(2 * Math.PI * v);
-      return m * Math.cos(2 * Math.PI * v);
-    },
+      return u;
+    }, nextFloat),
     fork: (label) => sfc32((u32() ^ hashLabel(label)) >>> 0),
   };
 }
