@@ -24,7 +24,7 @@ if (!quick) {
   time('2 MP with every scene element (V flank, putty, shadow, glints, colour, defocus, rule, label)', {
     widthPx: 1600,
     heightPx: 1200,
-    umPerPx: 6,
+    umPerPx: 9,
     flank: { kind: 'V' },
     background: 'putty',
     shadow: {},
@@ -32,7 +32,7 @@ if (!quick) {
     colour: {},
     defocus: { maxSigmaPx: 3 },
     rule: { side: 'left', visibleUm: 900 },
-    label: { corner: 'tr' },
+    label: { corner: 'tr', letterUm: 35 },
   });
 }
 let total = 0;
