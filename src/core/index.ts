@@ -35,6 +35,7 @@ export type {
   BoundarySource,
   ResultTool,
   ResultInput,
+  ImageFacts,
   ResolvedSettings,
   ResultScale,
   DetectedBar,

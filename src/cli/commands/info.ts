@@ -15,6 +15,7 @@ import {
   TOOL_NAME,
   TOOL_VERSION,
   type BoxPx,
+  type ImageFacts,
   type MetadataScale,
   type ScaleBar,
 } from '../../core/index.js';
@@ -36,16 +37,7 @@ function r3(v: number): number {
 }
 
 /** The detected bar in `info --json` (px; µm/px when the bar length is given). */
-interface BarRecord {
-  x0: number;
-  y0: number;
-  x1: number;
-  y1: number;
-  lengthPx: number;
-  thicknessPx: number;
-  orientation: ScaleBar['orientation'];
-  polarity: ScaleBar['polarity'];
-  confidence: number;
+interface BarRecord extends Omit<ScaleBar, 'labelBox' | 'plate'> {
   labelBox: BoxPx | null;
   plate: BoxPx | null;
   barLengthUm?: number;
@@ -55,18 +47,11 @@ interface BarRecord {
 }
 
 /** One image in `info --json`. */
-interface InfoRecord {
+interface InfoRecord extends ImageFacts {
   tool: string;
   toolVersion: string;
   file: string;
   sha256: string;
-  format: string;
-  widthPx: number;
-  heightPx: number;
-  bitDepth: number;
-  channels: number;
-  colorType: string;
-  pageCount: number;
   compression: string | null;
   metadataScale: Pick<MetadataScale, 'umPerPxX' | 'umPerPxY' | 'source'> | null;
   metadataNote: string | null;

@@ -10,9 +10,10 @@
  */
 import type { ScaleSource } from '../calibrate/scale.js';
 import type { ScaleBar } from '../calibrate/scaleBar.js';
-import type { MetadataScale } from '../decode/types.js';
+import type { DecodedImage, MetadataScale } from '../decode/types.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { RayReason } from '../measure/band.js';
+import type { WidthStatistics } from '../measure/statistics.js';
 import type { CompareResult, ImpliedToughness } from '../tcd/compare.js';
 import type { ResolvedDistance } from '../tcd/resolve.js';
 import type { FeatureName } from '../texture/registry.js';
@@ -31,21 +32,15 @@ export interface ResultTool {
   version: string;
 }
 
+/** What the decoder says about an image file (see decode/types.ts for each field). */
+export type ImageFacts = Pick<DecodedImage, 'format' | 'widthPx' | 'heightPx' | 'bitDepth' | 'channels' | 'colorType' | 'pageCount'>;
+
 /** The image file measured. */
-export interface ResultInput {
+export interface ResultInput extends ImageFacts {
   /** File name as the user gave it (no folder for the CLI). */
   file: string;
   /** SHA-256 of the file's bytes, hex (computed by the shell). */
   sha256: string;
-  format: string;
-  widthPx: number;
-  heightPx: number;
-  /** Source bits per sample. */
-  bitDepth: number;
-  /** Source samples per pixel incl. alpha. */
-  channels: number;
-  colorType: string;
-  pageCount: number;
 }
 
 /** What was derived from the parameters for this image. */
@@ -125,21 +120,14 @@ export interface ResultSpecimen {
   outline: PointPx[];
 }
 
-/** Statistics of the valid ray widths as reported, µm (see measure/statistics.ts for the method). */
-export interface WidthSummary {
-  n: number;
-  /** Effective sample size n/τ of the correlated profile. */
-  nEff: number;
-  mean: number;
-  median: number;
-  sd: number;
-  min: number;
-  max: number;
-  p05: number;
-  p95: number;
-  /** 95 % confidence interval of the mean. */
+/**
+ * Statistics of the valid ray widths as reported, µm, rounded: the fields of the computation
+ * (measure/statistics.ts `WidthStatistics`, where each is defined) under their reported names.
+ */
+export interface WidthSummary extends Pick<WidthStatistics, 'n' | 'nEff' | 'mean' | 'median' | 'sd' | 'min' | 'max' | 'p05' | 'p95'> {
+  /** 95 % confidence interval of the mean (`ci95Mean`). */
   ci95: [number, number];
-  /** 95 % bootstrap interval of the median ([NaN, NaN] → `[null, null]` in JSON without a bootstrap). */
+  /** 95 % bootstrap interval of the median (`ci95Median`; [NaN, NaN] → `[null, null]` in JSON without a bootstrap). */
   medianCi95: [number, number];
 }
 
