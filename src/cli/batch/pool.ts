@@ -14,6 +14,7 @@ import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { FractozoneError } from '../../core/errors.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
+import { printable } from '../../core/text/printable.js';
 import type { ProcessInput } from './processor.js';
 
 export interface PoolTask {
@@ -81,7 +82,7 @@ export class WorkerPool {
         slot.ready = true;
         this.pump();
       } else if (msg.type === 'startup-failed') {
-        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${msg.message}`, 'processing'));
+        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${printable(String(msg.message))}`, 'processing'));
       } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
         if (typeof msg.cpuS === 'number') slot.cpuS = msg.cpuS;
         this.clearTimer(slot);
@@ -206,5 +207,5 @@ function lastErrorLine(text: string): string {
     .filter((l) => l !== '' && !l.startsWith('at ') && !/^\^+$/.test(l) && !l.startsWith('Node.js v') && !/^\d+: 0x[0-9a-f]+ /i.test(l));
   const fatal = lines.filter((l) => l.startsWith('FATAL ERROR:'));
   const err = fatal.length ? fatal : lines.filter((l) => /error|heap|memory/i.test(l));
-  return (err.length ? err[err.length - 1] : (lines[lines.length - 1] ?? '')).slice(0, 300);
+  return printable((err.length ? err[err.length - 1] : (lines[lines.length - 1] ?? '')).slice(0, 300));
 }

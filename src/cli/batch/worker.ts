@@ -5,6 +5,7 @@
  */
 import { loadCvNode } from '../cv-node.js';
 import { isFractozoneError } from '../../core/errors.js';
+import { printable } from '../../core/text/printable.js';
 import { loadProcessor, type ProcessInput } from './processor.js';
 import { thumbnailPng } from './thumb.js';
 import type { MeasureParams } from '../../core/pipeline/types.js';
@@ -42,8 +43,8 @@ async function main(): Promise<void> {
       },
       (e: unknown) => {
         const error = isFractozoneError(e)
-          ? { code: e.code, message: e.message }
-          : { code: 'PROCESSING_FAILED', message: `processing failed: ${e instanceof Error ? e.message : String(e)}` };
+          ? { code: e.code, message: printable(e.message) }
+          : { code: 'PROCESSING_FAILED', message: printable(`processing failed: ${(e instanceof Error ? e.message : String(e)).split('\n')[0]}`) };
         send({ type: 'done', id: msg.id, ok: false, error, cpuS: cpuS() });
       },
     );

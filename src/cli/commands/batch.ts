@@ -4,6 +4,7 @@ import { FractozoneError } from '../../core/errors.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 import { runBatch } from '../batch/run.js';
 import { parseShard } from '../batch/shard.js';
+import { stderrLine } from '../io.js';
 
 interface BatchCliOptions extends MeasureCliOptions {
   out: string;
@@ -55,13 +56,11 @@ export function register(program: Command): void {
       workerMemoryMb: intOption(opts.workerMemory, '--worker-memory', 16),
       imageTimeoutS: intOption(opts.imageTimeout, '--image-timeout', 1),
       progress: opts.progress !== false,
-      log: (l) => process.stderr.write(`${l}\n`),
+      log: stderrLine,
     });
     const line = `batch: ${summary.total} images: ${summary.ok} ok, ${summary.noBand} no band, ${summary.failed} failed, ${summary.skipped} skipped (already done) → ${summary.out}`;
-    if (opts.json) {
-      process.stderr.write(`${line}\n`);
-      process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
-    } else process.stderr.write(`${line}\n`);
+    stderrLine(line);
+    if (opts.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
     if (summary.failed > 0) process.exitCode = 1;
   });
 }

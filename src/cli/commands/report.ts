@@ -4,6 +4,7 @@ import { resolve, join } from 'node:path';
 import { existsSync } from 'node:fs';
 import { FractozoneError } from '../../core/errors.js';
 import { rebuildOutputs } from '../batch/outputs.js';
+import { stderrLine } from '../io.js';
 
 export function register(program: Command): void {
   program
@@ -14,8 +15,8 @@ export function register(program: Command): void {
     .action((folder: string, opts: { json?: boolean }) => {
       const out = resolve(folder);
       if (!existsSync(join(out, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${folder}" is not a batch output folder (no results/ inside)`, 'usage');
-      const entries = rebuildOutputs(out, (m) => process.stderr.write(`report: warning: ${m}\n`));
-      process.stderr.write(`report: ${entries.length} images → ${join(out, 'report.html')}\n`);
+      const entries = rebuildOutputs(out, (m) => stderrLine(`report: warning: ${m}`));
+      stderrLine(`report: ${entries.length} images → ${join(out, 'report.html')}`);
       if (opts.json) process.stdout.write(JSON.stringify({ schema: 'fractozone.report-summary/1', out, images: entries.length, report: 'report.html' }, null, 2) + '\n');
     });
 }
