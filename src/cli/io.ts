@@ -47,7 +47,7 @@ const WRITE_REASONS: Record<string, string> = {
 };
 
 /** True for an error thrown by {@link writeFileAtomic} / {@link makeFolder}. */
-export function isWriteFailure(e: unknown): e is FractozoneError {
+export function isWriteFailure(e: unknown): boolean {
   return e instanceof FractozoneError && e.code === 'WRITE_FAILED';
 }
 

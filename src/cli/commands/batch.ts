@@ -2,6 +2,7 @@
 import type { Command } from 'commander';
 import { FractozoneError } from '../../core/errors.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
+import { INTERRUPTED_EXIT_CODE } from '../batch/interrupt.js';
 import { runBatch } from '../batch/run.js';
 import { parseShard } from '../batch/shard.js';
 import { stderrLine } from '../io.js';
@@ -61,6 +62,10 @@ export function register(program: Command): void {
     const line = `batch: ${summary.total} images: ${summary.ok} ok, ${summary.noBand} no band, ${summary.failed} failed, ${summary.skipped} skipped (already done) → ${summary.out}`;
     stderrLine(line);
     if (opts.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
-    if (summary.failed > 0) process.exitCode = 1;
+    if (summary.interrupted) {
+      const done = summary.ok + summary.noBand + summary.failed + summary.skipped;
+      stderrLine(`interrupted: ${done} of ${summary.total} done; run again with --resume`);
+      process.exitCode = INTERRUPTED_EXIT_CODE;
+    } else if (summary.failed > 0) process.exitCode = 1;
   });
 }

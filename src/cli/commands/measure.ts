@@ -7,6 +7,7 @@ import type { Command } from 'commander';
 import { analyseImage, encodeOverlayPng, type MeasureResult } from '../../core/pipeline/index.js';
 import { loadCvNode } from '../cv-node.js';
 import { printableLines } from '../../core/text/printable.js';
+import { safeFileName } from '../../core/text/safe-name.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 
@@ -59,7 +60,7 @@ export function summaryText(r: MeasureResult): string {
 
 /** File stem for outputs: the image name without extension, with unsafe characters replaced. */
 export function outputStem(file: string): string {
-  const stem = basename(file, extname(file)).replace(/[^A-Za-z0-9._-]+/g, '_').slice(0, 120);
+  const stem = safeFileName(basename(file, extname(file))).slice(0, 120);
   return stem || 'image';
 }
 
