@@ -103,13 +103,16 @@ function describe(info: LockInfo): string {
   return `${printable(info.command)}, pid ${info.pid} ${where}, started ${printable(info.startedAt)}`;
 }
 
-function busyError(folder: string, path: string, held: Held): FractozoneError {
+/** @param writing - true when this run wants to write the folder (suggest another --out) */
+function busyError(folder: string, path: string, held: Held, writing = true): FractozoneError {
+  const what = writing ? 'output folder' : 'folder';
   if (held.kind !== 'lock') {
-    return new FractozoneError('OUTPUT_BUSY', `output folder "${printable(folder)}" has a lock file that is not fractozone's or is being written ("${printable(path)}"); remove it if no run uses the folder`);
+    return new FractozoneError('OUTPUT_BUSY', `${what} "${printable(folder)}" has a lock file that is not fractozone's or is being written ("${printable(path)}"); remove it if no run uses the folder`);
   }
   const info = held.info;
-  const hint = info.host === hostname() ? 'wait for it to finish or give another --out' : `if that run has ended, remove "${printable(path)}"`;
-  return new FractozoneError('OUTPUT_BUSY', `output folder "${printable(folder)}" is in use by another fractozone run (${describe(info)}); ${hint}`);
+  const wait = writing ? 'wait for it to finish or give another --out' : 'wait for it to finish';
+  const hint = info.host === hostname() ? wait : `if that run has ended, remove "${printable(path)}"`;
+  return new FractozoneError('OUTPUT_BUSY', `${what} "${printable(folder)}" is in use by another fractozone run (${describe(info)}); ${hint}`);
 }
 
 /** A held lock; `release()` removes the file if it is still ours. */
@@ -274,6 +277,5 @@ export function assertNotBusy(folder: string): void {
   const held = readHeld(path);
   if (held.kind === 'gone') return;
   if (held.kind === 'lock' && isStale(held.info)) return;
-  const e = busyError(folder, path, held);
-  throw new FractozoneError('OUTPUT_BUSY', e.message.replace('output folder', 'folder').replace('; wait for it to finish or give another --out', '; wait for it to finish'));
+  throw busyError(folder, path, held, false);
 }

@@ -49,8 +49,8 @@ function checkSources(sources: readonly string[], out: string, outArg: string, l
   for (const s of sources) {
     const src = resolve(s);
     if (src === out) throw new FractozoneError('BAD_PARAMETER', `--out "${printable(outArg)}" is one of the folders being merged; choose a new folder`);
+    if (existsSync(src)) assertNotBusy(src);
     if (!existsSync(join(src, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${printable(s)}" is not a batch output folder (no results/ inside)`, 'usage');
-    assertNotBusy(src);
     const bf = readBatchFile(src);
     if (bf) {
       if (defaults === undefined) defaults = bf.defaults;

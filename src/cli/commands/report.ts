@@ -3,7 +3,7 @@ import type { Command } from 'commander';
 import { resolve, join } from 'node:path';
 import { existsSync } from 'node:fs';
 import { FractozoneError } from '../../core/errors.js';
-import { acquireOutputLock } from '../batch/lock.js';
+import { acquireOutputLock, assertNotBusy } from '../batch/lock.js';
 import { rebuildOutputs } from '../batch/outputs.js';
 import { printable } from '../../core/text/printable.js';
 import { stderrLine } from '../io.js';
@@ -16,6 +16,7 @@ export function register(program: Command): void {
     .option('--json', 'print a JSON summary on stdout')
     .action((folder: string, opts: { json?: boolean }) => {
       const out = resolve(folder);
+      if (existsSync(out)) assertNotBusy(out);
       if (!existsSync(join(out, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${printable(folder)}" is not a batch output folder (no results/ inside)`, 'usage');
       const lock = acquireOutputLock(out, 'report', (m) => stderrLine(`report: ${m}`));
       let entries;
