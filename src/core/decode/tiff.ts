@@ -29,7 +29,7 @@ export function readTiffHeader(bytes: Uint8Array): ImageHeader {
 /** Internal: full TIFF decode of the first page (call through decodeImage). */
 export function decodeTiffImage(input: Uint8Array, maxPixels: number): DecodedImage {
   const s = readStructure(input, true, maxPixels);
-  const L = describeLayout(s, input.length);
+  const L = describeLayout(s, input.length, maxPixels);
   const { raster, scaling } = toRaster(assemblePixels(input, L), L, s.ifd);
   const ifd = s.ifd;
   const meta = metadataScaleFromTiff({ xResolution: one(ifd, 282), yResolution: one(ifd, 283), resolutionUnit: one(ifd, 296) });

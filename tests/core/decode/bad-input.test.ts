@@ -211,6 +211,17 @@ describe('decodeImage refuses bad input with a clear code', () => {
     expect(codeOf(() => decodeImage(b.slice(0, b.length - 10)))).toBe('TRUNCATED_IMAGE');
   });
 
+  it('damaged TIFF structure values found by fuzzing give a code, never a RangeError', () => {
+    // ImageLength as a RATIONAL 3/2 (a fraction), 0 and 65535 samples per pixel, 64-bit float × 16 samples beyond the budget
+    const frac = tiffWithTags([[256, 3, 4], [257, 5, 40], [258, 3, 8], [273, 4, 8], [279, 4, 16]]);
+    new DataView(frac.buffer).setUint32(40, 0x03000000, true); // the rational's bytes point into the header: any value, not whole
+    expect(codeOf(() => decodeImage(frac))).toBe('CORRUPT_IMAGE');
+    expect(codeOf(() => decodeImage(tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [273, 4, 8], [277, 3, 0], [279, 4, 16]])))).toBe('CORRUPT_IMAGE');
+    expect(codeOf(() => decodeImage(tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [273, 4, 8], [277, 3, 65535], [279, 4, 16]])))).toBe('UNSUPPORTED_IMAGE');
+    const big = tiffWithTags([[256, 4, 10000], [257, 4, 10000], [258, 3, 64], [273, 4, 8], [277, 3, 16], [279, 4, 16], [339, 3, 3]]);
+    expect(codeOf(() => decodeImage(big))).toBe('IMAGE_TOO_LARGE');
+  });
+
   it('a tile size out of proportion to the image is refused before allocating (was a RangeError)', () => {
     // 4×4 image claiming 4,000,000 × 4,000 px tiles
     const t = tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [322, 4, 4_000_000], [323, 4, 4000], [324, 4, 8], [325, 4, 16]]);

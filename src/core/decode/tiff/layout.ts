@@ -37,6 +37,9 @@ export interface TiffLayout {
   le: boolean;
 }
 
+/** Most samples per pixel read (gray/RGB plus extra samples). */
+const MAX_SAMPLES = 16;
+
 const PHOTOMETRIC_NAMES: Record<number, string> = { 4: 'transparency mask', 5: 'CMYK', 6: 'YCbCr', 8: 'CIE Lab', 32844: 'LogL', 32845: 'LogLuv' };
 
 function sampleKind(ifd: Ifd): { bitDepth: number; sampleFormat: 'uint' | 'float' } {
@@ -105,9 +108,15 @@ export function chunkRowBytes(L: Pick<TiffLayout, 'tiled' | 'tileW' | 'width' | 
  * The checked layout of the first page.
  * @throws FractozoneError UNSUPPORTED_IMAGE, CORRUPT_IMAGE, TRUNCATED_IMAGE
  */
-export function describeLayout(s: TiffStructure, fileLength: number): TiffLayout {
+export function describeLayout(s: TiffStructure, fileLength: number, maxPixels: number): TiffLayout {
   const { ifd, width, height, spp } = s;
+  if (!(spp >= 1)) fail('CORRUPT_IMAGE', 'the TIFF gives 0 samples per pixel');
+  if (spp > MAX_SAMPLES) fail('UNSUPPORTED_IMAGE', `TIFF with ${spp} samples per pixel is not supported (at most ${MAX_SAMPLES})`);
   const { bitDepth, sampleFormat } = sampleKind(ifd);
+  // the sample buffer is allocated from this: at most 16 bytes per pixel of the pixel budget
+  if ((width * height * spp * bitDepth) / 8 > 16 * maxPixels) {
+    fail('IMAGE_TOO_LARGE', `the TIFF image needs ${Math.round((width * height * spp * bitDepth) / 8 / 1e6)} MB of samples, above the limit for ${(maxPixels / 1e6).toFixed(1)} megapixels`);
+  }
   const cmpr = one(ifd, 259, 1)!;
   const compression = COMPRESSION_NAMES[cmpr];
   if (!compression) {

@@ -12,6 +12,8 @@ const TYPE_SIZE = [0, 1, 1, 2, 4, 8, 1, 1, 2, 4, 8, 4, 8, 4, 0, 0, 8, 8, 8];
 const MAX_PAGES = 100_000;
 /** Tags read from the first directory. */
 const WANTED = new Set([256, 257, 258, 259, 262, 266, 273, 277, 278, 279, 282, 283, 284, 296, 317, 320, 322, 323, 324, 325, 338, 339, 347, 530]);
+/** Tags whose values may be fractions (X/YResolution). */
+const FRACTION_TAGS = new Set([282, 283]);
 
 export interface Ifd {
   tags: Map<number, number[]>;
@@ -103,6 +105,9 @@ export function readIfd(r: Reader, off: number, readValues: boolean): Ifd {
     if (!(vo + bytes <= n)) fail('TRUNCATED_IMAGE', `the TIFF file is cut short (the values of tag ${tag} lie past its end)`);
     const vals = new Array<number>(cnt);
     for (let i = 0; i < cnt; i++) vals[i] = readValue(r, type, vo + i * size);
+    // sizes, counts, offsets and codes are whole numbers: a fraction (RATIONAL type), NaN (FLOAT)
+    // or a 64-bit value beyond 2^53 is damage, not something to round
+    if (!FRACTION_TAGS.has(tag) && !vals.every(Number.isSafeInteger)) fail('CORRUPT_IMAGE', `the TIFF tag ${tag} holds a value that is not a whole number`);
     tags.set(tag, vals);
   }
   return { tags, next: r.off(end) };
