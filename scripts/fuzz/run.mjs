@@ -36,7 +36,8 @@ import { formatOf, mutate, rng } from './mutate.mjs';
 const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 const CLI = join(ROOT, 'dist/cli/main.js');
 const RSS_PRELOAD = pathToFileURL(join(ROOT, 'scripts/fuzz/rss.mjs')).href;
-const KNOWN_CODES = new Set(['EMPTY_INPUT', 'NOT_AN_IMAGE', 'UNSUPPORTED_IMAGE', 'CORRUPT_IMAGE', 'TRUNCATED_IMAGE', 'ZERO_SIZE_IMAGE', 'IMAGE_TOO_LARGE', 'BAD_SCALE', 'NO_SPECIMEN']);
+// BAD_PARAMETER: the default texture window larger than a tiny image (a usage error, exit 2 in `measure`)
+const KNOWN_CODES = new Set(['EMPTY_INPUT', 'NOT_AN_IMAGE', 'UNSUPPORTED_IMAGE', 'CORRUPT_IMAGE', 'TRUNCATED_IMAGE', 'ZERO_SIZE_IMAGE', 'IMAGE_TOO_LARGE', 'BAD_SCALE', 'NO_SPECIMEN', 'BAD_PARAMETER']);
 // eslint-disable-next-line no-control-regex
 const UNPRINTABLE = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069\u2028\u2029\ufeff]/;
 const STACK = /^\s+at .+\(.*:\d+:\d+\)$|^\s+at .+:\d+:\d+$/m;
