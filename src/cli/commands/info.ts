@@ -19,6 +19,7 @@ import {
   type MetadataScale,
   type ScaleBar,
 } from '../../core/index.js';
+import { printable, printableLines } from '../../core/text/printable.js';
 import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, toJsonText } from '../io.js';
 
@@ -165,7 +166,7 @@ export function register(program: Command): void {
       loadCvNode();
       if (images.length === 1) {
         const { json, text } = inspect(images[0], barLengthUm, maxPixels);
-        process.stdout.write(opts.json ? toJsonText(json) : text.join('\n') + '\n');
+        process.stdout.write(opts.json ? toJsonText(json) : printableLines(text.join('\n')) + '\n');
         return;
       }
       const records: (InfoRecord | InfoError)[] = [];
@@ -180,11 +181,11 @@ export function register(program: Command): void {
           if (!isFractozoneError(e)) throw e;
           failed++;
           records.push({ tool: TOOL_NAME, toolVersion: TOOL_VERSION, file: path, error: { code: e.code, message: e.message } });
-          process.stderr.write(`fractozone: error [${e.code}]: ${path}: ${e.message}\n`);
+          process.stderr.write(`fractozone: error [${e.code}]: ${printable(path)}: ${printable(e.message)}\n`);
           lines.push(`${basename(path)}`, `  error [${e.code}]: ${e.message}`);
         }
       }
-      process.stdout.write(opts.json ? toJsonText(records) : lines.join('\n') + '\n');
+      process.stdout.write(opts.json ? toJsonText(records) : printableLines(lines.join('\n')) + '\n');
       if (failed > 0) process.exitCode = 1;
     });
 }
