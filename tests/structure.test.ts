@@ -25,12 +25,10 @@ const SRC = join(ROOT, 'src');
  * breaks a rule is reported (console) so it can go.
  */
 const ALLOW: readonly string[] = [
-  'src/app/', // web app and its worker: restructured in the app issue
-  'src/cli/batch/', // batch machinery: hardened separately
-  'src/core/render/', // synthetic fractograph renderer: reworked separately
-  'src/core/decode/', // decoders: hardened separately
-  'src/cli/main.ts', // entry point: hardened with the batch work
-  'src/cli/io.ts', // file input/output: hardened with the batch work
+  'src/app/', // web app and its worker: restructured in the app issue (import.meta.glob, any, App 575 lines, own caution)
+  'src/cli/batch/', // batch machinery: pipeline-processor.ts file name, Record<string, unknown> in record parsing
+  // src/core/render/, src/core/decode/, src/cli/main.ts and src/cli/io.ts were listed too; since
+  // their work was merged they break no rule and are checked like the rest.
 ];
 
 const MAX_RECORD_UNKNOWN = 12;
@@ -137,8 +135,8 @@ describe('the structure checks find what they look for', () => {
   });
   it('the allow-list covers exactly the listed files and folders', () => {
     expect(allowed('src/app/App.tsx')).toBe(true);
-    expect(allowed('src/cli/io.ts')).toBe(true);
-    expect(allowed('src/cli/iox.ts')).toBe(false);
+    expect(allowed('src/cli/batch/pool.ts')).toBe(true);
+    expect(allowed('src/cli/batchx.ts')).toBe(false);
     expect(allowed('src/core/pipeline/analyse.ts')).toBe(false);
   });
 });
