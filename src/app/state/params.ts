@@ -4,6 +4,7 @@
  */
 import type { MaterialParams, MeasureParams, ScaleParams } from '../../core/pipeline/types.js';
 import { defaultParams } from '../../core/pipeline/params.js';
+import { checkFeatureNames } from '../../core/texture/registry.js';
 import type { Doc, MaterialForm, Outline } from './document.js';
 import type { PointPx } from '../../core/pipeline/types.js';
 
@@ -68,7 +69,7 @@ export function paramsOf(doc: Doc, opts: { withBoundary?: boolean } = {}): Measu
   const p = baseParams();
   p.scale = scaleParamsOf(doc);
   p.windowUm = doc.settings.windowUm;
-  p.features = [...doc.settings.features];
+  p.features = checkFeatureNames(doc.settings.features);
   p.nRays = doc.settings.nRays;
   p.dropOutliers = doc.settings.dropOutliers;
   p.outlierK = doc.settings.outlierK;
