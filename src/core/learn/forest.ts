@@ -1,6 +1,6 @@
 /**
  * A random forest classifier (Breiman, Machine Learning 45, 2001) for per-pixel class probabilities:
- * CART trees grown on bootstrap samples with the Gini impurity, a random subset of √F features tried
+ * CART trees grown on class-balanced bootstrap samples with the Gini impurity, a random subset of √F features tried
  * at every split, leaves holding class distributions; the forest's probability is the mean of its
  * trees' leaf distributions (soft voting); out-of-bag accuracy from the trees that did not see a sample.
  *
@@ -17,7 +17,8 @@
  *   prediction needs no binning and gives exactly the training-time decisions;
  * - every random draw (bootstrap, feature subsets) comes from one seeded mulberry32 stream
  *   (core/random.ts): the same samples and seed give the same trees, bit for bit;
- * - class weights balance the classes (each class weighs as much as the others in total);
+ * - each tree's bootstrap draws from every class as many samples as the smallest class has (a
+ *   balanced random forest), so a class with few labelled pixels weighs as much as a common one;
  * - the trees are stored flat (typed arrays of feature, threshold, children, leaf distribution)
  *   and prediction walks all trees for one sample at a time.
  */
@@ -267,11 +268,13 @@ export function trainForest(X: Float32Array, y: Uint8Array, nFeatures: number, n
   const edges = Array.from({ length: F }, (_, f) => binEdges(X, n, F, f));
   const bins = new Uint8Array(n * F);
   for (let i = 0; i < n; i++) for (let f = 0; f < F; f++) bins[i * F + f] = binOf(edges[f], X[i * F + f]);
-  // class weights: every class weighs n/C in total
-  const count = new Float64Array(C);
-  for (let i = 0; i < n; i++) count[y[i]]++;
-  const w = new Float64Array(n);
-  for (let i = 0; i < n; i++) w[i] = n / (C * count[y[i]]);
+  // balanced bootstrap (Chen, Liaw & Breiman 2004, "balanced random forest"): every tree draws as
+  // many samples of each class, with replacement, as the smallest class has, so a rare class weighs
+  // as much as a common one and every class keeps out-of-bag samples
+  const members: Int32Array[] = Array.from({ length: C }, (_, c) => Int32Array.from(Array.from(y.keys()).filter((i) => y[i] === c)));
+  const present = members.filter((m) => m.length > 0);
+  const perClass = Math.min(...present.map((m) => m.length));
+  const w = new Float64Array(n).fill(1);
   const full: Required<ForestOptions> = { ...opts, mtry: Math.max(1, Math.min(F, opts.mtry ?? Math.ceil(Math.sqrt(F)))) };
   const d: TreeData = { bins, edges, y, w, F, C };
   const store = new NodeStore(C);
@@ -279,14 +282,17 @@ export function trainForest(X: Float32Array, y: Uint8Array, nFeatures: number, n
   const roots = new Int32Array(opts.nTrees);
   const oobVotes = new Float64Array(n * C);
   const inBag = new Uint8Array(n);
-  const idx = new Int32Array(n);
+  const idx = new Int32Array(perClass * present.length);
   const x = new Float32Array(F);
   for (let t = 0; t < opts.nTrees; t++) {
     inBag.fill(0);
-    for (let k = 0; k < n; k++) {
-      const i = rng.int(n);
-      idx[k] = i;
-      inBag[i] = 1;
+    let k = 0;
+    for (const m of present) {
+      for (let j = 0; j < perClass; j++) {
+        const i = m[rng.int(m.length)];
+        idx[k++] = i;
+        inBag[i] = 1;
+      }
     }
     roots[t] = growTree(d, idx, store, full, rng);
     for (let i = 0; i < n; i++) {

@@ -39,7 +39,7 @@ import { warn, type Warning } from '../warnings.js';
 import { featureCentre, windowPxAt } from './features.js';
 import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
 
-/** Boundary confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
+/** Boundary or outer-edge confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
 export const MIN_MODEL_CONFIDENCE = 0.75;
 
 /** Input of {@link segmentWithModel}. */
@@ -438,6 +438,8 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   const boundaryConf = sideConfidence(p.core, p.rim, p.width, p.height, centre, b, () => w / 2, halfBand);
   if (boundaryConf !== null && boundaryConf < MIN_MODEL_CONFIDENCE) {
     warnings.push(warn('LOW_MODEL_CONFIDENCE', `the model is unsure along the boundary it gives: mean class probability ${boundaryConf.toFixed(2)} < ${MIN_MODEL_CONFIDENCE}`));
+  } else if (edgeConf < MIN_MODEL_CONFIDENCE) {
+    warnings.push(warn('LOW_MODEL_CONFIDENCE', `the model is unsure along the outer edge it gives: mean class probability ${edgeConf.toFixed(2)} < ${MIN_MODEL_CONFIDENCE}`));
   }
   const boundary: RimBoundary = { source: 'auto', polygon: polygonOf(b, centre, nRays).map((pt) => frame.toFull(pt)), detected: true, separability: rimCore.separability };
   return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: boundaryConf, outerEdge: edgeConf }, warnings };

@@ -31,7 +31,7 @@ export interface StrokeOptions {
   widthPx?: number;
   /** Distance of the strokes from the edges they follow, px (default 3). */
   marginPx?: number;
-  /** Arc length of each stroke, degrees (default 30). */
+  /** Arc length of each stroke, degrees (default 18). */
   arcDeg?: number;
   /** Start angles of the strokes, degrees (default 20, 140, 260: three strokes per class line). */
   startsDeg?: readonly number[];
@@ -76,7 +76,7 @@ function arcs(g: StrokeGeometry, m: number, arcDeg: number, starts: readonly num
 export function strokeLabels(g: StrokeGeometry, opts: StrokeOptions = {}): LabelRaster {
   const half = (opts.widthPx ?? 2) / 2;
   const data = new Uint8Array(g.width * g.height);
-  for (const a of arcs(g, opts.marginPx ?? 3, opts.arcDeg ?? 30, opts.startsDeg ?? [20, 140, 260])) {
+  for (const a of arcs(g, opts.marginPx ?? 3, opts.arcDeg ?? 18, opts.startsDeg ?? [20, 140, 260])) {
     const rMax = Math.max(...g.outerRadiusPx) * 1.6 + 10;
     const step = 0.5 / rMax; // radians: ≤ 0.5 px along the arc
     for (let t = (a.fromDeg * Math.PI) / 180; t <= (a.toDeg * Math.PI) / 180; t += step) {
