@@ -61,8 +61,8 @@ async function concatRest(
   return b.slice(0, n).buffer;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type CvRuntime = any;
+/** The initialised Emscripten module object (untyped JavaScript; core's cv.ts describes what it calls). */
+type CvRuntime = Record<string, unknown>;
 
 /** Loads and initialises OpenCV; resolves with the runtime object (wrapped, because it is thenable). */
 export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): Promise<{ cv: CvRuntime }> {
