@@ -55,8 +55,8 @@ function viewOf(r: MeasureResult): ResultView {
   };
 }
 
-/** The card of the image as the batch report draws it. */
-function entryOf(r: MeasureResult): BatchEntry {
+/** One result as the batch tables and cards see it (the CSV row of a single image comes from this too). */
+export function imageEntry(r: MeasureResult): BatchEntry {
   return {
     file: r.input.file,
     safeName: 'image',
@@ -186,7 +186,7 @@ export function buildImageReportHtml(input: ImageReportInput): string {
 <p class="verdict">${headline(r)}</p>
 ${notes.length ? `<ul class="notes">${notes.map((s) => `<li>${esc(s)}</li>`).join('')}</ul>` : ''}
 <h2>Image, overlay and width profile</h2>
-${card(entryOf(r), input.overlayDataUrl ?? undefined)}
+${card(imageEntry(r), input.overlayDataUrl ?? undefined)}
 <h2>Inputs</h2>
 ${rows(measurementInputs(r))}
 ${rows(materialInputs(r))}

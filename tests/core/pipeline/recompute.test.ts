@@ -8,6 +8,7 @@ import { renderFractograph } from '../../../src/core/render/index.js';
 import { encodeGrayRaster } from '../../../src/core/encode/index.js';
 import { analyseImage, defaultParams, type MeasureParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
 import { OUTLINE_EDITED_WARNING, fullRunReason, recompute, scaleFor } from '../../../src/core/pipeline/recompute.js';
+import { expectSameResult } from '../../helpers/sameResult.js';
 
 let bytes: Uint8Array;
 let barLengthUm: number;
@@ -28,43 +29,9 @@ function outcome(base: MeasureResult, p: MeasureParams, outline: { x: number; y:
   return o.result;
 }
 
-/** Fields converted from rounded stored values (see recompute.ts): equal to relative 1e-5. */
-const ROUNDED: string[][] = [
-  ['specimen', 'radiusUm'],
-  ['specimen', 'circle', 'radiusUm'],
-  ['specimen', 'ellipse', 'semiMajorUm'],
-  ['specimen', 'ellipse', 'semiMinorUm'],
-  ['specimen', 'areaMm2'],
-  ['specimen', 'equivalentRadiusUm'],
-  ['resolved', 'windowUm'],
-  ['scale', 'detectedBar', 'umPerPx'],
-];
-
-type Json = { [k: string]: unknown };
-
-function at(o: unknown, path: string[]): Json | null {
-  let cur = o;
-  for (const k of path.slice(0, -1)) cur = cur && typeof cur === 'object' ? (cur as Json)[k] : undefined;
-  return cur && typeof cur === 'object' ? (cur as Json) : null;
-}
-
 /** Equal apart from wall-clock diagnostics, with the rounded fields compared to relative 1e-5. */
 function expectSame(got: MeasureResult, want: MeasureResult): void {
-  const a = structuredClone(got) as unknown as Json;
-  const b = structuredClone(want) as unknown as Json;
-  delete a.diagnostics;
-  delete b.diagnostics;
-  for (const path of ROUNDED) {
-    const pa = at(a, path);
-    const pb = at(b, path);
-    const key = path[path.length - 1];
-    if (!pa || !pb || typeof pa[key] !== 'number' || typeof pb[key] !== 'number') continue;
-    const va = pa[key] as number;
-    const vb = pb[key] as number;
-    expect(Math.abs(va - vb), path.join('.')).toBeLessThanOrEqual(1e-5 * Math.abs(vb) + 1e-3);
-    pa[key] = vb;
-  }
-  expect(a).toEqual(b);
+  expectSameResult(got, want);
 }
 
 beforeAll(() => {

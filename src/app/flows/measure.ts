@@ -1,0 +1,103 @@
+/** Measuring: the scale bar, the full run ("Find boundary"), the texture map. */
+import { canonicalJson, WORKING_LONG_SIDE_PX } from '../../core/pipeline/index.js';
+import { defaultWindowUm, windowPxFromUm } from '../../core/texture/window.js';
+import { FEATURES, type FeatureName } from '../../core/texture/registry.js';
+import { derive, say } from '../state/store.js';
+import { apply } from '../state/actions/types.js';
+import { applyScaleBar } from '../state/actions/scale.js';
+import { runDone } from '../state/actions/edit.js';
+import { paramsOf } from '../state/results.js';
+import { scaleOf, umPerPxOf } from '../state/scale.js';
+import type { Doc } from '../state/document.js';
+import { wordsOf, type FlowContext } from './context.js';
+
+let runCounter = 0;
+
+const docOf = (ctx: FlowContext, id: string): Doc | undefined => ctx.get().docs.find((d) => d.id === id);
+
+/** Looks for the scale bar (once per image) and uses it with the printed length typed. */
+export async function findBar(ctx: FlowContext, id: string, lengthUm: number | null): Promise<void> {
+  const d = docOf(ctx, id);
+  if (!d) return;
+  try {
+    const bar = d.bar === undefined ? await ctx.engine.request({ type: 'detectBar', docId: id }) : d.bar;
+    ctx.update((s) => {
+      const now = s.docs.find((x) => x.id === id);
+      return now ? apply(s, id, applyScaleBar(now, lengthUm, bar), 'scale') : s;
+    });
+  } catch (e) {
+    ctx.update((s) => say(s, id, 'scale', [{ level: 'error', text: wordsOf(e) }]));
+  } finally {
+    ctx.done();
+  }
+}
+
+/**
+ * The full measurement with the image's current inputs. It becomes the base of every later
+ * result; `keepEdits` keeps the corrected boundary and outline (reopening a session).
+ */
+export async function findBoundary(ctx: FlowContext, id: string, keepEdits = false): Promise<void> {
+  let d = docOf(ctx, id);
+  if (!d || d.busy) return;
+  if (d.scale.source === 'scale-bar' && d.bar === undefined) {
+    await findBar(ctx, id, d.scale.barLengthUm);
+    d = docOf(ctx, id);
+    if (!d) return;
+  }
+  const scale = scaleOf(d);
+  if (!scale.ok) {
+    ctx.update((s) => say(s, id, 'scale', [{ level: 'error', text: scale.problem }]));
+    return;
+  }
+  const params = paramsOf(d, ctx.get().series, { fullRun: true });
+  ctx.update((s) => say(derive(s, id, { busy: 'analysing' }), id, 'analysis', []));
+  try {
+    const result = await ctx.engine.request({ type: 'analyse', docId: id, params });
+    const runId = ++runCounter;
+    const key = canonicalJson({ base: runId, params, outline: null });
+    ctx.update((s) => {
+      const now = s.docs.find((x) => x.id === id);
+      if (!now) return s;
+      const next = apply(s, id, runDone(now, runId, result, keepEdits), 'analysis');
+      return derive(next, id, { busy: null, result, resultKey: key, materialError: null, refused: null });
+    });
+  } catch (e) {
+    ctx.update((s) => say(derive(s, id, { busy: null }), id, 'analysis', [{ level: 'error', text: wordsOf(e, d?.image.name) }]));
+  } finally {
+    ctx.done();
+  }
+}
+
+/** Human label of a texture feature (core's one-sentence description, capitalised). */
+export function featureLabel(f: FeatureName): string {
+  const s = FEATURES[f].description;
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+/** The texture window the measurement uses (or would use) on this image: µm and full-resolution px. */
+export function textureWindowOf(d: Doc): { um: number | null; px: number } {
+  const r = d.result ?? d.base?.result;
+  if (r) return { um: r.resolved.windowUm, px: r.resolved.windowPx };
+  const u = umPerPxOf(d);
+  const scaleFactor = Math.max(1, Math.max(d.image.widthPx, d.image.heightPx) / WORKING_LONG_SIDE_PX);
+  // core's default rule; without a scale it is applied in pixels (1 "µm" per px), the rule being scale-free
+  const um = defaultWindowUm({ umPerPx: u ?? 1, imageWidthPx: d.image.widthPx, imageHeightPx: d.image.heightPx, scaleFactor });
+  return { um: u === null ? null : um, px: windowPxFromUm(um, u ?? 1) };
+}
+
+/** Computes the texture map of a feature with the measurement's window and shows it over the image. */
+export async function showTexture(ctx: FlowContext, id: string, feature: FeatureName, toCanvas: (w: number, h: number, v: Uint8Array) => HTMLCanvasElement): Promise<void> {
+  const d = docOf(ctx, id);
+  if (!d) return;
+  const w = textureWindowOf(d);
+  try {
+    const t = await ctx.engine.request({ type: 'texture', docId: id, feature, windowPx: w.px });
+    const size = w.um !== null ? `${Number(w.um.toPrecision(4))} µm (${t.windowPx} px)` : `${t.windowPx} px`;
+    ctx.setTexture(id, { canvas: toCanvas(t.width, t.height, t.values), label: `${featureLabel(feature)} · window ${size}` });
+    ctx.update((s) => say(s, id, 'texture', []));
+  } catch (e) {
+    ctx.update((s) => say(s, id, 'texture', [{ level: 'error', text: wordsOf(e) }]));
+  } finally {
+    ctx.done();
+  }
+}
