@@ -96,10 +96,11 @@ export async function launchApp(opts: { path?: string; viewport?: { width: numbe
   };
 }
 
-/** Waits until the engine is ready and the bundled sample is open (the app's start-up). */
+/** Waits until the engine is ready and the bundled sample is open with its scale set (the app's start-up). */
 export async function waitForStart(page: Page): Promise<void> {
   await page.getByTestId('engine-status').filter({ hasText: 'self-test passed' }).waitFor({ timeout: 60_000 });
   await page.getByTestId('image-item').first().waitFor({ timeout: 30_000 });
+  await page.locator('[data-testid=scale-source][data-um-per-px]:not([data-um-per-px=""])').waitFor({ timeout: 30_000 });
 }
 
 /** Opens an image through the file input and waits until it is the shown image. */

@@ -1,29 +1,31 @@
 /** Measuring: the scale bar, the full run ("Find boundary"), the texture map. */
-import { canonicalJson, WORKING_LONG_SIDE_PX } from '../../core/pipeline/index.js';
+import { canonicalJson, WORKING_LONG_SIDE_PX, type MeasureParams } from '../../core/pipeline/index.js';
 import { defaultWindowUm, windowPxFromUm } from '../../core/texture/window.js';
 import { FEATURES, type FeatureName } from '../../core/texture/registry.js';
 import { derive, say } from '../state/store.js';
-import { apply } from '../state/actions/types.js';
+import { apply, quiet } from '../state/actions/types.js';
 import { applyScaleBar } from '../state/actions/scale.js';
 import { runDone } from '../state/actions/edit.js';
 import { paramsOf } from '../state/results.js';
 import { scaleOf, umPerPxOf } from '../state/scale.js';
-import type { Doc } from '../state/document.js';
+import type { Analysis, Doc } from '../state/document.js';
 import { wordsOf, type FlowContext } from './context.js';
 
 let runCounter = 0;
 
 const docOf = (ctx: FlowContext, id: string): Doc | undefined => ctx.get().docs.find((d) => d.id === id);
 
-/** Looks for the scale bar (once per image) and uses it with the printed length typed. */
-export async function findBar(ctx: FlowContext, id: string, lengthUm: number | null): Promise<void> {
+/** Looks for the scale bar (once per image) and uses it with the printed length typed; `setup` = no history entry. */
+export async function findBar(ctx: FlowContext, id: string, lengthUm: number | null, setup = false): Promise<void> {
   const d = docOf(ctx, id);
   if (!d) return;
   try {
     const bar = d.bar === undefined ? await ctx.engine.request({ type: 'detectBar', docId: id }) : d.bar;
     ctx.update((s) => {
       const now = s.docs.find((x) => x.id === id);
-      return now ? apply(s, id, applyScaleBar(now, lengthUm, bar), 'scale') : s;
+      if (!now) return s;
+      const c = applyScaleBar(now, lengthUm, bar);
+      return apply(s, id, setup ? quiet(c) : c, 'scale');
     });
   } catch (e) {
     ctx.update((s) => say(s, id, 'scale', [{ level: 'error', text: wordsOf(e) }]));
@@ -32,11 +34,23 @@ export async function findBar(ctx: FlowContext, id: string, lengthUm: number | n
   }
 }
 
+/** Runs the full measurement with `params` on image `id`; the run's identity and result. */
+export async function fullRun(ctx: FlowContext, id: string, params: MeasureParams): Promise<Analysis> {
+  const result = await ctx.engine.request({ type: 'analyse', docId: id, params });
+  return { id: ++runCounter, result };
+}
+
+/** The key of a full run's own inputs (see state/results.ts), so its result counts as current. */
+export function runKey(run: Analysis, params: MeasureParams): string {
+  return canonicalJson({ base: run.id, params, outline: null });
+}
+
 /**
- * The full measurement with the image's current inputs. It becomes the base of every later
- * result; `keepEdits` keeps the corrected boundary and outline (reopening a session).
+ * The full measurement with the image's current inputs ("Find boundary"). It becomes the base of
+ * every later result; corrections made by hand on the previous run are dropped (undo brings them
+ * back with the previous run).
  */
-export async function findBoundary(ctx: FlowContext, id: string, keepEdits = false): Promise<void> {
+export async function findBoundary(ctx: FlowContext, id: string): Promise<void> {
   let d = docOf(ctx, id);
   if (!d || d.busy) return;
   if (d.scale.source === 'scale-bar' && d.bar === undefined) {
@@ -52,14 +66,12 @@ export async function findBoundary(ctx: FlowContext, id: string, keepEdits = fal
   const params = paramsOf(d, ctx.get().series, { fullRun: true });
   ctx.update((s) => say(derive(s, id, { busy: 'analysing' }), id, 'analysis', []));
   try {
-    const result = await ctx.engine.request({ type: 'analyse', docId: id, params });
-    const runId = ++runCounter;
-    const key = canonicalJson({ base: runId, params, outline: null });
+    const run = await fullRun(ctx, id, params);
     ctx.update((s) => {
       const now = s.docs.find((x) => x.id === id);
       if (!now) return s;
-      const next = apply(s, id, runDone(now, runId, result, keepEdits), 'analysis');
-      return derive(next, id, { busy: null, result, resultKey: key, materialError: null, refused: null });
+      const next = apply(s, id, runDone(now, run), 'analysis');
+      return derive(next, id, { busy: null, result: run.result, resultKey: runKey(run, params), materialError: null, refused: null });
     });
   } catch (e) {
     ctx.update((s) => say(derive(s, id, { busy: null }), id, 'analysis', [{ level: 'error', text: wordsOf(e, d?.image.name) }]));

@@ -1,8 +1,8 @@
 /** Opening images (file picker, drop, the bundled invented sample). */
 import { newDoc, type Doc, type ImageInfo, type Series } from '../state/document.js';
-import { addDoc, derive, forgetHistory, notice, type AppState } from '../state/store.js';
+import { addDoc, derive, notice, type AppState } from '../state/store.js';
 import { parseMaterialSheet } from '../../core/tcd/materials.js';
-import { apply, type Change } from '../state/actions/types.js';
+import { apply, quiet, type Change } from '../state/actions/types.js';
 import { chooseSheetMaterial, ownMaterial, readSheet, setStrainRate } from '../state/actions/inputs.js';
 import { setTypedScale } from '../state/actions/scale.js';
 import { findBar } from './measure.js';
@@ -66,7 +66,7 @@ export async function openSample(ctx: FlowContext): Promise<void> {
     // the sample's own material: images opened later do not get the invented demo material
     const step = (s: AppState, f: (d: Doc, se: Series) => Change): AppState => {
       const d = s.docs.find((x) => x.id === id);
-      return d ? apply(s, id, f(d, s.series), 'material') : s;
+      return d ? apply(s, id, quiet(f(d, s.series)), 'material') : s;
     };
     ctx.update((s) => {
       const s1 = step(s, (d, se) => ownMaterial(d, se, true));
@@ -75,9 +75,8 @@ export async function openSample(ctx: FlowContext): Promise<void> {
     });
   }
   const d0 = doc();
-  if (d0 && info.strainRatePerS !== null) ctx.update((s) => apply(s, id, setStrainRate(d0, info.strainRatePerS), 'material'));
+  if (d0 && info.strainRatePerS !== null) ctx.update((s) => apply(s, id, quiet(setStrainRate(d0, info.strainRatePerS)), 'material'));
   const d1 = doc();
-  if (d1 && info.barLengthUm !== null) await findBar(ctx, id, info.barLengthUm);
-  else if (d1 && info.pixelSizeUm !== null) ctx.update((s) => apply(s, id, setTypedScale(d1, info.pixelSizeUm), 'scale'));
-  ctx.update((s) => forgetHistory(s, id));
+  if (d1 && info.barLengthUm !== null) await findBar(ctx, id, info.barLengthUm, true);
+  else if (d1 && info.pixelSizeUm !== null) ctx.update((s) => apply(s, id, quiet(setTypedScale(d1, info.pixelSizeUm)), 'scale'));
 }

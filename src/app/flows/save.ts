@@ -12,12 +12,12 @@ import { isFractozoneError } from '../../core/errors.js';
 import { materialOf, type Doc } from '../state/document.js';
 import { materialProblem } from '../state/material.js';
 import { paramsOf, resultStateOf } from '../state/results.js';
-import { say } from '../state/store.js';
+import { derive, say } from '../state/store.js';
 import { apply } from '../state/actions/types.js';
 import { readSheet } from '../state/actions/inputs.js';
 import { reopenSession } from '../state/actions/session.js';
 import { withoutCliHints } from '../state/words.js';
-import { findBoundary } from './measure.js';
+import { fullRun, runKey } from './measure.js';
 import { wordsOf, type FlowContext } from './context.js';
 
 export type ExportKind = 'json' | 'csv' | 'png' | 'html' | 'session';
@@ -102,14 +102,21 @@ export async function openSession(ctx: FlowContext, id: string, file: File): Pro
   if (!doc) return;
   try {
     const session = parseSession(await file.text(), { sha256: doc.image.sha256 });
+    // measured sessions are measured again first, so reopening is one step (and one undo)
+    const full = { ...session.params, boundaryPolygon: null };
+    if (session.measured) ctx.update((s) => derive(s, id, { busy: 'analysing' }));
+    const run = session.measured ? await fullRun(ctx, id, full) : null;
     ctx.update((s) => {
       const d = s.docs.find((x) => x.id === id);
-      return d ? apply(s, id, reopenSession(d, s.series, session, file.name), 'session') : s;
+      const next = d ? apply(s, id, reopenSession(d, s.series, session, file.name, run), 'session') : s;
+      return derive(next, id, run ? { busy: null, result: run.result, resultKey: runKey(run, full), refused: null } : { busy: null });
     });
-    if (session.measured) await findBoundary(ctx, id, true);
   } catch (e) {
+    ctx.update((s) => derive(s, id, { busy: null }));
     const text = isFractozoneError(e) ? `${file.name}: ${withoutCliHints(e.message)}` : wordsOf(e, file.name);
     ctx.update((s) => say(s, id, 'session', [{ level: 'error', text }]));
+  } finally {
+    ctx.done();
   }
 }
 

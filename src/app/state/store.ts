@@ -5,7 +5,7 @@
  */
 import type { FeatureName } from '../../core/texture/registry.js';
 import { newSeries, type Doc, type DocPatch, type Message, type MessageArea, type Series, type SeriesPatch } from './document.js';
-import { closeDrag, emptyHistory, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type HistoryMode } from './history.js';
+import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type HistoryMode } from './history.js';
 
 export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'outline' | 'scale-line';
 
@@ -80,11 +80,6 @@ export function say(s: AppState, id: string, area: MessageArea, messages: Omit<M
 /** Adds a message not tied to an image (the last 5 are kept). */
 export function notice(s: AppState, text: string): AppState {
   return { ...s, notices: [...s.notices, text].slice(-5) };
-}
-
-/** Starts the histories afresh (after a document's initial inputs were set up). */
-export function forgetHistory(s: AppState, id: string): AppState {
-  return { ...mapDoc(s, id, (d) => ({ ...d, history: emptyHistory() })), series: { ...s.series, history: emptyHistory() } };
 }
 
 /** Closes open drags (before undo/redo). */

@@ -14,8 +14,8 @@ import { ComparisonTable } from './ComparisonTable.js';
 import { num, type PanelProps } from './types.js';
 
 function ValueRow(p: { label: string; unit: string; value: TypedValue | null; fromSheet: { value: number; sd?: number } | null; testId: string; onCommit(v: TypedValue | null): void }) {
-  const sheetV = p.fromSheet ? `${num(p.fromSheet.value)} (sheet)` : '';
-  const sheetSd = p.fromSheet?.sd !== undefined ? `${num(p.fromSheet.sd)} (sheet)` : 'sd';
+  const sheetV = p.fromSheet ? num(p.fromSheet.value) : '';
+  const sheetSd = p.fromSheet?.sd !== undefined ? num(p.fromSheet.sd) : 'sd';
   return (
     <label className="field pair">
       <span>{p.label}</span>
@@ -58,7 +58,7 @@ function SheetRow(p: PanelProps & { form: MaterialForm }) {
       {mat && (
         <p className="hint">
           from {p.form.sheet?.file}
-          {mat.invented ? ' — invented demo data' : ''}; typed values below override the sheet’s.
+          {mat.invented ? ' — invented demo data' : ''}. Grey values are the sheet’s; a typed value overrides it.
         </p>
       )}
     </div>
@@ -88,13 +88,13 @@ export function MaterialPanel(p: PanelProps) {
       <ValueRow label="toughness K_c" unit="MPa·√m" value={form.toughness} fromSheet={mat?.fractureToughness ?? null} testId="kc" onCommit={(v) => set({ toughness: v })} />
       <ValueRow label="strength σ₀" unit="MPa" value={form.strength} fromSheet={mat?.inherentStrength ?? null} testId="sigma0" onCommit={(v) => set({ strength: v })} />
       <Field label="strain rate (this image)" unit="1/s">
-        <NumberField value={doc.strainRatePerS} placeholder="none (static)" testId="strain-rate" onCommit={(v) => act('material', (d) => setStrainRate(d, v))} />
+        <NumberField value={doc.strainRatePerS} placeholder="none" testId="strain-rate" onCommit={(v) => act('material', (d) => setStrainRate(d, v))} />
       </Field>
       <label className="field pair">
-        <span>rate law L = A·ε̇^B</span>
-        <span className="pair-inputs">
-          <NumberField value={form.rateLaw?.A ?? null} placeholder={law?.law === 'power' ? `${num(law.A)} (sheet)` : 'A, µm'} testId="law-a" onCommit={(A) => set({ rateLaw: A === null && (form.rateLaw?.B ?? null) === null ? null : { A, B: form.rateLaw?.B ?? null } })} />
-          <NumberField value={form.rateLaw?.B ?? null} placeholder={law?.law === 'power' ? `${num(law.B)} (sheet)` : 'B'} testId="law-b" onCommit={(B) => set({ rateLaw: B === null && (form.rateLaw?.A ?? null) === null ? null : { A: form.rateLaw?.A ?? null, B } })} />
+        <span title="strain-rate law for the critical distance">rate law L = A·ε̇^B</span>
+        <span className="pair-inputs two">
+          <NumberField value={form.rateLaw?.A ?? null} placeholder={law?.law === 'power' ? num(law.A) : 'A'} testId="law-a" onCommit={(A) => set({ rateLaw: A === null && (form.rateLaw?.B ?? null) === null ? null : { A, B: form.rateLaw?.B ?? null } })} />
+          <NumberField value={form.rateLaw?.B ?? null} placeholder={law?.law === 'power' ? num(law.B) : 'B'} testId="law-b" onCommit={(B) => set({ rateLaw: B === null && (form.rateLaw?.A ?? null) === null ? null : { A: form.rateLaw?.A ?? null, B } })} />
         </span>
         <span className="unit">µm</span>
       </label>

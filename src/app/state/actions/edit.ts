@@ -3,8 +3,8 @@
  * and the outcome of a full run. Drags pass `history: 'drag'` while moving and `'drag-end'` at
  * release, so a drag is one history entry.
  */
-import type { MeasureResult, PointPx } from '../../../core/pipeline/index.js';
-import { boundaryOf, centreOf, type Doc } from '../document.js';
+import type { PointPx } from '../../../core/pipeline/index.js';
+import { boundaryOf, centreOf, type Analysis, type Doc } from '../document.js';
 import type { HistoryMode } from '../history.js';
 import { brushBoundary, moveVertex, nearestVertex, pullBoundaryThrough, removeVertex } from '../geometry.js';
 import { fittedOutline, reshapeOutline, translatePolygon } from '../outline.js';
@@ -86,7 +86,6 @@ export function reshape(start: PointPx[], centre: PointPx, index: number, to: Po
  * A full run came back: it becomes the base of every later result; corrections made by hand on the
  * previous run are dropped (undo brings them back with the previous run).
  */
-export function runDone(doc: Doc, id: number, result: MeasureResult, keepEdits = false): Change {
-  const patch = keepEdits ? { base: { id, result } } : { base: { id, result }, boundary: null, outline: null };
-  return docEdit('find boundary', patch);
+export function runDone(doc: Doc, run: Analysis): Change {
+  return docEdit('find boundary', { base: run, boundary: null, outline: null });
 }

@@ -27,6 +27,13 @@ export function apply(s: AppState, docId: string, c: Change, area: MessageArea):
   return 'doc' in c ? derive(cleared, docId, { refused: null }) : cleared;
 }
 
+/** The same change without a history entry (inputs an app sets up itself, e.g. for the bundled sample). */
+export function quiet(c: Change): Change {
+  if ('doc' in c) return { doc: { ...c.doc, history: 'none' } };
+  if ('series' in c) return { series: { ...c.series, history: 'none' } };
+  return c;
+}
+
 /** A positive finite number from a text field, or null. */
 export function positiveNumber(v: number | null): number | null {
   return v !== null && Number.isFinite(v) && v > 0 ? v : null;
