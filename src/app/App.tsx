@@ -26,6 +26,7 @@ import { SavePanel } from './components/panels/SavePanel.js';
 import { Toolbar } from './components/Toolbar.js';
 import { HelpDialog } from './components/HelpDialog.js';
 import { ImageView } from './components/view/ImageView.js';
+import { Messages } from './components/Messages.js';
 
 /** Size of the element, kept up to date. */
 function useSize(): [React.RefObject<HTMLDivElement | null>, { w: number; h: number }] {
@@ -55,6 +56,11 @@ function Centre(p: { state: AppState; doc: Doc | null; update: Update; act: Act;
   return (
     <main className="centre">
       <Toolbar state={state} doc={doc} update={p.update} act={p.act} />
+      {doc && (
+        <div className="edit-messages">
+          <Messages doc={doc} area="edit" />
+        </div>
+      )}
       <div ref={ref} className="stage-area">
         {doc && p.flows.previews[doc.id] ? (
           <ImageView

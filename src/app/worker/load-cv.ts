@@ -61,8 +61,21 @@ async function concatRest(
   return b.slice(0, n).buffer;
 }
 
-/** The initialised Emscripten module object (untyped JavaScript; core's cv.ts describes what it calls). */
-type CvRuntime = Record<string, unknown>;
+/**
+ * The Emscripten module object we hand to opencv.js; once initialised it is the OpenCV runtime
+ * (its functions are added by opencv.js; core's cv.ts describes the ones the project calls).
+ */
+interface CvModule {
+  print(): void;
+  printErr(s: unknown): void;
+  locateFile(): string;
+  instantiateWasm(info: WebAssembly.Imports, receive: (i: WebAssembly.Instance, m: WebAssembly.Module) => void): WebAssembly.Exports;
+  onAbort(what: unknown): void;
+  onRuntimeInitialized?: () => void;
+  /** Emscripten makes the module thenable; removed before it is resolved. */
+  then?: unknown;
+}
+type CvRuntime = CvModule;
 
 /** Loads and initialises OpenCV; resolves with the runtime object (wrapped, because it is thenable). */
 export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): Promise<{ cv: CvRuntime }> {
@@ -70,7 +83,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
   onProgress('compiling OpenCV', 1);
   const compiled = await WebAssembly.compile(wasm);
   return new Promise((resolve, reject) => {
-    const mod: Record<string, unknown> = {
+    const mod: CvModule = {
       print: () => undefined,
       printErr: (s: unknown) => console.warn('[opencv]', s),
       locateFile: () => wasmUrl,
@@ -92,7 +105,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
       reject(new Error('unexpected opencv.js layout (Module declaration not found)'));
       return;
     }
-    const root: Record<string, unknown> = {};
+    const root: { cv?: unknown } = {};
     try {
       // The UMD wrapper sees: no module/exports/define, an importScripts stub → "Web worker" branch,
       // which stores the factory on `root.cv`; calling it initialises the runtime with our Module.
@@ -100,7 +113,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
       fn.call(root, mod, undefined, undefined, undefined, () => undefined);
       const factory = root.cv;
       if (typeof factory !== 'function') throw new Error('opencv.js did not expose its factory');
-      (factory as () => unknown)();
+      factory();
     } catch (e) {
       reject(e instanceof Error ? e : new Error(String(e)));
     }

@@ -4,7 +4,6 @@ import type { MeasureResult } from '../../../core/pipeline/index.js';
 import { histogramSvg, polarProfileSvg } from '../../../core/report/svg.js';
 import { resultStateOf, type ResultState } from '../../state/results.js';
 import { withoutCliHints } from '../../state/words.js';
-import { Messages } from '../Messages.js';
 import { num, type PanelProps } from './types.js';
 
 function Banner({ rs, result }: { rs: ResultState; result: MeasureResult | null }) {
@@ -96,7 +95,6 @@ export function ResultsPanel(p: PanelProps) {
           ))}
         </ul>
       )}
-      <Messages doc={p.doc} area="edit" />
     </section>
   );
 }
