@@ -42,7 +42,7 @@ export function AnalysisPanel(p: PanelProps) {
             <li key={i}>
               excluded {num(a)}° → {num(b)}°{' '}
               <button className="link" onClick={() => act('edit', (d) => removeSector(d, i))}>
-                measure again
+                include again
               </button>
             </li>
           ))}
