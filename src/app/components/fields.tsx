@@ -89,3 +89,23 @@ export function Field(p: { label: ReactNode; unit?: string; children: ReactNode;
     </label>
   );
 }
+
+/** A button that opens the file picker; the input is cleared after each choice, so the same file can be chosen again. */
+export function FileButton(p: { label: ReactNode; accept: string; testId?: string; multiple?: boolean; onFiles(files: File[]): void }) {
+  return (
+    <label className="file-button">
+      {p.label}
+      <input
+        type="file"
+        multiple={p.multiple}
+        accept={p.accept}
+        data-testid={p.testId}
+        onChange={(e) => {
+          const files = Array.from(e.target.files ?? []);
+          e.target.value = '';
+          if (files.length) p.onFiles(files);
+        }}
+      />
+    </label>
+  );
+}

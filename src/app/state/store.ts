@@ -5,7 +5,7 @@
  */
 import type { FeatureName } from '../../core/texture/registry.js';
 import { newSeries, type Doc, type DocPatch, type Message, type MessageArea, type Series, type SeriesPatch } from './document.js';
-import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type HistoryMode } from './history.js';
+import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type History, type HistoryMode } from './history.js';
 
 export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'outline' | 'scale-line';
 
@@ -103,31 +103,28 @@ export function canRedo(s: AppState): boolean {
   return Boolean(s.series.history.redo.length || (d && d.history.redo.length));
 }
 
-/** Undoes the latest edit of the shown image or of the series. */
-export function undo(s0: AppState): AppState {
-  const s = closeDrags(s0);
+type Take = <P>(h: History<P>, stamp: number) => { patch: P; history: History<P> } | null;
+
+/** Applies `take` (undo or redo) to the history whose last entry is the latest: the shown image's or the series'. */
+function travel(s: AppState, take: Take, last: (h: History<DocPatch> | History<SeriesPatch>) => number): AppState {
   const d = activeDoc(s);
   const stamp = s.seq + 1;
-  const fromDoc = d !== null && lastUndoSeq(d.history) > lastUndoSeq(s.series.history);
-  if (d && fromDoc) {
-    const t = takeUndo(d.history, stamp);
+  if (d && last(d.history) > last(s.series.history)) {
+    const t = take(d.history, stamp);
     return t ? { ...mapDoc(s, d.id, (x) => ({ ...x, ...t.patch, history: t.history })), seq: stamp } : s;
   }
-  const t = takeUndo(s.series.history, stamp);
+  const t = take(s.series.history, stamp);
   return t ? { ...s, series: { ...s.series, ...t.patch, history: t.history }, seq: stamp } : s;
+}
+
+/** Undoes the latest edit of the shown image or of the series. */
+export function undo(s: AppState): AppState {
+  return travel(closeDrags(s), takeUndo, lastUndoSeq);
 }
 
 /** Redoes the latest undone edit of the shown image or of the series. */
 export function redo(s: AppState): AppState {
-  const d = activeDoc(s);
-  const stamp = s.seq + 1;
-  const fromDoc = d !== null && lastRedoSeq(d.history) > lastRedoSeq(s.series.history);
-  if (d && fromDoc) {
-    const t = takeRedo(d.history, stamp);
-    return t ? { ...mapDoc(s, d.id, (x) => ({ ...x, ...t.patch, history: t.history })), seq: stamp } : s;
-  }
-  const t = takeRedo(s.series.history, stamp);
-  return t ? { ...s, series: { ...s.series, ...t.patch, history: t.history }, seq: stamp } : s;
+  return travel(s, takeRedo, lastRedoSeq);
 }
 
 /** Adds a document and shows it (opening is not an undoable edit). */

@@ -3,6 +3,7 @@ import type { AppState } from '../../state/store.js';
 import { removeDoc } from '../../state/store.js';
 import { resultStateOf } from '../../state/results.js';
 import type { Update } from '../../hooks/useStore.js';
+import { FileButton } from '../fields.js';
 
 export interface ImagesPanelProps {
   state: AppState;
@@ -17,20 +18,7 @@ export function ImagesPanel({ state, update, onOpen, onClose }: ImagesPanelProps
   return (
     <section>
       <h2>Images</h2>
-      <label className="file-button">
-        Open images…
-        <input
-          type="file"
-          multiple
-          accept=".png,.jpg,.jpeg,.tif,.tiff,image/png,image/jpeg,image/tiff"
-          data-testid="file-input"
-          onChange={(e) => {
-            const files = Array.from(e.target.files ?? []);
-            e.target.value = '';
-            if (files.length) onOpen(files);
-          }}
-        />
-      </label>
+      <FileButton label="Open images…" multiple accept=".png,.jpg,.jpeg,.tif,.tiff,image/png,image/jpeg,image/tiff" testId="file-input" onFiles={onOpen} />
       <span className="hint"> or drop files on the window</span>
       <ul className="doc-list" data-testid="doc-list">
         {state.docs.map((d) => {

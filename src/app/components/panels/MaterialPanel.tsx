@@ -8,7 +8,7 @@ import { materialProblem, sheetMaterial } from '../../state/material.js';
 import { chooseSheetMaterial, ownMaterial, setMaterial, setStrainRate } from '../../state/actions/inputs.js';
 import { resultStateOf } from '../../state/results.js';
 import { withoutCliHints } from '../../state/words.js';
-import { Field, NumberField } from '../fields.js';
+import { Field, FileButton, NumberField } from '../fields.js';
 import { Messages } from '../Messages.js';
 import { ComparisonTable } from './ComparisonTable.js';
 import { num, type PanelProps } from './types.js';
@@ -33,19 +33,7 @@ function SheetRow(p: PanelProps & { form: MaterialForm }) {
   const mat: Material | null = sheetMaterial(p.form);
   return (
     <div className="sheet">
-      <label className="file-button">
-        {p.form.sheet ? 'Another material sheet…' : 'Read a material sheet…'}
-        <input
-          type="file"
-          accept=".json,.csv,application/json,text/csv"
-          data-testid="material-sheet"
-          onChange={(e) => {
-            const f = e.target.files?.[0];
-            e.target.value = '';
-            if (f) p.flows.openMaterialSheet(f);
-          }}
-        />
-      </label>
+      <FileButton label={p.form.sheet ? 'Another material sheet…' : 'Read a material sheet…'} accept=".json,.csv,application/json,text/csv" testId="material-sheet" onFiles={([f]) => p.flows.openMaterialSheet(f)} />
       {p.form.sheet && (
         <select value={p.form.sheet.chosen} data-testid="material-choice" onChange={(e) => p.act('material', (d, s) => chooseSheetMaterial(d, s, p.form, e.target.value))}>
           {p.form.sheet.materials.map((m) => (

@@ -1,6 +1,7 @@
 /** Save: result JSON, CSV row, overlay PNG, HTML report (only when the result is current), session files. */
 import { resultStateOf } from '../../state/results.js';
 import { Messages } from '../Messages.js';
+import { FileButton } from '../fields.js';
 import type { PanelProps } from './types.js';
 
 export function SavePanel(p: PanelProps) {
@@ -27,19 +28,7 @@ export function SavePanel(p: PanelProps) {
         <button onClick={() => p.flows.save('session')} data-testid="export-session" title="The image's inputs and corrections, to take the work up again">
           Save session
         </button>
-        <label className="file-button">
-          Reopen session…
-          <input
-            type="file"
-            accept=".json,application/json"
-            data-testid="open-session"
-            onChange={(e) => {
-              const f = e.target.files?.[0];
-              e.target.value = '';
-              if (f) p.flows.openSession(f);
-            }}
-          />
-        </label>
+        <FileButton label="Reopen session…" accept=".json,application/json" testId="open-session" onFiles={([f]) => p.flows.openSession(f)} />
       </div>
       <Messages doc={p.doc} area="save" />
       <Messages doc={p.doc} area="session" />
