@@ -93,6 +93,16 @@ describe.skipIf(SKIP_E2E)('several images in one session', () => {
     await waitCurrent(page);
     await expect.poll(async () => Number(await page.getByTestId('l-um').getAttribute('data-value'))).toBeCloseTo(L, 6);
     expect(await page.getByTestId('material-problem').count()).toBe(0);
+
+    // B's own material from the sample sheet (K_c 48 ± 2.5, σ0 1150 ± 45): L with a 95 % interval
+    await page.getByTestId('material-scope').selectOption('own');
+    await page.getByTestId('material-sheet').setInputFiles(join(repoRoot, 'samples/materials.json'));
+    await expect.poll(() => page.getByTestId('material-choice').inputValue()).toBe('FZ-7 (invented alloy)');
+    await waitCurrent(page);
+    await expect.poll(() => page.getByTestId('tcd-table').textContent()).toMatch(/95 % interval of L\d+(\.\d+)? – \d+(\.\d+)? µm/);
+    // A keeps the series material (typed values, no sd): no interval there
+    await showImage(page, 'invented-a.png');
+    expect(await page.getByTestId('material-scope').inputValue()).toBe('series');
   });
 
   it('a change that needs a full run marks the result out of date and turns saving off', async () => {
