@@ -118,6 +118,12 @@ describe.skipIf(SKIP_E2E)('several images in one session', () => {
     await waitCurrent(page);
     expect(await page.getByTestId('export-json').isDisabled()).toBe(false);
 
+    // a letter shortcut typed in a number field is not swallowed: it leaves the field and acts
+    await page.getByTestId('rays').click();
+    await page.keyboard.press('x');
+    expect(await page.getByTestId('tool-remove-vertex').getAttribute('class')).toBe('on');
+    expect(await page.getByTestId('rays').inputValue()).toBe('360');
+
     expect(s.consoleErrors).toEqual([]);
     expect(s.foreignRequests).toEqual([]);
   });
