@@ -82,11 +82,83 @@ describe('fractozone render', () => {
     }
   });
 
+  it('scene-element flags: a colour PNG with a U flank, paper and a shadow; the truth of the fracture surface is unchanged', () => {
+    const base = ['--size', '400x300', '--pixel-size', '25um', '--seed', '4', '--no-bar'];
+    const plainOut = join(dir, 'e0.png');
+    const out = join(dir, 'e1.png');
+    expect(run(['render', '--out', plainOut, ...base]).code).toBe(0);
+    const r = run(['render', '--out', out, ...base, '--flank', 'U', '--flank-ratio', '1.25', '--background', 'paper', '--shadow', '--colour', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.colour).toBe(true);
+    expect(j.sceneElements).toEqual(['flank:U', 'holder:paper', 'shadow', 'colour']);
+    const png = decodePng(readFileSync(out));
+    expect(png.channels).toBe(3);
+    const t = JSON.parse(readFileSync(join(dir, 'e1.truth.json'), 'utf8'));
+    const t0 = JSON.parse(readFileSync(join(dir, 'e0.truth.json'), 'utf8'));
+    expect(t.band).toEqual(t0.band);
+    expect(t.outerRadiusPxByAngle).toEqual(t0.outerRadiusPxByAngle);
+    expect(t.scene.flank.barDiameterUm).toBe(6250);
+    expect(t0.scene).toBeUndefined();
+  });
+
+  it('--scene starts from a named scene (typed options override it); --list-scenes lists the set', () => {
+    const list = run(['render', '--list-scenes']);
+    expect(list.code).toBe(0);
+    expect(list.stdout).toMatch(/^plain +the typical specimen/m);
+    expect(list.stdout).toMatch(/^halves-rule +/m);
+    const out = join(dir, 'h.png');
+    const r = run(['render', '--scene', 'halves', '--out', out, '--seed', '9', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(JSON.parse(r.stdout).specimens).toBe(2);
+    const t = JSON.parse(readFileSync(join(dir, 'h.truth.json'), 'utf8'));
+    expect(t.seed).toBe(9);
+    expect(t.umPerPxX).toBe(14); // from the scene
+    expect(t.sceneSet.name).toBe('halves');
+    expect(t.specimens.map((s: { id: string }) => s.id)).toEqual(['A', 'B']);
+  });
+
+  it('--scene-set DIR --only writes those scenes with truth files and scenes.json', () => {
+    const set = join(dir, 'set');
+    const r = run(['render', '--scene-set', set, '--only', 'plain,label', '--json']);
+    expect(r.code, r.stderr).toBe(0);
+    const index = JSON.parse(readFileSync(join(set, 'scenes.json'), 'utf8'));
+    expect(index.schema).toBe('fractozone.scene-set/1');
+    expect(index.scenes.map((s: { name: string }) => s.name)).toEqual(['plain', 'label']);
+    for (const s of index.scenes) {
+      expect(sha(join(set, s.file))).toBe(s.sha256);
+      const t = JSON.parse(readFileSync(join(set, s.truth), 'utf8'));
+      expect(t.sceneSet.name).toBe(s.name);
+      expect(t.band.meanWidthUm).toBe(s.meanWidthUm);
+    }
+  });
+
+  it('bad scene options → exit 2 with one line', () => {
+    const cases: [string[], RegExp][] = [
+      [['render', '--out', join(dir, 'x.png'), '--scene', 'nope'], /unknown scene "nope"/],
+      [['render', '--out', join(dir, 'x.png'), '--flank', 'W'], /--flank must be V or U/],
+      [['render', '--out', join(dir, 'x.png'), '--flank', 'V', '--flank-ratio', '9'], /--flank-ratio must be between/],
+      [['render', '--out', join(dir, 'x.png'), '--colour', '--bit-depth', '16'], /8-bit PNG only/],
+      [['render', '--out', join(dir, 'x.png'), '--scene-set', join(dir, 'y')], /either --out FILE or --scene-set DIR/],
+      [['render', '--scene-set', join(dir, 'y'), '--only', 'nope'], /unknown scene "nope" in --only/],
+      [['render', '--size', '100x100'], /--out FILE.png\|.jpg\|.tif is required/],
+      [['render', '--out', join(dir, 'x.png'), '--size', '400x300', '--pixel-size', '25um', '--rule', 'top', '--no-bar', '--diameter', '6.5mm'], /steel rule .* would cover the specimen/],
+    ];
+    for (const [args, msg] of cases) {
+      const r = run(args);
+      expect(r.code, args.join(' ')).toBe(2);
+      expect(r.stderr).toMatch(msg);
+      expect(r.stderr.trim().split('\n').length).toBe(1);
+      expect(r.stdout).toBe('');
+    }
+  });
+
   it('--help lists the options', () => {
     const r = run(['render', '--help']);
     expect(r.code).toBe(0);
     expect(r.stdout).toMatch(/--band-width/);
     expect(r.stdout).toMatch(/--equal-brightness/);
+    for (const flag of ['--scene ', '--scene-set', '--flank ', '--shadow', '--sem-strip', '--glints', '--colour', '--defocus', '--halves', '--rule', '--label']) expect(r.stdout).toContain(flag);
   });
 });
 

@@ -40,3 +40,39 @@ export function gaussianBlurInPlace(data: Float32Array, width: number, height: n
     }
   }
 }
+
+/**
+ * Blur with a σ that varies per pixel (depth of field): the image is blurred at K + 1 evenly spaced
+ * levels σ_k = k·maxSigma/K (K = ⌈maxSigma / 0.6⌉; each level from the previous one by a blur of
+ * σ = √(σ_k² − σ_(k−1)²), the semigroup property of the Gaussian) and each pixel interpolates linearly
+ * between the two levels around its own σ (a layered approximation of a spatially varying Gaussian;
+ * common practice, no source). In place.
+ * @param sigmaPx per-pixel σ in px (same layout as `data`), clamped to [0, maxSigmaPx]
+ */
+export function variableBlurInPlace(data: Float32Array, width: number, height: number, sigmaPx: Float32Array, maxSigmaPx: number): void {
+  if (!(maxSigmaPx > 0)) return;
+  const K = Math.max(1, Math.ceil(maxSigmaPx / 0.6));
+  const step = maxSigmaPx / K;
+  const n = width * height;
+  let top = 0; // highest level any pixel needs
+  for (let i = 0; i < n; i++) {
+    const v = sigmaPx[i];
+    const s = v < 0 ? 0 : v > maxSigmaPx ? maxSigmaPx : v;
+    const k = Math.ceil(s / step - 1e-9);
+    if (k > top) top = k;
+  }
+  if (top === 0) return;
+  const level = data.slice();
+  const acc = new Float32Array(n);
+  for (let k = 0; k <= top; k++) {
+    const sk = k * step;
+    if (k > 0) gaussianBlurInPlace(level, width, height, Math.sqrt(sk * sk - (sk - step) * (sk - step)));
+    for (let i = 0; i < n; i++) {
+      const v = sigmaPx[i];
+      const s = v < 0 ? 0 : v > maxSigmaPx ? maxSigmaPx : v;
+      const w = 1 - Math.abs(s - sk) / step;
+      if (w > 0) acc[i] += w * level[i];
+    }
+  }
+  data.set(acc);
+}

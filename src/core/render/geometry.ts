@@ -6,6 +6,9 @@
  * the tilt-axis frame, stretch the foreshortened direction by 1/cos(tilt), rotate back. The outline
  * radius R(α) and band width w(α) are functions of the specimen angle α = atan2(Y, X), tabulated
  * once (LUT, linear interpolation) and used identically by renderer and truth.
+ *
+ * A {@link Placement} puts a specimen elsewhere in the frame: its own centre, a mirror image (the
+ * mating half of a broken bar) and a rotation about its centre, with small extra band-width terms.
  */
 import type { Harmonic, ResolvedRenderOptions } from './options.js';
 
@@ -27,6 +30,32 @@ export interface Geometry {
   readonly widthLut: Float64Array;
   readonly bandPresent: boolean;
   readonly transitionUm: number;
+  /** +1, or −1 for a mating half (its relief is the complement of the first half's) */
+  readonly heightSign: 1 | -1;
+}
+
+/** Where and how a specimen sits in the frame (defaults: canvas centre, not mirrored, not rotated). */
+export interface Placement {
+  /** centre, px */
+  readonly cx: number;
+  readonly cy: number;
+  /** mirror image (x → −x on the specimen plane) with the complementary relief */
+  readonly mirror: boolean;
+  /** rotation of the specimen about its centre, degrees (counter-clockwise on screen) */
+  readonly rotationDeg: number;
+  /** extra relative band-width terms (small differences between mating halves) */
+  readonly widthHarmonics: readonly Harmonic[];
+}
+
+/** The placement of a single specimen: its given centre or the centre of the image area. */
+export function defaultPlacement(o: ResolvedRenderOptions, areaHeightPx = o.heightPx): Placement {
+  return {
+    cx: o.specimen.centrePx ? o.specimen.centrePx.x : (o.widthPx - 1) / 2,
+    cy: o.specimen.centrePx ? o.specimen.centrePx.y : (areaHeightPx - 1) / 2,
+    mirror: false,
+    rotationDeg: 0,
+    widthHarmonics: [],
+  };
 }
 
 function harmonicSum(hs: readonly Harmonic[], alphaRad: number): number {
@@ -47,10 +76,9 @@ export function inSector(alphaDeg: number, fromDeg: number, toDeg: number): bool
   return a <= span;
 }
 
-/** Build the geometry for resolved options. */
-export function buildGeometry(o: ResolvedRenderOptions): Geometry {
-  const cx = o.specimen.centrePx ? o.specimen.centrePx.x : (o.widthPx - 1) / 2;
-  const cy = o.specimen.centrePx ? o.specimen.centrePx.y : (o.heightPx - 1) / 2;
+/** Build the geometry for resolved options (placement: see {@link defaultPlacement}). */
+export function buildGeometry(o: ResolvedRenderOptions, p: Placement = defaultPlacement(o)): Geometry {
+  const { cx, cy } = p;
   const phi = (o.specimen.tiltAxisDeg * Math.PI) / 180;
   const c = Math.cos(phi);
   const s = Math.sin(phi);
@@ -58,10 +86,11 @@ export function buildGeometry(o: ResolvedRenderOptions): Geometry {
   const sx = o.umPerPx;
   const sy = o.umPerPxY;
   // u = dx·sx, v = −dy·sy; X = u(c² + s²/ct) + v(cs − cs/ct); Y = u(sc − sc/ct) + v(s² + c²/ct)
-  const A = sx * (c * c + s * s * ict);
-  const B = -sy * (c * s - c * s * ict);
-  const C = sx * (s * c - s * c * ict);
-  const D = -sy * (s * s + c * c * ict);
+  let A = sx * (c * c + s * s * ict);
+  let B = -sy * (c * s - c * s * ict);
+  let C = sx * (s * c - s * c * ict);
+  let D = -sy * (s * s + c * c * ict);
+  if (p.mirror || p.rotationDeg !== 0) [A, B, C, D] = mirrorRotate([A, B, C, D], p.mirror, p.rotationDeg);
   const R0 = o.specimen.diameterUm / 2;
   const outerLut = new Float64Array(LUT_SIZE + 1);
   const widthLut = new Float64Array(LUT_SIZE + 1);
@@ -72,11 +101,40 @@ export function buildGeometry(o: ResolvedRenderOptions): Geometry {
     if (rim) {
       const deg = (360 * (i % LUT_SIZE)) / LUT_SIZE;
       let w = rim.widthUm * (1 + harmonicSum(rim.harmonics, a));
+      if (p.widthHarmonics.length > 0) w *= 1 + harmonicSum(p.widthHarmonics, a);
       for (const q of rim.absentSectors) if (inSector(deg, q.fromDeg, q.toDeg)) w = 0;
       widthLut[i] = Math.max(0, Math.min(w, outerLut[i] * 0.98));
     }
   }
-  return { cx, cy, A, B, C, D, R0, outerLut, widthLut, bandPresent: rim !== false && rim.widthUm > 0, transitionUm: rim ? rim.transitionUm : 0 };
+  return {
+    cx,
+    cy,
+    A,
+    B,
+    C,
+    D,
+    R0,
+    outerLut,
+    widthLut,
+    bandPresent: rim !== false && rim.widthUm > 0,
+    transitionUm: rim ? rim.transitionUm : 0,
+    heightSign: p.mirror ? -1 : 1,
+  };
+}
+
+/**
+ * Compose the pixel→specimen matrix with a mirror (X → −X) and then a rotation of the specimen by
+ * `rotationDeg` on screen: a specimen point at angle α then appears at α + rotation (mirrored first).
+ * Rotating the picture by +θ means reading the specimen at −θ, hence Rot(−θ) on the specimen plane.
+ */
+function mirrorRotate(m: readonly [number, number, number, number], mirror: boolean, rotationDeg: number): [number, number, number, number] {
+  let [A, B, C, D] = m;
+  const t = (-rotationDeg * Math.PI) / 180;
+  const ct = Math.cos(t);
+  const st = Math.sin(t);
+  [A, B, C, D] = [ct * A - st * C, ct * B - st * D, st * A + ct * C, st * B + ct * D];
+  if (mirror) [A, B] = [-A, -B];
+  return [A, B, C, D];
 }
 
 /** Linear LUT interpolation at α in radians (any range). */

@@ -5,7 +5,7 @@
  * - Cellular noise F1 (distance to the nearest jittered feature point): Worley, "A cellular texture
  *   basis function", SIGGRAPH 1996.
  */
-import type { Rng } from './rng.js';
+import type { Rng } from '../random.js';
 
 const N = 256;
 const MASK = 255;
@@ -38,11 +38,11 @@ export function makeNoiseTable(rng: Rng): NoiseTable {
   const jx = new Float32Array(N);
   const jy = new Float32Array(N);
   for (let i = 0; i < N; i++) {
-    const a = rng.next() * 2 * Math.PI;
+    const a = rng.nextFloat() * 2 * Math.PI;
     gx[i] = Math.cos(a);
     gy[i] = Math.sin(a);
-    jx[i] = 0.1 + 0.8 * rng.next();
-    jy[i] = 0.1 + 0.8 * rng.next();
+    jx[i] = 0.1 + 0.8 * rng.nextFloat();
+    jy[i] = 0.1 + 0.8 * rng.nextFloat();
   }
   return { perm: p, gx, gy, jx, jy };
 }
@@ -127,4 +127,32 @@ export function cellF1(t: NoiseTable, x: number, y: number): number {
     }
   }
   return Math.sqrt(best);
+}
+
+/**
+ * The lattice hash (0..255) of the cell whose jittered feature point is nearest to (x, y) (the cell of
+ * a Worley pattern, Worley 1996): a stable random label per cell, e.g. for flat facets.
+ */
+export function cellNearest(t: NoiseTable, x: number, y: number): number {
+  const xf = Math.floor(x);
+  const yf = Math.floor(y);
+  const p = t.perm;
+  let best = 1e9;
+  let bestH = 0;
+  for (let j = -1; j <= 1; j++) {
+    const cy = yf + j;
+    const cyi = cy & MASK;
+    for (let i = -1; i <= 1; i++) {
+      const cx = xf + i;
+      const h = p[p[cx & MASK] + cyi];
+      const dx = cx + t.jx[h] - x;
+      const dy = cy + t.jy[h] - y;
+      const d = dx * dx + dy * dy;
+      if (d < best) {
+        best = d;
+        bestH = h;
+      }
+    }
+  }
+  return bestH;
 }

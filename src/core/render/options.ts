@@ -1,9 +1,21 @@
 /**
- * Options of the synthetic fractograph renderer, their defaults and validation.
- * Lengths a user thinks of physically are in µm (`…Um`), image things in px (`…Px`), angles in
- * degrees with the project convention (0° = +x, counter-clockwise on screen).
+ * Options of the synthetic fractograph renderer and their defaults (validation: resolve.ts; the scene
+ * elements: sceneOptions.ts). Lengths a user thinks of physically are in µm (`…Um`), image things in
+ * px (`…Px`), angles in degrees with the project convention (0° = +x, counter-clockwise on screen).
  */
-import { FractozoneError } from '../errors.js';
+import type {
+  ColourOptions,
+  DefocusOptions,
+  FlankOptions,
+  GlintOptions,
+  HalvesOptions,
+  HolderKind,
+  HolderOptions,
+  LabelOptions,
+  RuleOptions,
+  SemOptions,
+  ShadowOptions,
+} from './sceneOptions.js';
 
 /** One Fourier term of an angular variation: amplitudePct/100 · cos(order·α − phaseDeg). */
 export interface Harmonic {
@@ -123,7 +135,8 @@ export interface RenderOptions {
   readonly equalMeanBrightness?: boolean;
   /** rim brightness relative to the core when not equalised (+0.2 = 20 % brighter, −0.2 darker) */
   readonly rimBrightness?: number;
-  readonly background?: 'dark' | 'bright';
+  /** 'dark', 'bright', or a textured holder (see {@link HolderOptions}) */
+  readonly background?: Background;
   /** background noise amplitude (intensity units 0..1) */
   readonly backgroundNoise?: number;
   /** vignetting strength 0..1 (intensity loss at the frame corners) */
@@ -138,6 +151,27 @@ export interface RenderOptions {
   readonly semEdge?: number;
   /** null = no scale bar */
   readonly scaleBar?: Partial<ScaleBarOptions> | null;
+  // ---- scene elements (sceneOptions.ts); each off unless given ----
+  /** the notch flank around the fracture surface */
+  readonly flank?: Partial<FlankOptions>;
+  /** parameters of a textured holder ('putty', 'clamp' or 'paper' background) */
+  readonly holder?: Partial<HolderOptions>;
+  /** a soft shadow cast by the bar on the background */
+  readonly shadow?: Partial<ShadowOptions>;
+  /** SEM look: tilt contrast, scan-line noise, data strip */
+  readonly sem?: Partial<SemOptions>;
+  /** specular glints on the slanted rim */
+  readonly glints?: Partial<GlintOptions>;
+  /** colour output with zone tints and colour noise */
+  readonly colour?: Partial<ColourOptions>;
+  /** one-sided defocus across the image */
+  readonly defocus?: Partial<DefocusOptions>;
+  /** both mating halves side by side */
+  readonly halves?: Partial<HalvesOptions>;
+  /** a steel rule along one side */
+  readonly rule?: Partial<RuleOptions>;
+  /** a paper specimen label */
+  readonly label?: Partial<LabelOptions>;
 }
 
 /** Options with every default filled in (echoed in the truth). */
@@ -153,7 +187,7 @@ export interface ResolvedRenderOptions {
   readonly light: LightOptions;
   readonly equalMeanBrightness: boolean;
   readonly rimBrightness: number;
-  readonly background: 'dark' | 'bright';
+  readonly background: Background;
   readonly backgroundNoise: number;
   readonly vignetting: number;
   readonly blurSigmaPx: number;
@@ -161,7 +195,25 @@ export interface ResolvedRenderOptions {
   readonly noiseSignal: number;
   readonly semEdge: number;
   readonly scaleBar: ScaleBarOptions | null;
+  // Scene elements: present only when asked for, so the echo of a plain render's options (in its
+  // truth file) is unchanged.
+  readonly flank?: FlankOptions;
+  /** present when `background` is a holder kind */
+  readonly holder?: HolderOptions;
+  readonly shadow?: ShadowOptions;
+  readonly sem?: SemOptions;
+  readonly glints?: GlintOptions;
+  readonly colour?: ColourOptions;
+  readonly defocus?: DefocusOptions;
+  readonly halves?: HalvesOptions;
+  readonly rule?: RuleOptions;
+  readonly label?: LabelOptions;
 }
+
+/** Background kinds: plain dark or bright (mottled), or a textured holder. */
+export type Background = 'dark' | 'bright' | HolderKind;
+/** Every background kind, for validation and the command line. */
+export const BACKGROUNDS: readonly Background[] = ['dark', 'bright', 'putty', 'clamp', 'paper'];
 
 export const DEFAULT_SPECIMEN: SpecimenOptions = { diameterUm: 5000, centrePx: null, tiltDeg: 0, tiltAxisDeg: 0, wobble: [] };
 export const DEFAULT_RIM: RimOptions = {
@@ -201,132 +253,3 @@ export const DEFAULT_SCALE_BAR: ScaleBarOptions = {
   label: null,
   labelScale: 0,
 };
-
-function bad(msg: string): never {
-  throw new FractozoneError('BAD_PARAMETER', msg);
-}
-function num(v: unknown, what: string, lo: number, hi: number, integer = false): number {
-  if (typeof v !== 'number' || !Number.isFinite(v)) bad(`${what} must be a finite number, got ${String(v)}`);
-  if (v < lo || v > hi) bad(`${what} must be between ${lo} and ${hi}, got ${v}`);
-  if (integer && !Number.isInteger(v)) bad(`${what} must be a whole number, got ${v}`);
-  return v;
-}
-function harmonics(list: readonly Harmonic[] | undefined, what: string, fallback: readonly Harmonic[]): Harmonic[] {
-  const l = list ?? fallback;
-  if (!Array.isArray(l)) bad(`${what} must be a list of {order, amplitudePct, phaseDeg}`);
-  return l.map((h, i) => ({
-    order: num(h?.order, `${what}[${i}].order`, 1, 360, true),
-    amplitudePct: num(h?.amplitudePct, `${what}[${i}].amplitudePct (%)`, -100, 100),
-    phaseDeg: num(h?.phaseDeg ?? 0, `${what}[${i}].phaseDeg (°)`, -3600, 3600),
-  }));
-}
-
-/**
- * Fill defaults and validate. Throws FractozoneError('BAD_PARAMETER') with one plain sentence
- * naming the option and its unit when a value is out of range.
- */
-export function resolveRenderOptions(o: RenderOptions = {}): ResolvedRenderOptions {
-  const widthPx = num(o.widthPx ?? 1600, 'image width (px)', 16, 20000, true);
-  const heightPx = num(o.heightPx ?? 1200, 'image height (px)', 16, 20000, true);
-  if (widthPx * heightPx > 100e6) bad(`image of ${widthPx}×${heightPx} px is larger than 100 megapixels`);
-  const umPerPx = num(o.umPerPx ?? 5, 'pixel size (µm/px)', 1e-3, 1e4);
-  const umPerPxY = o.umPerPxY == null ? umPerPx : num(o.umPerPxY, 'pixel height (µm/px)', 1e-3, 1e4);
-  const s = o.specimen ?? {};
-  const centre = s.centrePx ?? null;
-  if (centre !== null) {
-    num(centre.x, 'specimen centre x (px)', -1e5, 1e5);
-    num(centre.y, 'specimen centre y (px)', -1e5, 1e5);
-  }
-  const specimen: SpecimenOptions = {
-    diameterUm: num(s.diameterUm ?? DEFAULT_SPECIMEN.diameterUm, 'specimen diameter (µm)', 1e-3, 1e7),
-    centrePx: centre === null ? null : { x: centre.x, y: centre.y },
-    tiltDeg: num(s.tiltDeg ?? 0, 'view tilt (°)', 0, 80),
-    tiltAxisDeg: num(s.tiltAxisDeg ?? 0, 'tilt axis angle (°)', -360, 360),
-    wobble: harmonics(s.wobble, 'outline wobble', DEFAULT_SPECIMEN.wobble),
-  };
-  if (specimen.diameterUm / Math.max(umPerPx, umPerPxY) < 8) bad('the specimen would be smaller than 8 px across; use a smaller pixel size or a larger diameter');
-  let rim: RimOptions | false = false;
-  if (o.rim !== false) {
-    const r = o.rim ?? {};
-    const sectors = r.absentSectors ?? [];
-    if (!Array.isArray(sectors)) bad('band absent sectors must be a list of {fromDeg, toDeg}');
-    rim = {
-      widthUm: num(r.widthUm ?? DEFAULT_RIM.widthUm, 'band width (µm)', 0, specimen.diameterUm / 2),
-      harmonics: harmonics(r.harmonics, 'band width harmonics', DEFAULT_RIM.harmonics),
-      absentSectors: sectors.map((q, i) => ({
-        fromDeg: num(q?.fromDeg, `absent sector ${i} start (°)`, -720, 720),
-        toDeg: num(q?.toDeg, `absent sector ${i} end (°)`, -720, 720),
-      })),
-      transitionUm: num(r.transitionUm ?? DEFAULT_RIM.transitionUm, 'band transition width (µm)', 0, 1e6),
-      slopeDeg: num(r.slopeDeg ?? DEFAULT_RIM.slopeDeg, 'band slope (°)', -60, 60),
-      reliefUm: num(r.reliefUm ?? DEFAULT_RIM.reliefUm, 'band relief (µm)', 0, 1e5),
-      reliefScaleUm: num(r.reliefScaleUm ?? DEFAULT_RIM.reliefScaleUm, 'band relief scale (µm)', 1e-3, 1e7),
-      striations: num(r.striations ?? DEFAULT_RIM.striations, 'band striation strength', 0, 1),
-      striationSpacingUm: num(r.striationSpacingUm ?? DEFAULT_RIM.striationSpacingUm, 'band striation spacing (µm)', 1e-3, 1e7),
-    };
-  }
-  const c = o.core ?? {};
-  const core: CoreOptions = {
-    reliefUm: num(c.reliefUm ?? DEFAULT_CORE.reliefUm, 'core relief (µm)', 0, 1e5),
-    reliefScaleUm: num(c.reliefScaleUm ?? DEFAULT_CORE.reliefScaleUm, 'core relief scale (µm)', 1e-3, 1e7),
-    octaves: num(c.octaves ?? DEFAULT_CORE.octaves, 'core relief octaves', 1, 12, true),
-    dimpleSizeUm: num(c.dimpleSizeUm ?? DEFAULT_CORE.dimpleSizeUm, 'dimple size (µm)', 1e-3, 1e7),
-    dimpleDepthUm: num(c.dimpleDepthUm ?? DEFAULT_CORE.dimpleDepthUm, 'dimple depth (µm)', 0, 1e5),
-    ridgeUm: num(c.ridgeUm ?? DEFAULT_CORE.ridgeUm, 'ridge height (µm)', 0, 1e5),
-    ridgeSpacingUm: num(c.ridgeSpacingUm ?? DEFAULT_CORE.ridgeSpacingUm, 'ridge spacing (µm)', 1e-3, 1e7),
-    cracks: num(c.cracks ?? DEFAULT_CORE.cracks, 'number of cracks', 0, 50, true),
-    crackWidthUm: num(c.crackWidthUm ?? DEFAULT_CORE.crackWidthUm, 'crack width (µm)', 1e-3, 1e6),
-  };
-  const l = o.light ?? {};
-  const light: LightOptions = {
-    azimuthDeg: num(l.azimuthDeg ?? DEFAULT_LIGHT.azimuthDeg, 'light azimuth (°)', -360, 360),
-    elevationDeg: num(l.elevationDeg ?? DEFAULT_LIGHT.elevationDeg, 'light elevation (°)', 5, 90),
-    ambient: num(l.ambient ?? DEFAULT_LIGHT.ambient, 'ambient light fraction', 0, 1),
-  };
-  let scaleBar: ScaleBarOptions | null = null;
-  if (o.scaleBar !== null) {
-    const b = o.scaleBar ?? {};
-    const corner = b.corner ?? DEFAULT_SCALE_BAR.corner;
-    if (!['tl', 'tr', 'bl', 'br'].includes(corner)) bad(`scale bar corner must be tl, tr, bl or br, got "${String(corner)}"`);
-    const polarity = b.polarity ?? DEFAULT_SCALE_BAR.polarity;
-    if (polarity !== 'light' && polarity !== 'dark') bad(`scale bar polarity must be light or dark, got "${String(polarity)}"`);
-    const pos = b.positionPx ?? null;
-    if (pos !== null) {
-      num(pos.x0, 'scale bar x0 (px)', 0, widthPx - 1, true);
-      num(pos.y0, 'scale bar y0 (px)', 0, heightPx - 1, true);
-    }
-    scaleBar = {
-      lengthUm: num(b.lengthUm ?? DEFAULT_SCALE_BAR.lengthUm, 'scale bar length (µm)', 1e-3, 1e8),
-      corner,
-      positionPx: pos === null ? null : { x0: pos.x0, y0: pos.y0 },
-      polarity,
-      thicknessPx: num(b.thicknessPx ?? DEFAULT_SCALE_BAR.thicknessPx, 'scale bar thickness (px)', 1, 500, true),
-      plate: b.plate ?? DEFAULT_SCALE_BAR.plate,
-      label: b.label === undefined ? null : b.label,
-      labelScale: num(b.labelScale ?? 0, 'label scale', 0, 50, true),
-    };
-  }
-  const background = o.background ?? 'dark';
-  if (background !== 'dark' && background !== 'bright') bad(`background must be dark or bright, got "${String(background)}"`);
-  return {
-    seed: num(o.seed ?? 1, 'seed', -2147483648, 4294967295, true),
-    widthPx,
-    heightPx,
-    umPerPx,
-    umPerPxY,
-    specimen,
-    rim,
-    core,
-    light,
-    equalMeanBrightness: o.equalMeanBrightness ?? false,
-    rimBrightness: num(o.rimBrightness ?? 0.15, 'rim brightness (relative)', -0.9, 3),
-    background,
-    backgroundNoise: num(o.backgroundNoise ?? 0.015, 'background noise', 0, 1),
-    vignetting: num(o.vignetting ?? 0.25, 'vignetting', 0, 1),
-    blurSigmaPx: num(o.blurSigmaPx ?? 0.8, 'blur sigma (px)', 0, 50),
-    noiseSigma: num(o.noiseSigma ?? 0.015, 'noise sigma', 0, 1),
-    noiseSignal: num(o.noiseSignal ?? 0, 'signal-dependent noise', 0, 1),
-    semEdge: num(o.semEdge ?? 0, 'SEM edge brightness', 0, 1),
-    scaleBar,
-  };
-}
