@@ -2,10 +2,14 @@
 /** fractozone command-line entry. Exit codes: 0 ok, 1 processing/input error, 2 usage error. */
 import { CommanderError } from 'commander';
 import { isFractozoneError } from '../core/errors.js';
+import { printable } from '../core/text/printable.js';
 import { buildProgram, exitCodeFor } from './program.js';
 
-/** Error messages are one line, whatever a library put in them. */
-const oneLine = (s: string): string => s.replace(/\s*[\r\n]+\s*/g, ' ').trim();
+/**
+ * Error messages are one printable line, whatever a library or a file put in them: line breaks
+ * become spaces, other control characters are escaped (`\x1b`).
+ */
+const oneLine = (s: string): string => printable(s.replace(/\s*[\r\n]+\s*/g, ' ').trim());
 
 async function main(argv: string[]): Promise<number> {
   const program = buildProgram();
@@ -33,7 +37,7 @@ main(process.argv).then(
     process.exitCode = code;
   },
   (e) => {
-    process.stderr.write(`fractozone: internal error: ${String(e)}\n`);
+    process.stderr.write(`fractozone: internal error: ${oneLine(String(e))}\n`);
     process.exitCode = 1;
   },
 );

@@ -4,6 +4,7 @@
  */
 import { Command, CommanderError } from 'commander';
 import { isFractozoneError } from '../core/errors.js';
+import { printableLines } from '../core/text/printable.js';
 import { TOOL_VERSION } from '../core/version.js';
 import { commands } from './commands/index.js';
 
@@ -16,9 +17,11 @@ export function buildProgram(): Command {
     )
     .version(TOOL_VERSION, '-V, --version')
     .showHelpAfterError('(add --help for usage)')
+    // commander quotes the user's arguments in its messages: no control characters to the terminal
+    .configureOutput({ writeErr: (s) => process.stderr.write(printableLines(s)) })
     .exitOverride();
   for (const register of commands) register(program);
-  program.commands.forEach((c) => c.exitOverride());
+  program.commands.forEach((c) => c.exitOverride().configureOutput({ writeErr: (s) => process.stderr.write(printableLines(s)) }));
   return program;
 }
 

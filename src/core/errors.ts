@@ -19,7 +19,11 @@ export type ErrorCode =
   | 'BAD_BOUNDARY'
   | 'NO_SPECIMEN'
   | 'PROCESSING_FAILED'
-  | 'IMAGE_TIMEOUT';
+  | 'IMAGE_TIMEOUT'
+  /** an output file could not be written (disk full, no permission, read-only file system) */
+  | 'WRITE_FAILED'
+  /** the output folder is in use by another run (its lock file names the run) */
+  | 'OUTPUT_BUSY';
 
 export type ErrorKind = 'input' | 'usage' | 'processing';
 

@@ -6,16 +6,13 @@
  * index and relative path is appended. Deterministic for the same input list.
  */
 import { createHash } from 'node:crypto';
+import { safeFileName } from '../../core/text/safe-name.js';
 import type { InputImage } from './discover.js';
 
 const MAX = 96;
 
 export function sanitiseStem(rel: string): string {
-  let s = rel
-    .replace(/[\\/]+/g, '__')
-    // eslint-disable-next-line no-control-regex
-    .replace(/[^A-Za-z0-9._-]/g, '_')
-    .replace(/^\.+/, '_');
+  let s = safeFileName(rel.replace(/[\\/]+/g, '__'), 'each').replace(/^\.+/, '_');
   if (s === '') s = '_';
   return s;
 }

@@ -13,7 +13,9 @@
 import { existsSync, readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { FractozoneError } from '../../core/errors.js';
-import { RESULT_COLUMNS, entryRow, metadataColumns, toCsv, toJsonLines, type BatchEntry, type EntryStatus, type ResultView } from '../../core/report/csv.js';
+import { RESULT_SCHEMA, type MeasureResult } from '../../core/pipeline/index.js';
+import { RESULT_COLUMNS, entryRow, metadataColumns, toCsv, toJsonLines, type BatchEntry, type EntryStatus } from '../../core/report/csv.js';
+import { printable } from '../../core/text/printable.js';
 import { analyseSeries } from '../../core/report/series.js';
 import { buildReportHtml } from '../../core/report/html.js';
 import { TOOL_VERSION } from '../../core/version.js';
@@ -42,6 +44,19 @@ export interface BatchBlock {
   settingsSource: string;
 }
 
+/** A per-image file of a measured image: the pipeline result plus the batch block. */
+export type ResultRecord = MeasureResult & { batch: BatchBlock };
+
+/** A per-image file of an image that failed. */
+export interface ErrorRecord {
+  schema: typeof ERROR_SCHEMA;
+  input: { file: string; sha256: string };
+  error: { code: string; message: string };
+  batch: BatchBlock;
+}
+
+export type BatchRecord = ResultRecord | ErrorRecord;
+
 export interface BatchFile {
   schema: typeof BATCH_SCHEMA;
   toolVersion: string;
@@ -67,31 +82,85 @@ export function listResultFiles(out: string): string[] {
     .sort();
 }
 
+/** A JSON object's field (for validating parsed JSON). */
+function field(o: unknown, k: string): unknown {
+  return typeof o === 'object' && o !== null && !Array.isArray(o) ? (o as { [key: string]: unknown })[k] : undefined;
+}
+const isObj = (v: unknown): v is object => typeof v === 'object' && v !== null && !Array.isArray(v);
+const isStr = (v: unknown): v is string => typeof v === 'string';
+const strOrNull = (v: unknown): v is string | null => v === null || typeof v === 'string';
+const STATUSES: readonly unknown[] = ['ok', 'no-band', 'error'];
+
+/** The batch block of a parsed record file, or null when it is not a valid one. */
+function validateBatchBlock(v: unknown): BatchBlock | null {
+  if (field(v, 'schema') !== ENTRY_SCHEMA || !isStr(field(v, 'safeName')) || !isStr(field(v, 'file')) || !isStr(field(v, 'sha256'))) return null;
+  if (!STATUSES.includes(field(v, 'status')) || !isStr(field(v, 'paramsSha256'))) return null;
+  const rate = field(v, 'strainRatePerS');
+  if (!(rate === null || rate === undefined || typeof rate === 'number')) return null;
+  const meta = field(v, 'metadata') ?? {};
+  if (!isObj(meta) || !Object.values(meta).every(isStr)) return null;
+  for (const k of ['material', 'overlay', 'thumbnail']) if (!(field(v, k) === undefined || strOrNull(field(v, k)))) return null;
+  return {
+    schema: ENTRY_SCHEMA,
+    file: field(v, 'file') as string,
+    safeName: field(v, 'safeName') as string,
+    sha256: field(v, 'sha256') as string,
+    status: field(v, 'status') as EntryStatus,
+    paramsSha256: field(v, 'paramsSha256') as string,
+    metadata: { ...(meta as { [k: string]: string }) },
+    strainRatePerS: (rate as number | null | undefined) ?? null,
+    material: (field(v, 'material') as string | null | undefined) ?? null,
+    overlay: (field(v, 'overlay') as string | null | undefined) ?? null,
+    thumbnail: (field(v, 'thumbnail') as string | null | undefined) ?? null,
+    settingsSource: String(field(v, 'settingsSource') ?? 'defaults'),
+  };
+}
+
+/**
+ * A parsed record file validated into its type: the batch block in full; a result by its schema
+ * and main blocks (the files are written by fractozone itself; this guards against a foreign,
+ * edited or truncated file), an error record by its code and message.
+ */
+export function validateRecord(v: unknown): BatchRecord | null {
+  const batch = validateBatchBlock(field(v, 'batch'));
+  if (!batch) return null;
+  if (batch.status === 'error') {
+    const error = field(v, 'error');
+    if (field(v, 'schema') !== ERROR_SCHEMA || !isStr(field(error, 'code')) || !isStr(field(error, 'message'))) return null;
+    const e = error as { code: string; message: string };
+    return { schema: ERROR_SCHEMA, input: { file: batch.file, sha256: batch.sha256 }, error: { code: e.code, message: e.message }, batch };
+  }
+  if (field(v, 'schema') !== RESULT_SCHEMA || !isObj(field(v, 'band')) || !isObj(field(v, 'scale')) || !isObj(field(v, 'params'))) return null;
+  return { ...(v as MeasureResult), batch };
+}
+
 /** Reads one record file; null when it is not a batch record (or unreadable). */
-export function readRecord(path: string): { batch: BatchBlock; record: Record<string, unknown> } | null {
+export function readRecord(path: string): { batch: BatchBlock; record: BatchRecord } | null {
+  let parsed: unknown;
   try {
-    const record = JSON.parse(readFileSync(path, 'utf8')) as Record<string, unknown>;
-    const batch = record.batch as BatchBlock | undefined;
-    if (!batch || batch.schema !== ENTRY_SCHEMA || typeof batch.safeName !== 'string') return null;
-    return { batch, record };
+    parsed = JSON.parse(readFileSync(path, 'utf8'));
   } catch {
     return null;
   }
+  const record = validateRecord(parsed);
+  return record ? { batch: record.batch, record } : null;
 }
 
-export function entryFromRecord(batch: BatchBlock, record: Record<string, unknown>): BatchEntry {
-  const isError = batch.status === 'error';
+export function entryFromRecord(record: BatchRecord): BatchEntry {
+  const batch = record.batch;
   return {
     file: batch.file,
     safeName: batch.safeName,
     sha256: batch.sha256,
     status: batch.status,
-    ...(isError ? { error: record.error as { code: string; message: string } } : {}),
-    metadata: batch.metadata ?? {},
-    strainRatePerS: batch.strainRatePerS ?? null,
-    material: batch.material ?? null,
-    overlay: batch.overlay ?? null,
-    result: isError ? null : (record as ResultView),
+    ...(record.schema === ERROR_SCHEMA ? { error: record.error } : {}),
+    metadata: batch.metadata,
+    strainRatePerS: batch.strainRatePerS,
+    material: batch.material,
+    overlay: batch.overlay,
+    // BatchEntry['result'] is MeasureResult in the typed report module; the cast only bridges the
+    // older all-optional view and is a no-op once core/report/csv.ts types it as MeasureResult
+    result: record.schema === ERROR_SCHEMA ? null : (record as BatchEntry['result']),
   };
 }
 
@@ -101,10 +170,10 @@ export function loadEntries(out: string, warn: (m: string) => void = () => {}): 
   for (const name of listResultFiles(out)) {
     const rec = readRecord(join(out, 'results', name));
     if (!rec) {
-      warn(`skipping results/${name}: not a fractozone batch result`);
+      warn(`skipping results/${printable(name)}: not a fractozone batch result`);
       continue;
     }
-    entries.push(entryFromRecord(rec.batch, rec.record));
+    entries.push(entryFromRecord(rec.record));
   }
   entries.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : a.safeName < b.safeName ? -1 : a.safeName > b.safeName ? 1 : 0));
   return entries;
@@ -141,7 +210,7 @@ export function rebuildOutputs(out: string, warn: (m: string) => void = () => {}
     if (!e.overlay) continue;
     const p = join(out, e.overlay);
     if (!existsSync(p)) {
-      warn(`overlay ${e.overlay} is missing`);
+      warn(`overlay ${printable(e.overlay)} is missing`);
       continue;
     }
     const png = thumbnailPng(new Uint8Array(readFileSync(p)));

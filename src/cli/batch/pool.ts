@@ -13,7 +13,8 @@
 import { fork, type ChildProcess } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { FractozoneError } from '../../core/errors.js';
-import type { MeasureParams } from '../../core/pipeline/types.js';
+import type { MeasureParams, MeasureResult } from '../../core/pipeline/index.js';
+import { printable } from '../../core/text/printable.js';
 import type { ProcessInput } from './processor.js';
 
 export interface PoolTask {
@@ -22,9 +23,18 @@ export interface PoolTask {
   params: MeasureParams;
 }
 
+/** What became of one image: processed, failed (with a code), or cancelled by a stop (nothing to record). */
 export type PoolOutcome =
-  | { ok: true; result: Record<string, unknown>; overlayPng: Uint8Array | null; thumbnailPng: Uint8Array | null }
-  | { ok: false; error: { code: string; message: string } };
+  | { kind: 'done'; result: MeasureResult; overlayPng: Uint8Array | null; thumbnailPng: Uint8Array | null }
+  | { kind: 'failed'; error: { code: string; message: string } }
+  | { kind: 'cancelled' };
+
+/** Messages a worker sends (see worker.ts). */
+export type WorkerMessage =
+  | { type: 'ready' }
+  | { type: 'startup-failed'; message: string }
+  | { type: 'done'; id: number; ok: true; result: MeasureResult; overlayPng: Uint8Array | null; thumbnailPng: Uint8Array | null; cpuS: number }
+  | { type: 'done'; id: number; ok: false; error: { code: string; message: string }; cpuS: number };
 
 interface Slot {
   worker: ChildProcess;
@@ -54,6 +64,7 @@ export class WorkerPool {
   private fatal: Error | null = null;
   private fatalReject: ((e: Error) => void)[] = [];
   private closed = false;
+  private stopping = false;
   /** Number of workers replaced after a crash. */
   replaced = 0;
   /** CPU seconds reported by workers that have been replaced. */
@@ -76,23 +87,26 @@ export class WorkerPool {
       stdio: ['ignore', 'ignore', 'pipe', 'ipc'],
     });
     const slot: Slot = { worker, cpuS: 0, ready: false, busy: null, timer: null, timedOut: false };
-    worker.on('message', (msg: { type: string; id?: number; ok?: boolean; message?: string } & Record<string, unknown>) => {
+    worker.on('message', (msg: WorkerMessage) => {
       if (msg.type === 'ready') {
         slot.ready = true;
         this.pump();
       } else if (msg.type === 'startup-failed') {
-        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${msg.message}`, 'processing'));
+        this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker could not start: ${printable(String(msg.message))}`, 'processing'));
       } else if (msg.type === 'done' && slot.busy && slot.busy.id === msg.id) {
         if (typeof msg.cpuS === 'number') slot.cpuS = msg.cpuS;
         this.clearTimer(slot);
         const b = slot.busy;
         slot.busy = null;
-        const overlay = msg.overlayPng as Uint8Array | null | undefined;
-        const thumb = msg.thumbnailPng as Uint8Array | null | undefined;
         b.resolve(
           msg.ok
-            ? { ok: true, result: msg.result as Record<string, unknown>, overlayPng: overlay ? new Uint8Array(overlay) : null, thumbnailPng: thumb ? new Uint8Array(thumb) : null }
-            : { ok: false, error: msg.error as { code: string; message: string } },
+            ? {
+                kind: 'done',
+                result: msg.result,
+                overlayPng: msg.overlayPng ? new Uint8Array(msg.overlayPng) : null,
+                thumbnailPng: msg.thumbnailPng ? new Uint8Array(msg.thumbnailPng) : null,
+              }
+            : { kind: 'failed', error: msg.error },
         );
         this.pump();
       }
@@ -109,19 +123,31 @@ export class WorkerPool {
     });
     worker.on('exit', (code, signal) => {
       if (!why) why = lastErrorLine(errTail) || (signal ? `signal ${signal}` : `exit code ${code}`);
-      if (this.closed) return;
+      if (this.closed) {
+        slot.busy?.resolve({ kind: 'cancelled' });
+        slot.busy = null;
+        return;
+      }
       const idx = this.slots.indexOf(slot);
       if (idx < 0) return;
+      this.clearTimer(slot);
+      if (this.stopping) {
+        // stopped by abort(): the image is not recorded, and no new worker is started
+        if (slot.busy) slot.busy.resolve({ kind: 'cancelled' });
+        slot.busy = null;
+        this.deadCpuS += slot.cpuS;
+        slot.cpuS = 0;
+        return;
+      }
       if (!slot.ready && !slot.busy) {
         this.fail(new FractozoneError('PROCESSING_FAILED', `a batch worker stopped during start-up (${why || `exit code ${code}`})`, 'processing'));
         return;
       }
-      this.clearTimer(slot);
       if (slot.busy) {
         const b = slot.busy;
         slot.busy = null;
         b.resolve({
-          ok: false,
+          kind: 'failed',
           error: slot.timedOut
             ? { code: 'IMAGE_TIMEOUT', message: `the image took longer than --image-timeout ${this.opts.imageTimeoutS} s; its worker was stopped` }
             : { code: 'PROCESSING_FAILED', message: `the worker stopped while processing this image (${why || `exit code ${code}`})` },
@@ -167,6 +193,7 @@ export class WorkerPool {
   /** Queues one image; resolves with its outcome, rejects only when the pool cannot run at all. */
   run(task: PoolTask): Promise<PoolOutcome> {
     if (this.fatal) return Promise.reject(this.fatal);
+    if (this.stopping) return Promise.resolve({ kind: 'cancelled' });
     return new Promise<PoolOutcome>((resolve, reject) => {
       this.fatalReject.push(reject);
       this.queue.push({ id: this.nextId++, task, resolve });
@@ -179,6 +206,31 @@ export class WorkerPool {
     return this.queue.length + this.slots.filter((s) => s.busy).length;
   }
 
+  /**
+   * Stop handing out images: queued ones resolve as cancelled; images in progress go on (see
+   * {@link abort}).
+   */
+  stop(): void {
+    this.stopping = true;
+    for (const job of this.queue.splice(0)) job.resolve({ kind: 'cancelled' });
+  }
+
+  /** Stop at once: as {@link stop}, and the workers busy with an image are killed (those images cancelled). */
+  abort(): void {
+    this.stop();
+    for (const s of this.slots) if (s.busy) s.worker.kill('SIGKILL');
+  }
+
+  /** Number of images in progress. */
+  get running(): number {
+    return this.slots.filter((s) => s.busy).length;
+  }
+
+  /**
+   * Ends every worker: the IPC channel is closed (a worker exits when its parent disconnects);
+   * one that has not gone after a second is killed. Workers ignore SIGINT/SIGTERM so that a
+   * Ctrl-C on the terminal (sent to the whole process group) reaches the batch alone.
+   */
   async close(): Promise<void> {
     this.closed = true;
     for (const s of this.slots) this.clearTimer(s);
@@ -187,11 +239,26 @@ export class WorkerPool {
         (s) =>
           new Promise<void>((resolve) => {
             if (s.worker.exitCode !== null || s.worker.signalCode !== null) return resolve();
-            s.worker.once('exit', () => resolve());
-            s.worker.kill();
+            const timer = setTimeout(() => s.worker.kill('SIGKILL'), 1000);
+            s.worker.once('exit', () => {
+              clearTimeout(timer);
+              resolve();
+            });
+            if (s.busy) s.worker.kill('SIGKILL');
+            else if (s.worker.connected) s.worker.disconnect();
+            else s.worker.kill('SIGKILL');
           }),
       ),
     );
+  }
+
+  /** Kills every worker at once (synchronous; for an immediate abort before process.exit). */
+  killAll(): void {
+    this.closed = true;
+    for (const s of this.slots) {
+      this.clearTimer(s);
+      if (s.worker.exitCode === null && s.worker.signalCode === null) s.worker.kill('SIGKILL');
+    }
   }
 }
 
@@ -206,5 +273,5 @@ function lastErrorLine(text: string): string {
     .filter((l) => l !== '' && !l.startsWith('at ') && !/^\^+$/.test(l) && !l.startsWith('Node.js v') && !/^\d+: 0x[0-9a-f]+ /i.test(l));
   const fatal = lines.filter((l) => l.startsWith('FATAL ERROR:'));
   const err = fatal.length ? fatal : lines.filter((l) => /error|heap|memory/i.test(l));
-  return (err.length ? err[err.length - 1] : (lines[lines.length - 1] ?? '')).slice(0, 300);
+  return printable((err.length ? err[err.length - 1] : (lines[lines.length - 1] ?? '')).slice(0, 300));
 }

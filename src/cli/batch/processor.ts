@@ -1,12 +1,12 @@
 /**
- * The per-image processor a batch worker runs: bytes + input + parameters → result JSON and an
- * overlay PNG. The default is the measurement pipeline (src/core/pipeline). A processor module
- * exports `createProcessor(): Promise<ImageProcessor> | ImageProcessor`; the environment variable
+ * The per-image processor a batch worker runs: bytes + input + parameters → result and an overlay
+ * PNG. The default is the measurement pipeline (src/core/pipeline). A processor module exports
+ * `createProcessor(): Promise<ImageProcessor> | ImageProcessor`; the environment variable
  * FRACTOZONE_BATCH_PROCESSOR (absolute path or file URL of such a module) replaces the default —
  * a hook for tests of the batch machinery, not a user feature.
  */
 import { pathToFileURL } from 'node:url';
-import type { MeasureParams } from '../../core/pipeline/types.js';
+import type { MeasureParams, MeasureResult } from '../../core/pipeline/index.js';
 
 export interface ProcessInput {
   /** Path relative to the input root (what the result records as input.file). */
@@ -15,7 +15,7 @@ export interface ProcessInput {
 }
 
 export interface ProcessOutput {
-  result: Record<string, unknown>;
+  result: MeasureResult;
   overlayPng: Uint8Array | null;
   /** Optional ready-made report thumbnail (PNG ≤ 320 px wide); the worker makes one otherwise. */
   thumbnailPng?: Uint8Array | null;

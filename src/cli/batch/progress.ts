@@ -2,6 +2,8 @@
  * Batch progress on stderr: a redrawn bar with count, rate and ETA on a terminal; plain lines
  * every few seconds otherwise (logs, CI).
  */
+import { printable } from '../../core/text/printable.js';
+
 export interface ProgressCounts {
   done: number;
   total: number;
@@ -38,7 +40,7 @@ export class Progress {
     const el = (now - this.t0) / 1000;
     const rate = el > 0 ? processed / el : 0;
     const eta = rate > 0 ? (c.total - c.done) / rate : NaN;
-    const text = `${c.done}/${c.total} images · ${rate.toFixed(2)} images/s · ETA ${c.done === c.total ? '0 s' : dur(eta)} · ok ${c.ok}, no band ${c.noBand}, failed ${c.failed}, skipped ${c.skipped}`;
+    const text = printable(`${c.done}/${c.total} images · ${rate.toFixed(2)} images/s · ETA ${c.done === c.total ? '0 s' : dur(eta)} · ok ${c.ok}, no band ${c.noBand}, failed ${c.failed}, skipped ${c.skipped}`);
     if (tty) {
       const width = 24;
       const fill = c.total ? Math.round((c.done / c.total) * width) : width;

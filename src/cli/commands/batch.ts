@@ -2,8 +2,10 @@
 import type { Command } from 'commander';
 import { FractozoneError } from '../../core/errors.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
+import { INTERRUPTED_EXIT_CODE } from '../batch/interrupt.js';
 import { runBatch } from '../batch/run.js';
 import { parseShard } from '../batch/shard.js';
+import { stderrLine } from '../io.js';
 
 interface BatchCliOptions extends MeasureCliOptions {
   out: string;
@@ -55,13 +57,15 @@ export function register(program: Command): void {
       workerMemoryMb: intOption(opts.workerMemory, '--worker-memory', 16),
       imageTimeoutS: intOption(opts.imageTimeout, '--image-timeout', 1),
       progress: opts.progress !== false,
-      log: (l) => process.stderr.write(`${l}\n`),
+      log: stderrLine,
     });
     const line = `batch: ${summary.total} images: ${summary.ok} ok, ${summary.noBand} no band, ${summary.failed} failed, ${summary.skipped} skipped (already done) → ${summary.out}`;
-    if (opts.json) {
-      process.stderr.write(`${line}\n`);
-      process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
-    } else process.stderr.write(`${line}\n`);
-    if (summary.failed > 0) process.exitCode = 1;
+    stderrLine(line);
+    if (opts.json) process.stdout.write(JSON.stringify(summary, null, 2) + '\n');
+    if (summary.interrupted) {
+      const done = summary.ok + summary.noBand + summary.failed + summary.skipped;
+      stderrLine(`interrupted: ${done} of ${summary.total} done; run again with --resume`);
+      process.exitCode = INTERRUPTED_EXIT_CODE;
+    } else if (summary.failed > 0) process.exitCode = 1;
   });
 }

@@ -11,6 +11,7 @@ import { FractozoneError, isFractozoneError } from '../../core/errors.js';
 import { parseLengthUm } from '../../core/units/units.js';
 import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
 import { loadCvNode } from '../cv-node.js';
+import { printable, printableLines } from '../../core/text/printable.js';
 import { readInputFile, sha256Hex, toJsonText } from '../io.js';
 
 interface Options {
@@ -126,7 +127,7 @@ export function register(program: Command): void {
       loadCvNode();
       if (images.length === 1) {
         const { json, text } = inspect(images[0], barLengthUm, maxPixels);
-        process.stdout.write(opts.json ? toJsonText(json) : text.join('\n') + '\n');
+        process.stdout.write(opts.json ? toJsonText(json) : printableLines(text.join('\n')) + '\n');
         return;
       }
       const records: Record<string, unknown>[] = [];
@@ -141,11 +142,11 @@ export function register(program: Command): void {
           if (!isFractozoneError(e)) throw e;
           failed++;
           records.push({ tool: TOOL_NAME, toolVersion: TOOL_VERSION, file: path, error: { code: e.code, message: e.message } });
-          process.stderr.write(`fractozone: error [${e.code}]: ${path}: ${e.message}\n`);
+          process.stderr.write(`fractozone: error [${e.code}]: ${printable(path)}: ${printable(e.message)}\n`);
           lines.push(`${basename(path)}`, `  error [${e.code}]: ${e.message}`);
         }
       }
-      process.stdout.write(opts.json ? toJsonText(records) : lines.join('\n') + '\n');
+      process.stdout.write(opts.json ? toJsonText(records) : printableLines(lines.join('\n')) + '\n');
       if (failed > 0) process.exitCode = 1;
     });
 }

@@ -6,7 +6,9 @@ import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
 import { analyseImage, encodeOverlayPng, type MeasureResult } from '../../core/pipeline/index.js';
 import { loadCvNode } from '../cv-node.js';
-import { readInputFile, sha256Hex, toJsonText, writeFileAtomic } from '../io.js';
+import { printableLines } from '../../core/text/printable.js';
+import { safeFileName } from '../../core/text/safe-name.js';
+import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 
 interface Options extends MeasureCliOptions {
@@ -58,7 +60,7 @@ export function summaryText(r: MeasureResult): string {
 
 /** File stem for outputs: the image name without extension, with unsafe characters replaced. */
 export function outputStem(file: string): string {
-  const stem = basename(file, extname(file)).replace(/[^A-Za-z0-9._-]+/g, '_').slice(0, 120);
+  const stem = safeFileName(basename(file, extname(file))).slice(0, 120);
   return stem || 'image';
 }
 
@@ -79,12 +81,12 @@ export function register(program: Command): void {
       const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress);
       if (progress) process.stderr.write('\r'.padEnd(41) + '\r');
       if (o.json) process.stdout.write(toJsonText(result));
-      else process.stdout.write(summaryText(result));
+      else process.stdout.write(printableLines(summaryText(result)));
       if (o.out) {
         const stem = outputStem(image);
         writeFileAtomic(join(o.out, `${stem}.result.json`), toJsonText(result));
         writeFileAtomic(join(o.out, `${stem}.overlay.png`), encodeOverlayPng(overlay));
-        if (!o.json && !o.quiet) process.stderr.write(`wrote ${join(o.out, `${stem}.result.json`)} and ${join(o.out, `${stem}.overlay.png`)}\n`);
+        if (!o.json && !o.quiet) stderrLine(`wrote ${join(o.out, `${stem}.result.json`)} and ${join(o.out, `${stem}.overlay.png`)}`);
       }
     });
 }

@@ -1,6 +1,7 @@
 /** `fractozone merge`: combine shard output folders into one. */
 import type { Command } from 'commander';
 import { mergeOutputs } from '../batch/merge.js';
+import { stderrLine } from '../io.js';
 
 export function register(program: Command): void {
   program
@@ -10,9 +11,9 @@ export function register(program: Command): void {
     .requiredOption('--out <folder>', 'merged output folder (new, or an earlier merge of the same series)')
     .option('--json', 'print the summary as JSON on stdout')
     .action((folders: string[], opts: { out: string; json?: boolean }) => {
-      const s = mergeOutputs(folders, opts.out, (m) => process.stderr.write(`${m}\n`));
+      const s = mergeOutputs(folders, opts.out, stderrLine);
       const line = `merge: ${s.images} images from ${s.sources} folders → ${s.out}`;
-      process.stderr.write(`${line}\n`);
+      stderrLine(line);
       if (opts.json) process.stdout.write(JSON.stringify(s, null, 2) + '\n');
     });
 }

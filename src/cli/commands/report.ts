@@ -3,7 +3,10 @@ import type { Command } from 'commander';
 import { resolve, join } from 'node:path';
 import { existsSync } from 'node:fs';
 import { FractozoneError } from '../../core/errors.js';
+import { acquireOutputLock, assertNotBusy } from '../batch/lock.js';
 import { rebuildOutputs } from '../batch/outputs.js';
+import { printable } from '../../core/text/printable.js';
+import { stderrLine } from '../io.js';
 
 export function register(program: Command): void {
   program
@@ -13,9 +16,16 @@ export function register(program: Command): void {
     .option('--json', 'print a JSON summary on stdout')
     .action((folder: string, opts: { json?: boolean }) => {
       const out = resolve(folder);
-      if (!existsSync(join(out, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${folder}" is not a batch output folder (no results/ inside)`, 'usage');
-      const entries = rebuildOutputs(out, (m) => process.stderr.write(`report: warning: ${m}\n`));
-      process.stderr.write(`report: ${entries.length} images → ${join(out, 'report.html')}\n`);
+      if (existsSync(out)) assertNotBusy(out);
+      if (!existsSync(join(out, 'results'))) throw new FractozoneError('EMPTY_INPUT', `"${printable(folder)}" is not a batch output folder (no results/ inside)`, 'usage');
+      const lock = acquireOutputLock(out, 'report', (m) => stderrLine(`report: ${m}`));
+      let entries;
+      try {
+        entries = rebuildOutputs(out, (m) => stderrLine(`report: warning: ${m}`));
+      } finally {
+        lock.release();
+      }
+      stderrLine(`report: ${entries.length} images → ${join(out, 'report.html')}`);
       if (opts.json) process.stdout.write(JSON.stringify({ schema: 'fractozone.report-summary/1', out, images: entries.length, report: 'report.html' }, null, 2) + '\n');
     });
 }

@@ -1,9 +1,13 @@
 /** Internal helpers for decoder errors: every refusal is a FractozoneError with a stable code. */
 import { FractozoneError, isFractozoneError, type ErrorCode } from '../errors.js';
+import { printable } from '../text/printable.js';
 
-/** Internal: throw a FractozoneError (kind 'input'). */
+/**
+ * Internal: throw a FractozoneError (kind 'input'). The message may quote bytes of the file (a
+ * chunk name, a decoder's text): control characters in it are escaped (`\x00`, `\x1b`).
+ */
 export function fail(code: ErrorCode, message: string): never {
-  throw new FractozoneError(code, message, 'input');
+  throw new FractozoneError(code, printable(message), 'input');
 }
 
 /**

@@ -56,6 +56,13 @@ export interface DecodedImage {
   metadataScale: MetadataScale | null;
   /** Why the metadata gave no scale, or what was noticed (e.g. "72 dpi is a screen default"). */
   metadataNote?: string;
+  /** 'float' for floating-point samples (TIFF); absent for unsigned integers. */
+  sampleFormat?: 'float';
+  /**
+   * Floating-point images only: the smallest and largest stored value (luma for colour), which
+   * were mapped to 0 and 1 (the file's own range; see decode/tiff/samples.ts).
+   */
+  floatRange?: { minValue: number; maxValue: number };
 }
 
 /** Options for {@link decodeImage}. */

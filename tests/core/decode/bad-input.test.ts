@@ -190,12 +190,42 @@ describe('decodeImage refuses bad input with a clear code', () => {
   });
 
   it('unsupported kinds → UNSUPPORTED_IMAGE', () => {
-    expect(codeOf(() => decodeImage(load('tiff_float32.tif')))).toBe('UNSUPPORTED_IMAGE');
-    // CMYK TIFF (photometric 5) and BigTIFF
+    expect(codeOf(() => decodeImage(load('tiff_float16.tif')))).toBe('UNSUPPORTED_IMAGE');
+    expect(codeOf(() => decodeImage(load('tiff_float32_nan.tif')))).toBe('UNSUPPORTED_IMAGE');
+    // CMYK TIFF (photometric 5), signed 16-bit samples (SampleFormat 2), old-style JPEG (compression 6)
     const cmyk = tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [262, 3, 5], [273, 4, 8], [277, 3, 4], [279, 4, 64]]);
     expect(codeOf(() => decodeImage(cmyk))).toBe('UNSUPPORTED_IMAGE');
-    const big = new Uint8Array([0x49, 0x49, 0x2b, 0, 8, 0, 0, 0, 16, 0, 0, 0, 0, 0, 0, 0]);
-    expect(codeOf(() => decodeImage(big))).toBe('UNSUPPORTED_IMAGE');
+    const signed = tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 16], [273, 4, 8], [279, 4, 32], [339, 3, 2]]);
+    expect(codeOf(() => decodeImage(signed))).toBe('UNSUPPORTED_IMAGE');
+    const ojpeg = tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [259, 3, 6], [273, 4, 8], [279, 4, 32]]);
+    expect(codeOf(() => decodeImage(ojpeg))).toBe('UNSUPPORTED_IMAGE');
+  });
+
+  it('BigTIFF headers are checked like classic ones', () => {
+    // first directory past the end; an offset size other than 8
+    expect(codeOf(() => decodeImage(new Uint8Array([0x49, 0x49, 0x2b, 0, 8, 0, 0, 0, 16, 0, 0, 0, 0, 0, 0, 0])))).toBe('TRUNCATED_IMAGE');
+    expect(codeOf(() => decodeImage(new Uint8Array([0x49, 0x49, 0x2b, 0, 4, 0, 0, 0, 16, 0, 0, 0, 0, 0, 0, 0])))).toBe('CORRUPT_IMAGE');
+    // an offset beyond 2^53 (high word set) cannot lie in the file
+    expect(codeOf(() => decodeImage(new Uint8Array([0x49, 0x49, 0x2b, 0, 8, 0, 0, 0, 16, 0, 0, 0, 0, 0, 0, 0xff])))).toBe('TRUNCATED_IMAGE');
+    const b = load('tiff_bigtiff_gray16.tif');
+    expect(codeOf(() => decodeImage(b.slice(0, b.length - 10)))).toBe('TRUNCATED_IMAGE');
+  });
+
+  it('damaged TIFF structure values found by fuzzing give a code, never a RangeError', () => {
+    // ImageLength as a RATIONAL 3/2 (a fraction), 0 and 65535 samples per pixel, 64-bit float × 16 samples beyond the budget
+    const frac = tiffWithTags([[256, 3, 4], [257, 5, 40], [258, 3, 8], [273, 4, 8], [279, 4, 16]]);
+    new DataView(frac.buffer).setUint32(40, 0x03000000, true); // the rational's bytes point into the header: any value, not whole
+    expect(codeOf(() => decodeImage(frac))).toBe('CORRUPT_IMAGE');
+    expect(codeOf(() => decodeImage(tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [273, 4, 8], [277, 3, 0], [279, 4, 16]])))).toBe('CORRUPT_IMAGE');
+    expect(codeOf(() => decodeImage(tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [273, 4, 8], [277, 3, 65535], [279, 4, 16]])))).toBe('UNSUPPORTED_IMAGE');
+    const big = tiffWithTags([[256, 4, 10000], [257, 4, 10000], [258, 3, 64], [273, 4, 8], [277, 3, 16], [279, 4, 16], [339, 3, 3]]);
+    expect(codeOf(() => decodeImage(big))).toBe('IMAGE_TOO_LARGE');
+  });
+
+  it('a tile size out of proportion to the image is refused before allocating (was a RangeError)', () => {
+    // 4×4 image claiming 4,000,000 × 4,000 px tiles
+    const t = tiffWithTags([[256, 3, 4], [257, 3, 4], [258, 3, 8], [322, 4, 4_000_000], [323, 4, 4000], [324, 4, 8], [325, 4, 16]]);
+    expect(codeOf(() => decodeImage(t))).toBe('CORRUPT_IMAGE');
   });
 
   it('a TIFF whose directories point at each other → CORRUPT_IMAGE, no hang', () => {
