@@ -2,7 +2,7 @@
  * Benchmark: scale-bar detection on a 12-megapixel (4000 × 3000) drawn scene.
  * Run: npx tsx scripts/bench-scalebar.ts   (prints median time over 7 runs, and the measured length)
  */
-import { loadCvNode } from '../src/cli/cv-node.js';
+import { loadCvNode } from '../src/cli/cvNode.js';
 import { detectScaleBar } from '../src/core/calibrate/index.js';
 import { blank, drawBar, drawLabel, fillRect, mulberry32 } from '../tests/helpers/drawBar.js';
 

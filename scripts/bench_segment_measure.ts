@@ -2,7 +2,7 @@
  * Rough timing of the segmentation / measurement stages on a 12-MP synthetic disc (invented test
  * image, see tests/helpers/discImages.ts). Run: npx tsx scripts/bench_segment_measure.ts
  */
-import { loadCvNode } from '../src/cli/cv-node.js';
+import { loadCvNode } from '../src/cli/cvNode.js';
 import { classifyRimCore, findSpecimen, refineBoundary, refineOuterEdge } from '../src/core/segment/index.js';
 import { createBandMeasurer, measureFromPolygons } from '../src/core/measure/index.js';
 import { downsample, localStd } from '../src/core/texture/index.js';

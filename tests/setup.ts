@@ -1,3 +1,3 @@
-import { loadCvNode } from '../src/cli/cv-node.js';
+import { loadCvNode } from '../src/cli/cvNode.js';
 
 loadCvNode();

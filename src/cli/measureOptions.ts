@@ -3,13 +3,20 @@
  * image). Parsing only: turns option strings into a validated MeasureParams.
  */
 import { readFileSync } from 'node:fs';
-import { parseQuantity } from '../core/tcd/index.js';
-import { loadMaterial, parseStrainRate } from './commands/critical-distance.js';
 import type { Command } from 'commander';
-import { FractozoneError } from '../core/errors.js';
-import { parseLengthUm } from '../core/units/units.js';
-import { defaultParams, validateParams } from '../core/pipeline/params.js';
-import type { MeasureParams, PointPx } from '../core/pipeline/types.js';
+import {
+  DEFAULT_FEATURES,
+  defaultParams,
+  FEATURE_NAMES,
+  FractozoneError,
+  parseFeatureList,
+  parseLengthUm,
+  parseQuantity,
+  validateParams,
+  type MeasureParams,
+  type PointPx,
+} from '../core/index.js';
+import { loadMaterial, parseStrainRate } from './commands/criticalDistance.js';
 
 export interface MeasureCliOptions {
   pixelSize?: string;
@@ -47,7 +54,7 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--two-point <x0,y0,x1,y1,length>', 'two image points (px) and their real distance, e.g. 100,900,600,900,2mm')
     .option('--no-metadata', 'ignore the pixel size in TIFF/PNG metadata')
     .option('--window <length>', 'texture window side, e.g. 40um (default: automatic from the specimen size)')
-    .option('--features <list>', 'roughness features to combine: localStd,localEntropy,gradientEnergy')
+    .option('--features <list>', `roughness features to combine, comma-separated (default ${DEFAULT_FEATURES.join(',')}; known: ${FEATURE_NAMES.join(', ')})`)
     .option('--rays <n>', 'number of rays around the circumference', '360')
     .option('--exclude <from-to>', 'exclude an angular sector in degrees, e.g. 80-110 (repeatable; 350-10 wraps)', collect, [])
     .option('--drop-outliers', 'leave MAD-flagged rays out of the statistics (they stay flagged in the profile)')
@@ -153,7 +160,7 @@ export function paramsFromOptions(o: MeasureCliOptions, base: MeasureParams = de
   if (o.twoPoint !== undefined) p.scale.twoPoint = parseTwoPoint(o.twoPoint);
   if (o.metadata === false) p.scale.useMetadata = false;
   if (o.window !== undefined) p.windowUm = parseLengthUm(o.window, '--window');
-  if (o.features !== undefined) p.features = o.features.split(',').map((s) => s.trim()).filter(Boolean);
+  if (o.features !== undefined) p.features = parseFeatureList(o.features);
   if (o.rays !== undefined) p.nRays = num(o.rays, '--rays', true) as number;
   if (o.exclude && o.exclude.length) p.exclude = o.exclude.flatMap((s) => s.split(',')).filter((s) => s.trim()).map(parseSector);
   if (o.dropOutliers) p.dropOutliers = true;

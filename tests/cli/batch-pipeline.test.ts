@@ -37,7 +37,7 @@ describe('batch with the measurement pipeline', () => {
     for (const f of ['rendered-5.png', 'rendered-6.png']) {
       expect(['ok', 'no-band']).toContain(by[f].status);
       const rec = JSON.parse(readFileSync(join(out, 'results', `${f}.json`), 'utf8'));
-      expect(rec.schema).toBe('fractozone.result/1');
+      expect(rec.schema).toBe('fractozone.result/2');
       expect(rec.input.file).toBe(f);
       expect(Number(by[f].um_per_px)).toBe(rec.scale.umPerPx);
       if (by[f].status === 'ok') expect(Number(by[f].width_mean_um)).toBe(rec.band.widthUm.mean);

@@ -34,7 +34,10 @@ describe('fractozone measure', () => {
     const r = run(['measure', img, '--bar-length', '1mm', '--json', '--out', out, '--bootstrap', '200']);
     expect(r.status, r.stderr).toBe(0);
     const res = JSON.parse(r.stdout) as MeasureResult;
-    expect(res.schema).toBe('fractozone.result/1');
+    expect(res.schema).toBe('fractozone.result/2');
+    expect(Object.keys(res).slice(0, 4)).toEqual(['schema', 'tool', 'input', 'quality']);
+    expect(['ok', 'check', 'unreliable']).toContain(res.quality.verdict);
+    for (const w of [...res.warnings, ...res.quality.reasons]) expect(w.code).toMatch(/^[A-Z][A-Z0-9_]+$/);
     expect(res.scale.source).toBe('scale-bar');
     expect(res.scale.umPerPx).toBeCloseTo(9, 1);
     expect(res.input.sha256).toMatch(/^[0-9a-f]{64}$/);
@@ -77,6 +80,24 @@ describe('fractozone measure', () => {
     const re = remeasure(auto, { boundaryPolygon: moved });
     expect(re.band.widthUm).toEqual(manual.band.widthUm);
     expect(re.band.profile).toEqual(manual.band.profile);
+    expect(re.quality).toEqual(manual.quality);
+    // a result file of the former schema (fractozone.result/1, warnings as plain strings) is still
+    // accepted as a boundary: only its polygon is read
+    const old = join(dir, 'old.result.json');
+    writeFileSync(old, JSON.stringify({ schema: 'fractozone.result/1', warnings: ['a plain-text warning'], band: { boundary: { source: 'manual', polygon: moved } } }));
+    const fromOld = run(['measure', img, '--pixel-size', '9um', '--json', '--bootstrap', '100', '--boundary', old]);
+    expect(fromOld.status, fromOld.stderr).toBe(0);
+    expect((JSON.parse(fromOld.stdout) as MeasureResult).band.widthUm).toEqual(manual.band.widthUm);
+  });
+
+  it('the text summary gives the quality verdict first, with its reasons and their codes', () => {
+    // 200° of 360° excluded: 44 % of the rays give a width → FEW_VALID_RAYS (check)
+    const r = run(['measure', img, '--pixel-size', '9um', '--bootstrap', '100', '--exclude', '0-200']);
+    expect(r.status, r.stderr).toBe(0);
+    const lines = r.stdout.split('\n');
+    expect(lines[0]).toMatch(/^rendered\.png {2}\(png, 900×700 px, 8-bit\)$/);
+    expect(lines[1]).toMatch(/^ {2}quality {8}CHECK: look at the image and the overlay/);
+    expect(lines.slice(2).find((l) => l.includes('[FEW_VALID_RAYS]'))).toMatch(/^ {17}- only \d+ of 360 rays gave a width/);
   });
 
   it('adds the critical-distance comparison with a material sheet and strain rate', () => {
@@ -97,6 +118,7 @@ describe('fractozone measure', () => {
     [['IMG'], 2, 'BAD_SCALE'],
     [['IMG', '--pixel-size', '9um', '--exclude', '10-abc'], 2, 'BAD_PARAMETER'],
     [['IMG', '--pixel-size', '9um', '--boundary', 'package.json'], 2, 'BAD_BOUNDARY'],
+    [['IMG', '--pixel-size', '9um', '--features', 'localStd,roughness'], 2, 'BAD_PARAMETER'],
   ])('bad input %j → exit %i, one line [%s]', (args, code, errCode) => {
     const r = run(['measure', ...args.map((a) => (a === 'IMG' ? img : a)), '--json']);
     expect(r.status).toBe(code);

@@ -6,7 +6,7 @@
  * index and relative path is appended. Deterministic for the same input list.
  */
 import { createHash } from 'node:crypto';
-import { safeFileName } from '../../core/text/safe-name.js';
+import { safeFileName } from '../../core/text/safeName.js';
 import type { InputImage } from './discover.js';
 
 const MAX = 96;

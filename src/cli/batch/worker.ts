@@ -8,7 +8,7 @@
  * the batch (the parent) decides what happens to the images in progress. A worker exits when the
  * parent closes the IPC channel or disappears, or when it is killed.
  */
-import { loadCvNode } from '../cv-node.js';
+import { loadCvNode } from '../cvNode.js';
 import { isFractozoneError } from '../../core/errors.js';
 import type { MeasureParams } from '../../core/pipeline/index.js';
 import { printable } from '../../core/text/printable.js';

@@ -1,8 +1,8 @@
 /** Every CLI command registers itself here; one import line per command file. */
 import type { Command } from 'commander';
-import { register as criticalDistance } from './critical-distance.js';
-import { register as fitNotches } from './fit-notches.js';
-import { register as fitRate } from './fit-rate.js';
+import { register as criticalDistance } from './criticalDistance.js';
+import { register as fitNotches } from './fitNotches.js';
+import { register as fitRate } from './fitRate.js';
 import { register as batch } from './batch.js';
 import { register as merge } from './merge.js';
 import { register as report } from './report.js';

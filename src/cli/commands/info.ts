@@ -5,13 +5,22 @@
  */
 import { basename } from 'node:path';
 import type { Command } from 'commander';
-import { detectScaleBar, scaleFromBar, type ScaleBar } from '../../core/calibrate/index.js';
-import { decodeImage } from '../../core/decode/index.js';
-import { FractozoneError, isFractozoneError } from '../../core/errors.js';
-import { parseLengthUm } from '../../core/units/units.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
-import { loadCvNode } from '../cv-node.js';
+import {
+  decodeImage,
+  detectScaleBar,
+  FractozoneError,
+  isFractozoneError,
+  parseLengthUm,
+  scaleFromBar,
+  TOOL_NAME,
+  TOOL_VERSION,
+  type BoxPx,
+  type ImageFacts,
+  type MetadataScale,
+  type ScaleBar,
+} from '../../core/index.js';
 import { printable, printableLines } from '../../core/text/printable.js';
+import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, toJsonText } from '../io.js';
 
 interface Options {
@@ -28,8 +37,38 @@ function r3(v: number): number {
   return Math.round(v * 1000) / 1000;
 }
 
-function barJson(bar: ScaleBar, barLengthUm: number | undefined, aspect: number): Record<string, unknown> {
-  const o: Record<string, unknown> = {
+/** The detected bar in `info --json` (px; µm/px when the bar length is given). */
+interface BarRecord extends Omit<ScaleBar, 'labelBox' | 'plate'> {
+  labelBox: BoxPx | null;
+  plate: BoxPx | null;
+  barLengthUm?: number;
+  umPerPx?: number;
+  umPerPxX?: number;
+  umPerPxY?: number;
+}
+
+/** One image in `info --json`. */
+interface InfoRecord extends ImageFacts {
+  tool: string;
+  toolVersion: string;
+  file: string;
+  sha256: string;
+  compression: string | null;
+  metadataScale: Pick<MetadataScale, 'umPerPxX' | 'umPerPxY' | 'source'> | null;
+  metadataNote: string | null;
+  scaleBar: BarRecord | null;
+}
+
+/** An unreadable image among several in `info --json`. */
+interface InfoError {
+  tool: string;
+  toolVersion: string;
+  file: string;
+  error: { code: string; message: string };
+}
+
+function barJson(bar: ScaleBar, barLengthUm: number | undefined, aspect: number): BarRecord {
+  const o: BarRecord = {
     x0: r3(bar.x0),
     y0: r3(bar.y0),
     x1: r3(bar.x1),
@@ -53,13 +92,13 @@ function barJson(bar: ScaleBar, barLengthUm: number | undefined, aspect: number)
 }
 
 /** Inspect one file; returns the JSON record and the text lines. */
-function inspect(path: string, barLengthUm: number | undefined, maxPixels: number | undefined): { json: Record<string, unknown>; text: string[] } {
+function inspect(path: string, barLengthUm: number | undefined, maxPixels: number | undefined): { json: InfoRecord; text: string[] } {
   const bytes = readInputFile(path);
   const img = decodeImage(bytes, maxPixels !== undefined ? { maxPixels } : undefined);
   const bar = detectScaleBar(img.raster);
   const meta = img.metadataScale;
   const aspect = meta ? meta.umPerPxY / meta.umPerPxX : 1;
-  const json: Record<string, unknown> = {
+  const json: InfoRecord = {
     tool: TOOL_NAME,
     toolVersion: TOOL_VERSION,
     file: path,
@@ -81,7 +120,7 @@ function inspect(path: string, barLengthUm: number | undefined, maxPixels: numbe
   text.push(
     `  format: ${img.format.toUpperCase()}, ${img.widthPx} × ${img.heightPx} px, ${img.bitDepth} bit, ${img.channels} channel${img.channels === 1 ? '' : 's'} (${img.colorType}), ${img.pageCount} page${img.pageCount === 1 ? '' : 's'}${img.compression ? `, ${img.compression}` : ''}`,
   );
-  text.push(`  sha256: ${json.sha256 as string}`);
+  text.push(`  sha256: ${json.sha256}`);
   if (meta) {
     const size = meta.umPerPxX === meta.umPerPxY ? `${fmt(meta.umPerPxX)} µm/px` : `${fmt(meta.umPerPxX)} × ${fmt(meta.umPerPxY)} µm/px (x × y)`;
     text.push(`  metadata scale: ${size} (${meta.source})${img.metadataNote ? `; ${img.metadataNote}` : ''}`);
@@ -130,7 +169,7 @@ export function register(program: Command): void {
         process.stdout.write(opts.json ? toJsonText(json) : printableLines(text.join('\n')) + '\n');
         return;
       }
-      const records: Record<string, unknown>[] = [];
+      const records: (InfoRecord | InfoError)[] = [];
       const lines: string[] = [];
       let failed = 0;
       for (const path of images) {

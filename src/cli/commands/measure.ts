@@ -4,10 +4,10 @@
  */
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
-import { analyseImage, encodeOverlayPng, type MeasureResult } from '../../core/pipeline/index.js';
-import { loadCvNode } from '../cv-node.js';
+import { analyseImage, encodeOverlayPng, formatValue, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
 import { printableLines } from '../../core/text/printable.js';
-import { safeFileName } from '../../core/text/safe-name.js';
+import { safeFileName } from '../../core/text/safeName.js';
+import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 
@@ -17,44 +17,52 @@ interface Options extends MeasureCliOptions {
   quiet?: boolean;
 }
 
-const f1 = (v: number | null | undefined): string => (v === null || v === undefined || !Number.isFinite(v) ? '—' : v.toFixed(1));
+/** One decimal, or "—". */
+const f1 = (f: Figure | number | null): string => formatValue(typeof f === 'number' || f === null ? f : f.value, 1);
 
-/** Plain-text summary of a result; every number carries its unit. */
-export function summaryText(r: MeasureResult): string {
+function bandLines(s: ResultSummary): string[] {
+  const b = s.band;
+  if (!b.detected) return [`  band           not detected: ${b.reason}`];
+  const lines = [
+    `  band width     mean ${f1(b.mean)} µm, 95 % CI ${f1(b.ci95.lo)}–${f1(b.ci95.hi)} µm (n = ${b.n} rays, n_eff = ${b.nEff.toFixed(1)})`,
+    `                 median ${f1(b.median)} µm (95 % CI ${f1(b.medianCi95.lo)}–${f1(b.medianCi95.hi)} µm), sd ${f1(b.sd)} µm`,
+    `                 min ${f1(b.min)} µm, p05 ${f1(b.p05)} µm, p95 ${f1(b.p95)} µm, max ${f1(b.max)} µm`,
+  ];
+  if (b.normalMean) lines.push(`  normal width   mean ${f1(b.normalMean)} µm (along the inward normal of the outer edge)`);
+  if (b.areaEquivalent) lines.push(`  area width     ${f1(b.areaEquivalent)} µm (area-equivalent)`);
+  if (s.separability) lines.push(`  separability   Fisher ratio ${formatValue(s.separability.fisher.value, 2)}, histogram overlap ${formatValue(s.separability.overlap.value, 3)}`);
+  if (b.outliers) lines.push(`  outliers       ${b.outliers.count} rays flagged (${b.outliers.dropped ? 'left out of' : 'kept in'} the statistics)`);
+  return lines;
+}
+
+function criticalDistanceLines(s: ResultSummary): string[] {
   const lines: string[] = [];
-  lines.push(`${r.input.file}  (${r.input.format}, ${r.input.widthPx}×${r.input.heightPx} px, ${r.input.bitDepth}-bit)`);
-  lines.push(`  scale          ${r.scale.umPerPx.toPrecision(5)} µm/px  [${r.scale.source}: ${r.scale.detail}]`);
-  lines.push(
-    `  specimen       centre (${f1(r.specimen.center.x)}, ${f1(r.specimen.center.y)}) px, radius ${f1(r.specimen.radiusUm)} µm` +
-      (r.specimen.touchesFrame ? ' (cut by the frame)' : ''),
-  );
-  const b = r.band;
-  if (!b.detected || !b.widthUm) {
-    lines.push(`  band           not detected: ${b.reason ?? 'no smooth rim'}`);
-  } else {
-    const w = b.widthUm;
-    lines.push(`  band width     mean ${f1(w.mean)} µm, 95 % CI ${f1(w.ci95[0])}–${f1(w.ci95[1])} µm (n = ${w.n} rays, n_eff = ${w.nEff.toFixed(1)})`);
-    lines.push(`                 median ${f1(w.median)} µm (95 % CI ${f1(w.medianCi95[0])}–${f1(w.medianCi95[1])} µm), sd ${f1(w.sd)} µm`);
-    lines.push(`                 min ${f1(w.min)} µm, p05 ${f1(w.p05)} µm, p95 ${f1(w.p95)} µm, max ${f1(w.max)} µm`);
-    if (b.normalWidthUm) lines.push(`  normal width   mean ${f1(b.normalWidthUm.mean)} µm (along the inward normal of the outer edge)`);
-    if (b.areaEquivalentWidthUm !== null) lines.push(`  area width     ${f1(b.areaEquivalentWidthUm)} µm (area-equivalent)`);
-    if (b.separability) lines.push(`  separability   Fisher ratio ${b.separability.fisher.toFixed(2)}, histogram overlap ${b.separability.overlap.toFixed(3)}`);
-    if (b.nOutliers) lines.push(`  outliers       ${b.nOutliers} rays flagged (${r.params.dropOutliers ? 'left out of' : 'kept in'} the statistics)`);
+  const cd = s.criticalDistance;
+  if (cd) {
+    const iv = cd.interval95 ? `, 95 % interval ${f1(cd.interval95.lo)}–${f1(cd.interval95.hi)} µm` : '';
+    lines.push(`  critical dist. L = ${f1(cd.L)} µm${iv} [${cd.basis}]`);
   }
-  if (r.criticalDistance) {
-    const c = r.criticalDistance;
-    const iv = c.interval95_um ? `, 95 % interval ${f1(c.interval95_um[0])}–${f1(c.interval95_um[1])} µm` : '';
-    lines.push(`  critical dist. L = ${f1(c.L_um)} µm${iv} [${c.basis}]`);
+  const c = s.comparison;
+  if (c) {
+    const f3 = (v: number | null): string => formatValue(v, 3);
+    lines.push(`  comparison     w/${c.reference} = ${f3(c.ratio.value)} (95 % ${f3(c.ratioInterval95.lo)}–${f3(c.ratioInterval95.hi)}): ${c.verdict} (±${c.tolerancePct} %)`);
+    if (c.impliedToughness) lines.push(`  implied K      ${formatValue(c.impliedToughness.value, 2)} MPa·√m (from the width taken as ${c.reference})`);
   }
-  if (r.comparison) {
-    const c = r.comparison;
-    lines.push(
-      `  comparison     w/${c.reference} = ${c.ratio.toFixed(3)} (95 % ${c.ratioInterval95[0].toFixed(3)}–${c.ratioInterval95[1].toFixed(3)}): ${c.verdict} (±${c.tolerancePct} %)`,
-    );
-    if (c.impliedToughness_MPa_sqrtm) lines.push(`  implied K      ${c.impliedToughness_MPa_sqrtm.K_MPa_sqrtm.toFixed(2)} MPa·√m (from the width taken as ${c.reference})`);
-  }
-  for (const w of r.warnings) lines.push(`  warning        ${w}`);
-  lines.push(`  ${r.caution}`);
+  return lines;
+}
+
+/** Plain-text summary of a result (figures from core's report/summary.ts); every number carries its unit. */
+export function summaryText(r: MeasureResult): string {
+  const s = summarise(r);
+  const lines: string[] = [];
+  lines.push(`${s.file}  (${s.image})`);
+  lines.push(`  quality        ${s.quality.headline.replace(/^\w+/, (v) => v.toUpperCase())}`);
+  for (const w of s.quality.reasons) lines.push(`                 - ${w.message} [${w.code}]`);
+  lines.push(`  scale          ${(s.scale.umPerPx.value ?? NaN).toPrecision(5)} µm/px  [${s.scale.source}: ${s.scale.detail}]`);
+  lines.push(`  specimen       centre (${f1(s.specimen.centerPx.x)}, ${f1(s.specimen.centerPx.y)}) px, radius ${f1(s.specimen.radius)} µm` + (s.specimen.cutByFrame ? ' (cut by the frame)' : ''));
+  lines.push(...bandLines(s), ...criticalDistanceLines(s));
+  for (const w of s.notes) lines.push(`  note           ${w.message} [${w.code}]`);
+  lines.push(`  ${s.caution}`);
   return lines.join('\n') + '\n';
 }
 

@@ -7,6 +7,6 @@ export {
   chooseScale,
   lengthUmBetween,
 } from './scale.js';
-export type { Scale, ScaleSource, PointPx, TwoPointInput, ScaleChoiceInput, MetadataScaleLike } from './scale.js';
+export type { Scale, ScaleSource, TwoPointInput, ScaleChoiceInput, MetadataScaleLike } from './scale.js';
 export { detectScaleBar, DEFAULT_MIN_CONFIDENCE } from './scaleBar.js';
-export type { ScaleBar, ScaleBarOptions, BoxPx } from './scaleBar.js';
+export type { ScaleBar, ScaleBarOptions } from './scaleBar.js';

@@ -9,6 +9,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import { parseLengthUm } from '../units/units.js';
+import type { PointPx } from '../image/geometry.js';
 import type { ScaleBar } from './scaleBar.js';
 
 /** Scale information read from file metadata (TIFF resolution tags, PNG pHYs chunk). */
@@ -22,11 +23,6 @@ export interface MetadataScaleLike {
 /** Where a scale came from. */
 export type ScaleSource = 'typed' | 'two-point' | 'metadata' | 'scale-bar';
 
-/** A point in image coordinates (pixel centres at integer x, y; x right, y down), in px. */
-export interface PointPx {
-  x: number;
-  y: number;
-}
 
 /** Two points a known distance apart, as used by {@link scaleFromTwoPoints}. */
 export interface TwoPointInput {

@@ -28,8 +28,4 @@ export interface Coverage {
   readonly data: Float32Array;
 }
 
-/** A point in image pixel coordinates (x right, y down). */
-export interface PointPx {
-  readonly x: number;
-  readonly y: number;
-}
+export type { PointPx } from '../image/geometry.js';

@@ -5,8 +5,9 @@
  * boundary is re-measured in milliseconds.
  */
 import { FractozoneError } from '../errors.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
 import {
-  type Point, type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2, inBoxes,
+  type RayIndex, buildRayIndex, castRay, rayDirection, polygonArea, segmentDistance2, inBoxes,
 } from './geometry.js';
 import { type WidthStatistics, robustOutlierFlags, widthStatistics } from './statistics.js';
 
@@ -38,8 +39,8 @@ export interface RayMeasure {
 /** Pixel size: one number for square pixels, or separate x / y sizes (µm per px). */
 export type PixelSize = number | { x: number; y: number };
 
-/** Parameters of {@link measureBand} besides the polygons. */
-export interface MeasureParams {
+/** Options of {@link measureBand} besides the polygons (the pipeline builds them from its MeasureParams). */
+export interface BandMeasureOptions {
   /** Pixel size, µm/px (number, or {x, y} for non-square pixels). */
   umPerPx: PixelSize;
   /** Number of rays, evenly spaced from 0° (default 360). */
@@ -54,7 +55,7 @@ export interface MeasureParams {
    * Boxes of scale marks (bar, plate, label; px): rays whose outer end lies in one (grown by
    * `frameMarginPx`) are invalid, reason 'outer-edge-at-scale-mark' — the edge there is the mark's.
    */
-  markBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
+  markBoxes?: readonly BoxPx[];
   /** Outlier threshold k in robust σ (1.4826·MAD), default 3.5. */
   outlierK?: number;
   /**
@@ -71,18 +72,18 @@ export interface MeasureParams {
 }
 
 /** Input of {@link measureBand}. */
-export interface MeasureBandInput extends MeasureParams {
+export interface MeasureBandInput extends BandMeasureOptions {
   /** Outer contour of the specimen, px. */
-  outer: readonly Point[];
+  outer: readonly PointPx[];
   /** Rim/core boundary polygon, px (null → every ray 'no-boundary'). */
-  boundary: readonly Point[] | null;
+  boundary: readonly PointPx[] | null;
   /** Ray origin, px (usually the fitted circle centre). */
-  center: Point;
+  center: PointPx;
 }
 
 /** Result of {@link measureBand}. */
 export interface BandProfile {
-  center: Point;
+  center: PointPx;
   rays: RayMeasure[];
   /** Statistics of the valid ray widths, µm. */
   stats: WidthStatistics;
@@ -123,7 +124,7 @@ export function isExcluded(thetaDeg: number, sectors: ReadonlyArray<readonly [nu
   return false;
 }
 
-function checkParams(p: MeasureParams, center: Point): void {
+function checkParams(p: BandMeasureOptions, center: PointPx): void {
   const s = p.umPerPx;
   const ok = typeof s === 'number' ? s > 0 && Number.isFinite(s) : s && s.x > 0 && s.y > 0 && Number.isFinite(s.x) && Number.isFinite(s.y);
   if (!ok) throw new FractozoneError('BAD_SCALE', 'The pixel size must be a positive finite number of micrometres per pixel.');
@@ -141,7 +142,7 @@ function checkParams(p: MeasureParams, center: Point): void {
   }
 }
 
-function checkPolygon(poly: readonly Point[], what: string): void {
+function checkPolygon(poly: readonly PointPx[], what: string): void {
   if (poly.length < 3) throw new FractozoneError('BAD_BOUNDARY', `The ${what} polygon needs at least 3 points.`);
   for (const q of poly) {
     if (!Number.isFinite(q.x) || !Number.isFinite(q.y)) {
@@ -150,31 +151,32 @@ function checkPolygon(poly: readonly Point[], what: string): void {
   }
 }
 
-/**
- * A reusable measurer for one outer contour and centre: the outer contour's ray index and radii
- * are computed once, so re-measuring edited boundaries costs only the boundary intersections.
- *
- * @param outer - outer contour, px
- * @param center - ray origin, px
- * @param params - measurement parameters (pixel size, rays, sectors, frame)
- * @returns a function boundary → profile
- */
-export function createBandMeasurer(
-  outer: readonly Point[],
-  center: Point,
-  params: MeasureParams,
-): (boundary: readonly Point[] | null) => BandProfile {
-  checkParams(params, center);
-  checkPolygon(outer, 'outer');
+/** The outer contour seen along every ray, prepared once per contour and centre. */
+interface OuterRays {
+  thetas: number[];
+  /** Outermost crossing with the outer contour, px from the centre (null: none). */
+  outerR: (number | null)[];
+  /** The outer end lies on the image frame / on a scale mark. */
+  atFrame: boolean[];
+  atMark: boolean[];
+  /** Some outer end lies on the frame or a mark (the section is not complete). */
+  anyFrame: boolean;
+  outerArea: number;
+}
+
+/** Is (x, y) within `margin` px of the frame of an image of `size`? */
+function nearFrame(x: number, y: number, size: { width: number; height: number } | undefined, margin: number): boolean {
+  return !!size && (x <= margin || y <= margin || x >= size.width - 1 - margin || y >= size.height - 1 - margin);
+}
+
+function prepareOuterRays(outer: readonly PointPx[], outerIdx: RayIndex, center: PointPx, params: BandMeasureOptions, margin: number): OuterRays {
   const nRays = params.nRays ?? 360;
-  const outerIdx = buildRayIndex(outer, center);
-  const margin = params.frameMarginPx ?? 1.5;
   const size = params.imageSize;
+  const marks = params.markBoxes ?? [];
   const thetas: number[] = [];
   const outerR: (number | null)[] = [];
   const atFrame: boolean[] = [];
   const atMark: boolean[] = [];
-  const marks = params.markBoxes ?? [];
   for (let i = 0; i < nRays; i++) {
     const th = (360 * i) / nRays;
     thetas.push(th);
@@ -184,9 +186,7 @@ export function createBandMeasurer(
     let f = false;
     if (r !== null && size) {
       const d = rayDirection(th);
-      const x = center.x + r * d.x;
-      const y = center.y + r * d.y;
-      f = x <= margin || y <= margin || x >= size.width - 1 - margin || y >= size.height - 1 - margin;
+      f = nearFrame(center.x + r * d.x, center.y + r * d.y, size, margin);
     }
     atFrame.push(f);
     let m = false;
@@ -196,15 +196,32 @@ export function createBandMeasurer(
     }
     atMark.push(m);
   }
-  const outerArea = polygonArea(outer);
   const anyFrame = atFrame.some((v) => v) || atMark.some((v) => v);
-  // outer edges lying on the frame are not real edges: skip them for the normal width.
-  // Scaled edge arrays (µm) are prepared once so that the normal width is a tight loop.
-  const sx = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.x;
-  const sy = typeof params.umPerPx === 'number' ? params.umPerPx : params.umPerPx.y;
-  const onF = (q: Point): boolean =>
-    (!!size && (q.x <= margin || q.y <= margin || q.x >= size.width - 1 - margin || q.y >= size.height - 1 - margin)) ||
-    (marks.length > 0 && inBoxes(marks, q.x, q.y, margin));
+  return { thetas, outerR, atFrame, atMark, anyFrame, outerArea: polygonArea(outer) };
+}
+
+/** Pixel size along x and y, µm/px. */
+function pitches(s: PixelSize): { sx: number; sy: number } {
+  return { sx: typeof s === 'number' ? s : s.x, sy: typeof s === 'number' ? s : s.y };
+}
+
+/**
+ * Distance (µm) from a boundary point p (at radius rP px, angle θ) to the outer contour, for the
+ * normal width. Outer edges lying on the frame or a scale mark are not real edges and are skipped.
+ * Any edge nearer than the along-ray distance wPx lies within a disc of radius wPx around p, hence
+ * within ±asin(wPx/rP) of θ seen from the centre: only the edges filed in those angular bins are
+ * tested. Scaled edge arrays (µm) are prepared once so that each call is a tight loop.
+ */
+function createNormalDistance(
+  outer: readonly PointPx[],
+  outerIdx: RayIndex,
+  params: BandMeasureOptions,
+  margin: number,
+): (p: PointPx, thetaDeg: number, rP: number, wPx: number) => number {
+  const { sx, sy } = pitches(params.umPerPx);
+  const size = params.imageSize;
+  const marks = params.markBoxes ?? [];
+  const onF = (q: PointPx): boolean => nearFrame(q.x, q.y, size, margin) || (marks.length > 0 && inBoxes(marks, q.x, q.y, margin));
   const nO = outer.length;
   const EAx = new Float64Array(nO);
   const EAy = new Float64Array(nO);
@@ -223,12 +240,7 @@ export function createBandMeasurer(
   const stamp = new Int32Array(nO);
   let stampId = 0;
   const nBins = outerIdx.bins.length;
-  /**
-   * Distance (µm) from p (at radius rP px, angle θ) to the outer contour. Any edge nearer than the
-   * along-ray distance wPx lies within a disc of radius wPx around p, hence within
-   * ±asin(wPx/rP) of θ seen from the centre: only the edges filed in those angular bins are tested.
-   */
-  const distToOuterUm = (p: Point, thetaDeg: number, rP: number, wPx: number): number => {
+  return (p, thetaDeg, rP, wPx) => {
     const px = p.x * sx;
     const py = p.y * sy;
     const aniso = Math.max(sx, sy) / Math.min(sx, sy);
@@ -252,59 +264,100 @@ export function createBandMeasurer(
     }
     return Math.sqrt(best);
   };
+}
 
+/** The rays of one boundary: radii, width, validity and the reason of an invalid ray. */
+function castBoundaryRays(o: OuterRays, bIdx: RayIndex | null, params: BandMeasureOptions): RayMeasure[] {
+  const rays: RayMeasure[] = [];
+  for (let i = 0; i < o.thetas.length; i++) {
+    const th = o.thetas[i];
+    const ro = o.outerR[i];
+    const hits = bIdx ? castRay(bIdx, th) : [];
+    const rb = hits.length ? hits[hits.length - 1] : null;
+    const ray: RayMeasure = { thetaDeg: th, outerRadiusPx: ro, boundaryRadiusPx: rb, widthPx: null, widthUm: null, valid: false, outlier: false };
+    if (ro !== null && rb !== null) {
+      const d = rayDirection(th);
+      ray.widthPx = ro - rb;
+      ray.widthUm = ray.widthPx * umPerPxAlong(d.x, d.y, params.umPerPx);
+    }
+    if (isExcluded(th, params.exclude)) ray.reason = 'excluded';
+    else if (ro === null) ray.reason = 'no-outer-edge';
+    else if (o.atFrame[i]) ray.reason = 'outer-edge-at-frame';
+    else if (o.atMark[i]) ray.reason = 'outer-edge-at-scale-mark';
+    else if (rb === null) ray.reason = 'no-boundary';
+    else if (ray.widthPx !== null && ray.widthPx < 0) ray.reason = 'boundary-outside-outer';
+    else if (ray.widthPx !== null && ray.widthPx < (params.minWidthPx ?? 0)) ray.reason = 'band-absent';
+    else ray.valid = true;
+    rays.push(ray);
+  }
+  return rays;
+}
+
+/** Flags the MAD outliers among the valid rays (they stay valid, reason 'outlier'); returns their number. */
+function flagOutliers(rays: RayMeasure[], k: number): number {
+  const flags = robustOutlierFlags(rays.map((r) => (r.valid ? (r.widthUm as number) : NaN)), k);
+  let nOut = 0;
+  rays.forEach((r, i) => {
+    if (flags[i]) {
+      r.outlier = true;
+      r.reason = 'outlier';
+      nOut++;
+    }
+  });
+  return nOut;
+}
+
+/** Mean and median of the normal widths of the rays in the statistics (`use` finite). */
+function normalWidthOf(
+  rays: readonly RayMeasure[],
+  use: readonly number[],
+  center: PointPx,
+  dist: (p: PointPx, thetaDeg: number, rP: number, wPx: number) => number,
+): BandProfile['normalWidth'] {
+  const nw: number[] = [];
+  rays.forEach((r, i) => {
+    if (!Number.isFinite(use[i]) || r.boundaryRadiusPx === null) return;
+    const d = rayDirection(r.thetaDeg);
+    const p = { x: center.x + r.boundaryRadiusPx * d.x, y: center.y + r.boundaryRadiusPx * d.y };
+    nw.push(dist(p, r.thetaDeg, r.boundaryRadiusPx, r.widthPx ?? 0));
+  });
+  nw.sort((a, b) => a - b);
+  const nMean = nw.length ? nw.reduce((a, b) => a + b, 0) / nw.length : NaN;
+  const nMed = nw.length ? (nw.length % 2 ? nw[(nw.length - 1) / 2] : 0.5 * (nw[nw.length / 2 - 1] + nw[nw.length / 2])) : NaN;
+  return { meanUm: nMean, medianUm: nMed, n: nw.length };
+}
+
+/**
+ * A reusable measurer for one outer contour and centre: the outer contour's ray index and radii
+ * are computed once, so re-measuring edited boundaries costs only the boundary intersections.
+ *
+ * @param outer - outer contour, px
+ * @param center - ray origin, px
+ * @param params - measurement parameters (pixel size, rays, sectors, frame)
+ * @returns a function boundary → profile
+ */
+export function createBandMeasurer(
+  outer: readonly PointPx[],
+  center: PointPx,
+  params: BandMeasureOptions,
+): (boundary: readonly PointPx[] | null) => BandProfile {
+  checkParams(params, center);
+  checkPolygon(outer, 'outer');
+  const outerIdx = buildRayIndex(outer, center);
+  const margin = params.frameMarginPx ?? 1.5;
+  const o = prepareOuterRays(outer, outerIdx, center, params, margin);
+  const distToOuterUm = createNormalDistance(outer, outerIdx, params, margin);
+  const { sx, sy } = pitches(params.umPerPx);
   return (boundary) => {
     if (boundary) checkPolygon(boundary, 'boundary');
-    const bIdx: RayIndex | null = boundary ? buildRayIndex(boundary, center) : null;
-    const rays: RayMeasure[] = [];
-    for (let i = 0; i < nRays; i++) {
-      const th = thetas[i];
-      const ro = outerR[i];
-      const hits = bIdx ? castRay(bIdx, th) : [];
-      const rb = hits.length ? hits[hits.length - 1] : null;
-      const ray: RayMeasure = { thetaDeg: th, outerRadiusPx: ro, boundaryRadiusPx: rb, widthPx: null, widthUm: null, valid: false, outlier: false };
-      if (ro !== null && rb !== null) {
-        const d = rayDirection(th);
-        ray.widthPx = ro - rb;
-        ray.widthUm = ray.widthPx * umPerPxAlong(d.x, d.y, params.umPerPx);
-      }
-      if (isExcluded(th, params.exclude)) ray.reason = 'excluded';
-      else if (ro === null) ray.reason = 'no-outer-edge';
-      else if (atFrame[i]) ray.reason = 'outer-edge-at-frame';
-      else if (atMark[i]) ray.reason = 'outer-edge-at-scale-mark';
-      else if (rb === null) ray.reason = 'no-boundary';
-      else if (ray.widthPx !== null && ray.widthPx < 0) ray.reason = 'boundary-outside-outer';
-      else if (ray.widthPx !== null && ray.widthPx < (params.minWidthPx ?? 0)) ray.reason = 'band-absent';
-      else ray.valid = true;
-      rays.push(ray);
-    }
-    const k = params.outlierK ?? 3.5;
-    const flags = robustOutlierFlags(rays.map((r) => (r.valid ? (r.widthUm as number) : NaN)), k);
-    let nOut = 0;
-    rays.forEach((r, i) => {
-      if (flags[i]) {
-        r.outlier = true;
-        r.reason = 'outlier';
-        nOut++;
-      }
-    });
+    const rays = castBoundaryRays(o, boundary ? buildRayIndex(boundary, center) : null, params);
+    const nOut = flagOutliers(rays, params.outlierK ?? 3.5);
     const use = rays.map((r) => (r.valid && !(params.dropOutliers && r.outlier) ? (r.widthUm as number) : NaN));
     const stats = widthStatistics(use, { seed: params.seed, bootstrap: params.bootstrap, circular: true });
-    // normal width: distance from the boundary point of each valid ray to the outer contour
-    const nw: number[] = [];
-    rays.forEach((r, i) => {
-      if (!Number.isFinite(use[i]) || r.boundaryRadiusPx === null) return;
-      const d = rayDirection(r.thetaDeg);
-      const p = { x: center.x + r.boundaryRadiusPx * d.x, y: center.y + r.boundaryRadiusPx * d.y };
-      nw.push(distToOuterUm(p, r.thetaDeg, r.boundaryRadiusPx, r.widthPx ?? 0));
-    });
-    nw.sort((a, b) => a - b);
-    const nMean = nw.length ? nw.reduce((a, b) => a + b, 0) / nw.length : NaN;
-    const nMed = nw.length ? (nw.length % 2 ? nw[(nw.length - 1) / 2] : 0.5 * (nw[nw.length / 2 - 1] + nw[nw.length / 2])) : NaN;
     let areaWidthUm: number | null = null;
     if (boundary) {
       const scale = Math.sqrt(sx * sy); // area-preserving length scale for non-square pixels
-      areaWidthUm = (Math.sqrt(outerArea / Math.PI) - Math.sqrt(polygonArea(boundary) / Math.PI)) * scale;
+      areaWidthUm = (Math.sqrt(o.outerArea / Math.PI) - Math.sqrt(polygonArea(boundary) / Math.PI)) * scale;
     }
     return {
       center,
@@ -312,9 +365,9 @@ export function createBandMeasurer(
       stats,
       nValid: rays.filter((r) => r.valid).length,
       nOutliers: nOut,
-      normalWidth: { meanUm: nMean, medianUm: nMed, n: nw.length },
+      normalWidth: normalWidthOf(rays, use, center, distToOuterUm),
       areaWidthUm,
-      areaWidthComplete: boundary !== null && !anyFrame && !(params.exclude && params.exclude.length),
+      areaWidthComplete: boundary !== null && !o.anyFrame && !(params.exclude && params.exclude.length),
     };
   };
 }
@@ -351,10 +404,10 @@ export function measureBand(input: MeasureBandInput): BandProfile {
  * @param params - pixel size (µm/px), rays, sectors, frame size
  */
 export function measureFromPolygons(
-  outerPolygon: readonly Point[],
-  boundaryPolygon: readonly Point[],
-  center: Point,
-  params: MeasureParams,
+  outerPolygon: readonly PointPx[],
+  boundaryPolygon: readonly PointPx[],
+  center: PointPx,
+  params: BandMeasureOptions,
 ): BandProfile {
   return createBandMeasurer(outerPolygon, center, params)(boundaryPolygon);
 }

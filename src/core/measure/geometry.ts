@@ -7,20 +7,16 @@
  * direction vector (cos θ, −sin θ) in image coordinates (x right, y down).
  */
 
-/** A point in image pixel coordinates (pixel centres at integers). */
-export interface Point {
-  x: number;
-  y: number;
-}
+import type { BoxPx, PointPx } from '../image/geometry.js';
 
 /** Direction of angle θ (degrees, project convention) in image coordinates. */
-export function rayDirection(thetaDeg: number): Point {
+export function rayDirection(thetaDeg: number): PointPx {
   const t = (thetaDeg * Math.PI) / 180;
   return { x: Math.cos(t), y: -Math.sin(t) };
 }
 
 /** Angle of point p seen from centre c, degrees in [0, 360), project convention. */
-export function angleOf(c: Point, p: Point): number {
+export function angleOf(c: PointPx, p: PointPx): number {
   const a = (Math.atan2(-(p.y - c.y), p.x - c.x) * 180) / Math.PI;
   return a < 0 ? a + 360 : a;
 }
@@ -30,7 +26,7 @@ export function angleOf(c: Point, p: Point): number {
  * angular bins (of `binDeg`) it spans as seen from the centre.
  */
 export interface RayIndex {
-  readonly center: Point;
+  readonly center: PointPx;
   readonly xs: Float64Array;
   readonly ys: Float64Array;
   readonly binDeg: number;
@@ -45,7 +41,7 @@ export interface RayIndex {
  * @param binDeg - angular bin width in degrees (default 0.5°)
  * @returns the index used by {@link castRay}
  */
-export function buildRayIndex(polygon: readonly Point[], center: Point, binDeg = 0.5): RayIndex {
+export function buildRayIndex(polygon: readonly PointPx[], center: PointPx, binDeg = 0.5): RayIndex {
   const n = polygon.length;
   const xs = new Float64Array(n);
   const ys = new Float64Array(n);
@@ -112,7 +108,7 @@ export function castRay(index: RayIndex, thetaDeg: number): number[] {
 }
 
 /** Signed polygon area by the shoelace formula, px² (absolute value returned). */
-export function polygonArea(polygon: readonly Point[]): number {
+export function polygonArea(polygon: readonly PointPx[]): number {
   let s = 0;
   const n = polygon.length;
   for (let i = 0; i < n; i++) {
@@ -134,8 +130,8 @@ export function polygonArea(polygon: readonly Point[]): number {
  * @param skipEdge - optional predicate: edges for which it returns true are ignored
  */
 export function distanceToPolygon(
-  p: Point,
-  polygon: readonly Point[],
+  p: PointPx,
+  polygon: readonly PointPx[],
   sx = 1,
   sy = 1,
   skipEdge?: (i: number) => boolean,
@@ -171,7 +167,7 @@ export function segmentDistance2(ax: number, ay: number, ex: number, ey: number)
 
 /** True when (x, y) lies in one of the axis-aligned boxes (x, y, w, h; px) grown by `margin`. */
 export function inBoxes(
-  boxes: ReadonlyArray<{ x: number; y: number; w: number; h: number }>,
+  boxes: readonly BoxPx[],
   x: number,
   y: number,
   margin = 0,

@@ -45,6 +45,11 @@ export interface WidthStatistics {
   ci95Median: [number, number] | null;
 }
 
+/** Median of the values (simple-statistics `median`; NaN when there are none). */
+export function medianOf(values: readonly number[]): number {
+  return values.length ? ssMedian(values as number[]) : NaN;
+}
+
 /**
  * Lag-k autocorrelation of an ordered profile. Non-finite entries are gaps: pairs across a gap
  * are skipped. ρ_k = [Σ(xᵢ−x̄)(xᵢ₊ₖ−x̄) / #pairs] / [Σ(xᵢ−x̄)² / n] (the usual estimator, e.g.

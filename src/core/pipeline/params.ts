@@ -3,9 +3,10 @@
  * CLI, the batch runner and the web app build the same thing and the result echoes it whole.
  */
 import { FractozoneError } from '../errors.js';
+import { checkFeatureNames, DEFAULT_FEATURES } from '../texture/registry.js';
 import type { MeasureParams } from './types.js';
 
-export const DEFAULT_FEATURES = ['localStd', 'localEntropy', 'gradientEnergy'] as const;
+export { DEFAULT_FEATURES };
 
 export function defaultParams(): MeasureParams {
   return {
@@ -48,6 +49,7 @@ export function validateParams(p: MeasureParams): MeasureParams {
   }
   if (p.windowUm !== null) positive(p.windowUm, 'texture window (µm)');
   if (!Array.isArray(p.features) || p.features.length === 0) bad('at least one roughness feature is needed');
+  checkFeatureNames(p.features);
   if (!Number.isInteger(p.nRays) || p.nRays < 8 || p.nRays > 36000) bad(`number of rays must be an integer 8..36000, got ${p.nRays}`);
   for (const s of p.exclude) {
     if (!Array.isArray(s) || s.length !== 2 || !s.every((v) => Number.isFinite(v))) bad('exclusion sectors must be pairs of angles in degrees');

@@ -1,15 +1,13 @@
 /**
- * The serialisable parameter object and the versioned result schema shared by the CLI, the batch
- * runner, the reports and the web app. One schema for all: `fractozone.result/1`.
+ * The serialisable parameter object shared by the CLI, the batch runner and the web app; every
+ * result echoes it whole. The result itself is typed in result.ts.
  * Every length a user sees is in µm (names end in `Um`), pixel quantities end in `Px`.
  */
+import type { PointPx } from '../image/geometry.js';
+import type { FeatureName } from '../texture/registry.js';
 
-export const RESULT_SCHEMA = 'fractozone.result/1' as const;
-
-export interface PointPx {
-  x: number;
-  y: number;
-}
+export type { PointPx };
+export { RESULT_SCHEMA } from './result.js';
 
 /** How the scale is set. Precedence: typed pixel size > two points > scale bar (length given) > metadata. */
 export interface ScaleParams {
@@ -38,8 +36,8 @@ export interface MeasureParams {
   scale: ScaleParams;
   /** Texture window side in µm; null = automatic from the specimen size (rule in DEVELOPERS.md). */
   windowUm: number | null;
-  /** Roughness features combined for the classification. */
-  features: string[];
+  /** Roughness features combined for the classification (default texture/registry.ts DEFAULT_FEATURES). */
+  features: FeatureName[];
   /** Number of rays around the circumference. */
   nRays: number;
   /** Angular exclusion sectors, degrees [from, to], wrap-around allowed. */
@@ -62,25 +60,13 @@ export interface MeasureParams {
   tolerancePct: number;
 }
 
-export interface WidthStats {
-  n: number;
-  nEff: number;
-  mean: number;
-  median: number;
-  sd: number;
-  min: number;
-  max: number;
-  p05: number;
-  p95: number;
-  ci95: [number, number];
-  medianCi95: [number, number];
+/** The file being measured, as the shell names it. */
+export interface InputInfo {
+  /** File name as the user gave it. */
+  file: string;
+  /** SHA-256 of the file's bytes, hex (computed by the shell). */
+  sha256: string;
 }
 
-export interface RayResult {
-  angleDeg: number;
-  widthUm: number | null;
-  valid: boolean;
-  reason?: string;
-  outerRadiusUm?: number | null;
-  boundaryRadiusUm?: number | null;
-}
+/** Progress callback: the next stage's name and the fraction of the work done (0..1). */
+export type ProgressFn = (stage: string, fraction: number) => void;

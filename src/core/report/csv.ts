@@ -7,40 +7,10 @@
  * [1] Y. Shafranovich, "Common Format and MIME Type for Comma-Separated Values (CSV) Files",
  *     RFC 4180, IETF, 2005.
  */
+import type { MeasureResult } from '../pipeline/result.js';
 
 /** Status of one image in a batch. `no-band` is a successful measurement that found no rim band. */
 export type EntryStatus = 'ok' | 'no-band' | 'error';
-
-/**
- * The parts of a `fractozone.result/1` object the reports read. Every field is optional: the
- * reports read defensively so that a newer or partial result never breaks a table.
- */
-export interface ResultView {
-  schema?: string;
-  input?: { file?: string; sha256?: string };
-  scale?: { umPerPx?: number; source?: string };
-  specimen?: { center?: { x: number; y: number }; radiusUm?: number };
-  band?: {
-    detected?: boolean;
-    reason?: string;
-    widthUm?: {
-      n?: number;
-      mean?: number;
-      median?: number;
-      sd?: number;
-      ci95?: [number, number];
-      medianCi95?: [number, number];
-    };
-    profile?: { angleDeg: number; widthUm: number | null; valid: boolean; reason?: string }[];
-    /** Rim/core separability: an object (fisher, overlap, eta) or a bare Fisher ratio. */
-    separability?: number | { fisher?: number; overlap?: number; eta?: number } | null;
-  };
-  criticalDistance?: { L_um?: number; interval95_um?: [number, number] };
-  comparison?: { reference?: string; ratio?: number; ratioInterval95?: [number, number]; verdict?: string };
-  warnings?: string[];
-  tool?: { name?: string; version?: string };
-  params?: unknown;
-}
 
 /** One image of a batch, as the reports see it. */
 export interface BatchEntry {
@@ -59,17 +29,31 @@ export interface BatchEntry {
   material: string | null;
   /** Overlay path relative to the output folder, or null. */
   overlay: string | null;
-  result: ResultView | null;
+  /** The measurement (null for a failed image). */
+  result: MeasureResult | null;
 }
+
+/**
+ * Former name of the result type the reports read, kept (castable from parsed JSON) only while the
+ * app and the batch runner move to {@link MeasureResult}; remove it when nothing imports it.
+ * @deprecated use MeasureResult
+ */
+export type ResultView = MeasureResult & Record<string, unknown>;
 
 /** A table cell: numbers stay numbers (JSON Lines), null is an empty CSV field. */
 export type Cell = string | number | boolean | null;
 
-/** The fixed columns of `results.csv`, in order. Lengths in µm, rates in 1/s, units in the names. */
+/**
+ * The fixed columns of `results.csv`, in order. Lengths in µm, rates in 1/s, units in the names.
+ * `quality` is the result's verdict (ok, check, unreliable), `warning_codes` its warning codes
+ * separated by `;` (core/warnings.ts).
+ */
 export const RESULT_COLUMNS = [
   'file',
   'sha256',
   'status',
+  'quality',
+  'warning_codes',
   'error_code',
   'error_message',
   'um_per_px',
@@ -98,20 +82,24 @@ export const RESULT_COLUMNS = [
   'notch_root_radius_mm',
 ] as const;
 
+/** A fixed column of `results.csv`. */
+export type ResultColumn = (typeof RESULT_COLUMNS)[number];
+
+/**
+ * One row of `results.csv` / `results.jsonl`: every fixed column, then `meta_<key>` columns holding
+ * the extra manifest / sidecar values verbatim.
+ */
+export type BatchRow = Record<ResultColumn, Cell> & { [meta: `meta_${string}`]: string };
+
 const META_IN_FIXED = new Set(['specimen_id', 'notch', 'notch_root_radius_mm']);
 
-function finite(v: unknown): number | null {
+/** The number, or null when it is missing or not finite (NaN is written as null in JSON). */
+function finite(v: number | null | undefined): number | null {
   return typeof v === 'number' && Number.isFinite(v) ? v : null;
 }
 
-function sepPart(v: unknown, k: 'fisher' | 'overlap'): number | null {
-  if (typeof v === 'number') return k === 'fisher' ? finite(v) : null;
-  if (v && typeof v === 'object') return finite((v as Record<string, unknown>)[k]);
-  return null;
-}
-
-function pair(v: unknown, i: 0 | 1): number | null {
-  return Array.isArray(v) ? finite(v[i]) : null;
+function pair(v: readonly [number, number] | null | undefined, i: 0 | 1): number | null {
+  return v ? finite(v[i]) : null;
 }
 
 /** Metadata keys of the extra columns (`meta_<key>`), sorted, over all entries. */
@@ -127,27 +115,31 @@ export function metadataColumns(entries: readonly BatchEntry[]): string[] {
  * @param entry one image of the batch
  * @returns column name → cell (lengths µm, rate 1/s, ratio dimensionless)
  */
-export function entryRow(entry: BatchEntry): Record<string, Cell> {
+export function entryRow(entry: BatchEntry): BatchRow {
   const r = entry.result;
-  const w = r?.band?.widthUm;
+  const w = r?.band.widthUm;
   const ok = entry.status === 'ok';
-  const row: Record<string, Cell> = {
+  const sep = r?.band.separability;
+  const row: BatchRow = {
     file: entry.file,
     sha256: entry.sha256,
     status: entry.status,
+    // a result read back from an older or partial file may lack these: empty, never "ok"
+    quality: r?.quality?.verdict ?? null,
+    warning_codes: r ? r.warnings.map((w) => w.code).join(';') : null,
     error_code: entry.error?.code ?? null,
-    error_message: entry.error?.message ?? (entry.status === 'no-band' ? (r?.band?.reason ?? null) : null),
-    um_per_px: finite(r?.scale?.umPerPx),
-    scale_source: r?.scale?.source ?? null,
+    error_message: entry.error?.message ?? (entry.status === 'no-band' ? (r?.band.reason ?? null) : null),
+    um_per_px: finite(r?.scale.umPerPx),
+    scale_source: r?.scale.source ?? null,
     width_mean_um: ok ? finite(w?.mean) : null,
     width_median_um: ok ? finite(w?.median) : null,
     width_sd_um: ok ? finite(w?.sd) : null,
     width_ci95_lo_um: ok ? pair(w?.ci95, 0) : null,
     width_ci95_hi_um: ok ? pair(w?.ci95, 1) : null,
     width_n_rays: ok ? finite(w?.n) : null,
-    radius_um: finite(r?.specimen?.radiusUm),
-    separability_fisher: sepPart(r?.band?.separability, 'fisher'),
-    separability_overlap: sepPart(r?.band?.separability, 'overlap'),
+    radius_um: finite(r?.specimen.radiusUm),
+    separability_fisher: finite(sep?.fisher),
+    separability_overlap: finite(sep?.overlap),
     strain_rate_per_s: entry.strainRatePerS,
     material: entry.material,
     L_um: finite(r?.criticalDistance?.L_um),

@@ -2,13 +2,17 @@
  * The batch report: one self-contained HTML page (inline CSS and SVG, thumbnails as data: URIs,
  * no script, no external font or resource), deterministic for the same entries (no timestamp).
  */
+import { CAUTION } from '../caution.js';
 import type { BatchEntry } from './csv.js';
 import { NO_NOTCH, type SeriesAnalysis } from './series.js';
-import { escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
+import { summarise, type Figure } from './summary.js';
+import { escapeText, escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
 
-/** The engineering caution printed on every report. */
-export const CAUTION_TEXT =
-  'Measurements and critical-distance estimates from this tool support, and do not replace, the judgement of a qualified engineer. Structural assessment must follow the applicable codes, standards and the responsible organisation\u2019s procedures.';
+/**
+ * The engineering caution (the one in core/caution.ts), under the name the app and tests import.
+ * @deprecated import CAUTION from core/caution.ts
+ */
+export const CAUTION_TEXT = CAUTION;
 
 export interface ReportInput {
   title?: string;
@@ -30,43 +34,49 @@ h3{font-size:14px;margin:0 0 6px;word-break:break-all}
 table{border-collapse:collapse;font-size:12px;margin:6px 0}th,td{border:1px solid #ccc;padding:3px 6px;text-align:left;vertical-align:top}
 th{background:#f0f0f0}td.n{text-align:right;font-variant-numeric:tabular-nums;white-space:nowrap}
 .status-ok{color:#1c6b2a}.status-no-band{color:#8a6100}.status-error{color:#a01c1c;font-weight:bold}
+.quality-ok{color:#1c6b2a}.quality-check{color:#8a6100;font-weight:bold}.quality-unreliable{color:#a01c1c;font-weight:bold}
 .cards{display:flex;flex-wrap:wrap;gap:14px}.card{border:1px solid #ccc;padding:8px;width:560px;page-break-inside:avoid}
 .card .plots{display:flex;gap:6px;align-items:flex-start;flex-wrap:wrap}.card img{width:320px;max-width:100%;display:block;margin-bottom:6px;border:1px solid #eee}
 .muted{color:#666;font-size:12px}pre{background:#f6f6f6;padding:8px;font-size:11px;overflow:auto;max-height:360px}
 code{font-size:11px}
 `;
 
-function n(v: unknown, unit = '', digits = 4): string {
+function n(v: number | null | undefined, unit = '', digits = 4): string {
   if (typeof v !== 'number' || !Number.isFinite(v)) return '—';
   return unit ? `${fmt(v, digits)}\u00a0${unit}` : fmt(v, digits);
 }
 
-function interval(v: unknown, unit: string): string {
-  if (!Array.isArray(v) || typeof v[0] !== 'number' || typeof v[1] !== 'number') return '—';
+function interval(v: readonly [number, number] | null | undefined, unit: string): string {
+  if (!v || typeof v[0] !== 'number' || typeof v[1] !== 'number') return '—';
   return `${fmt(v[0], 4)}–${fmt(v[1], 4)}\u00a0${unit}`;
 }
 
+/** A summary figure as a table cell text (4 significant digits, unit). */
+function cell(f: Figure | null | undefined): string {
+  return n(f?.value, f?.unit ?? '');
+}
+
 function summaryRow(e: BatchEntry): string {
-  const r = e.result;
-  const w = r?.band?.widthUm;
-  const ok = e.status === 'ok';
-  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (r?.band?.reason ?? 'no band found') : '';
+  const s = e.result ? summarise(e.result) : null;
+  const w = e.status === 'ok' && s?.band.detected ? s.band : null;
+  const note = e.error ? `${e.error.code}: ${e.error.message}` : e.status === 'no-band' ? (s && !s.band.detected ? s.band.reason : 'no band found') : '';
   const cells = [
     `<td><a href="#img-${esc(e.safeName)}">${esc(e.file)}</a></td>`,
     `<td>${esc(e.metadata.specimen_id ?? '')}</td>`,
     `<td>${esc(e.metadata.notch ?? '')}</td>`,
     `<td class="status-${e.status}">${e.status}</td>`,
-    `<td class="n">${n(r?.scale?.umPerPx, 'µm/px')}${r?.scale?.source ? ` <span class="muted">(${esc(r.scale.source)})</span>` : ''}</td>`,
-    `<td class="n">${ok ? n(w?.mean, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? n(w?.median, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? n(w?.sd, 'µm') : '—'}</td>`,
-    `<td class="n">${ok ? interval(w?.ci95, 'µm') : '—'}</td>`,
-    `<td class="n">${n(r?.specimen?.radiusUm, 'µm')}</td>`,
-    `<td class="n">${n(typeof r?.band?.separability === 'number' ? r.band.separability : r?.band?.separability?.fisher)}</td>`,
+    `<td class="quality-${s?.quality.verdict ?? 'none'}"${s?.quality.reasons.length ? ` title="${esc(s.quality.reasons.map((w) => w.code).join(', '))}"` : ''}>${s?.quality.verdict ?? '—'}</td>`,
+    `<td class="n">${cell(s?.scale.umPerPx)}${s ? ` <span class="muted">(${esc(s.scale.source)})</span>` : ''}</td>`,
+    `<td class="n">${w ? cell(w.mean) : '—'}</td>`,
+    `<td class="n">${w ? cell(w.median) : '—'}</td>`,
+    `<td class="n">${w ? cell(w.sd) : '—'}</td>`,
+    `<td class="n">${w && w.ci95.lo !== null && w.ci95.hi !== null ? interval([w.ci95.lo, w.ci95.hi], w.ci95.unit) : '—'}</td>`,
+    `<td class="n">${cell(s?.specimen.radius)}</td>`,
+    `<td class="n">${cell(s?.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
-    `<td class="n">${n(r?.criticalDistance?.L_um, 'µm')}</td>`,
-    `<td class="n">${n(r?.comparison?.ratio)}</td>`,
-    `<td>${esc(r?.comparison?.verdict ?? '')}</td>`,
+    `<td class="n">${cell(s?.criticalDistance?.L)}</td>`,
+    `<td class="n">${cell(s?.comparison?.ratio)}</td>`,
+    `<td>${esc(s?.comparison?.verdict ?? '')}</td>`,
     `<td>${esc(note)}</td>`,
   ];
   return `<tr class="image-row">${cells.join('')}</tr>`;
@@ -75,15 +85,17 @@ function summaryRow(e: BatchEntry): string {
 /** One image's card: overlay, width histogram, polar profile, warnings, SHA-256 (also the body of the single-image report). */
 export function card(e: BatchEntry, thumb: string | undefined): string {
   const r = e.result;
-  const prof = r?.band?.profile ?? [];
+  const prof = r?.band.profile ?? [];
   const widths = prof.filter((p) => p.valid && typeof p.widthUm === 'number').map((p) => p.widthUm as number);
   const img = thumb ? `<img src="${thumb}" alt="overlay of ${esc(e.file)}">` : '<p class="muted">no overlay</p>';
   const body =
     e.status === 'error'
       ? `<p class="status-error">${esc(e.error?.code ?? 'ERROR')}: ${esc(e.error?.message ?? '')}</p>`
       : `<div class="plots">${histogramSvg(widths, { width: 260, height: 170 })}${polarProfileSvg(prof, { size: 200 })}</div>`;
-  const warn = (r?.warnings ?? []).map((w) => `<li>${esc(w)}</li>`).join('');
-  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
+  const s = r ? summarise(r) : null;
+  const warn = (r?.warnings ?? []).map((w) => `<li>${esc(w.message)} <code>${esc(w.code)}</code></li>`).join('');
+  const quality = s ? `<p class="quality-${s.quality.verdict}">quality: ${esc(s.quality.headline)}</p>` : '';
+  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${quality}${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
 }
 
 /**
@@ -123,9 +135,9 @@ export function buildReportHtml(input: ReportInput): string {
 <body>
 <h1>${esc(title)}</h1>
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
-<div class="caution"><strong>Caution.</strong> ${esc(CAUTION_TEXT)}</div>
+<div class="caution"><strong>Caution.</strong> ${escapeText(CAUTION)}</div>
 <h2>Summary</h2>
-<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
+<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>
 <h2>Series: band width against strain rate</h2>
 ${seriesPlotSvg(series)}

@@ -21,6 +21,11 @@ export function escapeXml(s: string): string {
   return s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
 }
 
+/** Escapes text content (not attribute values): only &, < and > need it there. */
+export function escapeText(s: string): string {
+  return s.replace(/[&<>]/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;' })[c]!);
+}
+
 /** Short number text: up to `digits` significant digits, no exponent for ordinary magnitudes. */
 export function fmt(v: number, digits = 3): string {
   if (!Number.isFinite(v)) return 'n/a';

@@ -1,10 +1,7 @@
 /** Small OpenCV helpers shared by the segmentation stages (every Mat is freed by the caller or here). */
-import { getCv } from '../cv.js';
+import { getCv, type Mat } from '../cv.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import type { Point } from '../measure/geometry.js';
-
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type Mat = any;
+import type { PointPx } from '../image/geometry.js';
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {
@@ -182,7 +179,7 @@ export function fillHoles(mask: Mask): void {
  * the largest one, the one whose centroid is nearest `target` (or containing it). Returns the
  * kept mask, or null when the mask is empty.
  */
-export function keepComponent(mask: Mask, target: Point, minFraction = 0.25): Mask | null {
+export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): Mask | null {
   const cv = getCv();
   const m = maskToMat(mask);
   const labels = new cv.Mat();
@@ -222,7 +219,7 @@ export function keepComponent(mask: Mask, target: Point, minFraction = 0.25): Ma
 }
 
 /** Outer contour (largest external contour, every boundary pixel) of a mask, px. */
-export function outerContour(mask: Mask): Point[] {
+export function outerContour(mask: Mask): PointPx[] {
   const cv = getCv();
   const m = maskToMat(mask);
   const contours = new cv.MatVector();
@@ -243,7 +240,7 @@ export function outerContour(mask: Mask): Point[] {
     if (best < 0) return [];
     const c = contours.get(best);
     const d = c.data32S as Int32Array;
-    const pts: Point[] = [];
+    const pts: PointPx[] = [];
     for (let i = 0; i < c.rows; i++) pts.push({ x: d[2 * i], y: d[2 * i + 1] });
     c.delete();
     return pts;

@@ -1,6 +1,6 @@
 /** Circle and ellipse fits to contour points. */
 import { getCv } from '../cv.js';
-import type { Point } from '../measure/geometry.js';
+import type { PointPx } from '../image/geometry.js';
 
 /** Fitted circle, px. rmsResidualPx = RMS of the geometric distances |‖p − c‖ − R|. */
 export interface CircleFit {
@@ -45,7 +45,7 @@ function solve3(a: number[][], b: number[]): number[] | null {
  * @param pts - contour points, px (at least 3, not collinear)
  * @returns centre, radius and RMS geometric residual in px, or null when degenerate
  */
-export function fitCircle(pts: readonly Point[]): CircleFit | null {
+export function fitCircle(pts: readonly PointPx[]): CircleFit | null {
   const n = pts.length;
   if (n < 3) return null;
   let mx = 0;
@@ -107,7 +107,7 @@ export function fitCircle(pts: readonly Point[]): CircleFit | null {
  * @param pts - contour points, px (at least 5)
  * @returns the ellipse in px and degrees, or null when degenerate
  */
-export function fitEllipseToPoints(pts: readonly Point[]): EllipseFit | null {
+export function fitEllipseToPoints(pts: readonly PointPx[]): EllipseFit | null {
   if (pts.length < 5) return null;
   const cv = getCv();
   const flat = new Float32Array(pts.length * 2);

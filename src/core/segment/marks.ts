@@ -5,7 +5,8 @@
  * background level, and rays whose outer edge ends in such a box are not measured
  * (measureBand's `markBoxes`).
  */
-import type { BoxPx, ScaleBar } from '../calibrate/scaleBar.js';
+import type { ScaleBar } from '../calibrate/scaleBar.js';
+import type { BoxPx } from '../image/geometry.js';
 import { createRaster, type GrayRaster } from '../image/raster.js';
 import { inBoxes } from '../measure/geometry.js';
 

@@ -4,8 +4,10 @@
  * centre, holes filled; rim = the rest of the specimen, touching the outer edge).
  */
 import { FractozoneError } from '../errors.js';
+import { warn, type Warning } from '../warnings.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { type Point, buildRayIndex, castRay } from '../measure/geometry.js';
+import type { PointPx } from '../image/geometry.js';
+import { buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';
@@ -17,7 +19,7 @@ export interface RimCoreOptions {
   /** Full-resolution px per feature px (default image width / feature width). */
   featureScale?: number;
   /** Ray origin / topological centre, px (default: the specimen's fitted circle centre). */
-  center?: Point;
+  center?: PointPx;
   /** Fisher ratio below which the result is refused (default 0.5). */
   minFisher?: number;
   /** Fisher ratio below which a warning is given (default 4). */
@@ -63,11 +65,11 @@ export interface RimCoreResult {
   detected: boolean;
   /** Why nothing was detected (detected = false). */
   reason?: string;
-  warnings: string[];
+  warnings: Warning[];
   /** Core mask at feature resolution (holes filled), null when no core was found. */
   coreMask: Mask | null;
   /** Core outer contour, px at full resolution (null when not detected). */
-  boundary: Point[] | null;
+  boundary: PointPx[] | null;
   separability: Separability;
   /** Fraction of rays on which the core comes within ~one window of the outer edge. */
   coreAtEdgeFraction: number;
@@ -206,30 +208,8 @@ function addClampedZ(lg: Float32Array, med: number, spread: number, nF: number, 
   }
 }
 
-/**
- * Classify the specimen into smooth rim and rough core.
- *
- * Combination of features: each feature f is log-transformed, centred on its median and divided
- * by its robust spread (IQR/1.349) over the specimen interior, and the z-scores are averaged (all
- * features grow with roughness). The combined feature is thresholded by Otsu (1979); the rough
- * class is cleaned by a closing then an opening with a radius of 0.35 window; pixels within half a
- * window of the outer edge are never rough (their window sees the background edge). Topology: the
- * core is the rough component containing (or nearest) the centre, holes filled; the rim is the
- * rest of the specimen.
- *
- * Refusal (detected = false, with a reason, never a number): no core component; Fisher ratio
- * < minFisher (0.5) or overlap > maxOverlap (0.5) between the two topological classes (transition
- * zone of ± half a window excluded); the core within ~one window of the outer edge on more than
- * maxCoreAtEdgeFraction (80 %) of the rays; almost no rim pixels. Warnings: Fisher < 4,
- * overlap > 0.2, core at the edge on > 20 % of the rays. These thresholds are our own choice
- * (common practice for two-class separability, no source), tuned on synthetic images.
- *
- * @param specimen - from findSpecimen (full resolution)
- * @param features - one or more roughness rasters (same size as the image, or downsampled by featureScale)
- * @param opts - window size (px, full resolution) and thresholds
- * @returns the core mask, boundary polygon (px, full resolution) and separability report
- */
-export function classifyRimCore(specimen: Specimen, features: readonly GrayRaster[], opts: RimCoreOptions): RimCoreResult {
+/** Checks the inputs; returns the feature size and the full-resolution px per feature px. */
+function checkInputs(specimen: Specimen, features: readonly GrayRaster[], opts: RimCoreOptions): { fw: number; fh: number; s: number } {
   if (!features.length) throw new FractozoneError('BAD_PARAMETER', 'At least one roughness feature is needed to classify rim and core.');
   const fw = features[0].width;
   const fh = features[0].height;
@@ -241,25 +221,17 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   if (Math.abs(fw * s - specimen.mask.width) > s + 1 || Math.abs(fh * s - specimen.mask.height) > s + 1) {
     throw new FractozoneError('BAD_PARAMETER', 'The feature rasters do not match the image size at the given scale factor.');
   }
-  const centerFull = opts.center ?? { x: specimen.circle.cx, y: specimen.circle.cy };
-  const toFeat = (p: Point): Point => ({ x: (p.x + 0.5) / s - 0.5, y: (p.y + 0.5) / s - 0.5 });
-  const toFull = (p: Point): Point => ({ x: (p.x + 0.5) * s - 0.5, y: (p.y + 0.5) * s - 0.5 });
-  const wF = opts.windowPx / s; // window in feature px
-  const half = Math.max(1, Math.ceil(wF / 2));
-  const spec = maskAtScale(specimen.mask, fw, fh, s);
-  const interior = erodeMask(spec, half);
-  const n = fw * fh;
+  return { fw, fh, s };
+}
 
-  // combined, normalised log-feature
-  const comb = new Float32Array(n);
-  const idx = indicesOf(interior.data);
-  const warnings: string[] = [];
-  const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
-  const fail = (reason: string, extra: Partial<RimCoreResult> = {}): RimCoreResult => ({
-    detected: false, reason, warnings, coreMask: null, boundary: null, separability: empty, coreAtEdgeFraction: NaN,
-    combined: createRaster(fw, fh, comb), featureScale: s, ...extra,
-  });
-  if (idx.length < 50) return fail('the specimen is too small for the texture window');
+/**
+ * The combined feature: per feature the transform (log unless 'identity'), minus p·log(local mean
+ * brightness), a robust z-score over the interior pixels `idx` winsorised at ±Z_CLAMP; the mean
+ * over the features.
+ */
+function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, idx: Int32Array, comb: Float32Array): void {
+  const n = comb.length;
+  const { width: fw, height: fh } = features[0];
   // log brightness is shared by every brightness-normalised feature: computed once
   let logBm: Float64Array | null = null;
   const lg = new Float32Array(n);
@@ -287,20 +259,29 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     // into the rim class.
     addClampedZ(lg, med, spread, nF, comb);
   }
+}
+
+/** Otsu's threshold on the interior values of the combined feature, its 0.5–99.5 % range and Otsu's η. */
+function otsuSplit(comb: Float32Array, idx: Int32Array): { t: number; lo: number; hi: number; eta: number } {
   const vals = new Float32Array(idx.length);
   gather(comb, idx, vals);
   const [lo, hi] = quantiles(vals, [0.005, 0.995]);
   const t = otsuThreshold(vals, lo, hi);
-  // Otsu η
   const [mAll, vAll] = meanVar(vals);
   const [sa, na, sb] = splitSums(vals, t);
   const nb0 = vals.length - na;
   const ma = sa / na;
   const mb = sb / nb0;
   const eta = vAll > 0 && na && nb0 ? ((na / vals.length) * (ma - mAll) ** 2 + (nb0 / vals.length) * (mb - mAll) ** 2) / vAll : 0;
+  return { t, lo, hi, eta };
+}
 
-  // rough class, restricted to the interior, cleaned
-  const rough = createMask(fw, fh);
+/**
+ * The rough class (combined feature above t, interior only), cleaned by a closing then an opening
+ * of radius 0.35 window; the component containing (or nearest) the centre, holes filled; or null.
+ */
+function roughCore(comb: Float32Array, idx: Int32Array, t: number, interior: Mask, wF: number, centre: PointPx): Mask | null {
+  const rough = createMask(interior.width, interior.height);
   markAbove(comb, idx, t, rough.data);
   const rm = Math.max(1, Math.round(0.35 * wF));
   const mm = maskToMat(rough);
@@ -313,19 +294,22 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     mm.delete();
   }
   andMask(cleaned.data, interior.data);
-  const cF = toFeat(centerFull);
-  const core = keepComponent(cleaned, cF, 0.25);
-  if (!core) return fail('no rough core was found around the centre');
-  fillHoles(core);
-  const contourF = outerContour(core);
-  if (contourF.length < 8) return fail('the rough core is too small to have a boundary');
-  const boundary = contourF.map(toFull);
+  const core = keepComponent(cleaned, centre, 0.25);
+  if (core) fillHoles(core);
+  return core;
+}
 
-  // separability on the topological classes, transition zone (± half window) left out
+/**
+ * Separability of the two topological classes on the combined feature, the transition zone
+ * (± `half` feature px around the core edge) left out; also the numbers of rim samples.
+ */
+function separabilityOf(
+  spec: Mask, core: Mask, interior: Mask, half: number, comb: Float32Array, nIdx: number, split: { t: number; lo: number; hi: number; eta: number },
+): { separability: Separability; nRim: number } {
   const coreIn = erodeMask(core, half);
   const coreOut = dilateMask(core, half);
-  const cvBuf = new Float32Array(idx.length);
-  const rvBuf = new Float32Array(idx.length);
+  const cvBuf = new Float32Array(nIdx);
+  const rvBuf = new Float32Array(nIdx);
   const [nCv, nRv, nCore, nSpec] = splitClasses(spec.data, core.data, interior.data, coreIn.data, coreOut.data, comb, cvBuf, rvBuf);
   const cv = cvBuf.subarray(0, nCv);
   const rv = rvBuf.subarray(0, nRv);
@@ -338,16 +322,18 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     const nb = 64;
     const hc = new Float64Array(nb);
     const hr = new Float64Array(nb);
-    histogramInto(cv, lo, hi, hc);
-    histogramInto(rv, lo, hi, hr);
+    histogramInto(cv, split.lo, split.hi, hc);
+    histogramInto(rv, split.lo, split.hi, hr);
     overlap = 0;
     for (let k = 0; k < nb; k++) overlap += Math.min(hc[k], hr[k]);
   }
-  const separability: Separability = { fisher, overlap, eta, coreFraction, rimFraction: 1 - coreFraction, threshold: t };
+  return { separability: { fisher, overlap, eta: split.eta, coreFraction, rimFraction: 1 - coreFraction, threshold: split.t }, nRim: rv.length };
+}
 
-  // where does the core come within ~one window of the outer edge?
-  const oIdx = buildRayIndex(specimen.contour, centerFull);
-  const bIdx = buildRayIndex(boundary, centerFull);
+/** Fraction of 1° rays on which the core comes within 0.75 window + 1.5 feature px of the outer edge. */
+function coreAtEdgeFractionOf(contour: readonly PointPx[], boundary: readonly PointPx[], center: PointPx, windowPx: number, s: number): number {
+  const oIdx = buildRayIndex(contour, center);
+  const bIdx = buildRayIndex(boundary, center);
   let nAt = 0;
   let nR = 0;
   for (let k = 0; k < 360; k++) {
@@ -355,23 +341,80 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     const hb = castRay(bIdx, k);
     if (!ho.length) continue;
     nR++;
-    if (!hb.length || ho[ho.length - 1] - hb[hb.length - 1] < opts.windowPx * 0.75 + 1.5 * s) nAt++;
+    if (!hb.length || ho[ho.length - 1] - hb[hb.length - 1] < windowPx * 0.75 + 1.5 * s) nAt++;
   }
-  const coreAtEdgeFraction = nR ? nAt / nR : 1;
-  const base = { warnings, coreMask: core, boundary, separability, coreAtEdgeFraction, combined: createRaster(fw, fh, comb), featureScale: s };
+  return nR ? nAt / nR : 1;
+}
+
+/** Refusals (no rim, not separable) and warnings (weak contrast, overlap, band missing in places). */
+function verdict(base: Omit<RimCoreResult, 'detected' | 'reason'>, nRim: number, opts: RimCoreOptions): RimCoreResult {
+  const { fisher, overlap } = base.separability;
   const fmt = (v: number): string => v.toFixed(2);
   const minFisher = opts.minFisher ?? 0.5;
   const maxOverlap = opts.maxOverlap ?? 0.5;
-  if (rv.length < 20) return { ...base, detected: false, reason: 'no smooth rim: the rough core fills the section' };
-  if (coreAtEdgeFraction > (opts.maxCoreAtEdgeFraction ?? 0.8)) {
-    return { ...base, detected: false, reason: `no smooth rim: the rough core reaches the outer edge on ${(coreAtEdgeFraction * 100).toFixed(0)} % of the circumference` };
+  if (nRim < 20) return { ...base, detected: false, reason: 'no smooth rim: the rough core fills the section' };
+  if (base.coreAtEdgeFraction > (opts.maxCoreAtEdgeFraction ?? 0.8)) {
+    return { ...base, detected: false, reason: `no smooth rim: the rough core reaches the outer edge on ${(base.coreAtEdgeFraction * 100).toFixed(0)} % of the circumference` };
   }
   if (fisher < minFisher || overlap > maxOverlap) {
     return { ...base, detected: false, reason: `no smooth rim: rim and core textures are not separable (Fisher ratio ${fmt(fisher)}, overlap ${fmt(overlap)})` };
   }
-  if (fisher < (opts.warnFisher ?? 4)) warnings.push(`weak texture contrast between rim and core (Fisher ratio ${fmt(fisher)} < ${opts.warnFisher ?? 4})`);
-  if (overlap > (opts.warnOverlap ?? 0.2)) warnings.push(`rim and core texture histograms overlap by ${fmt(overlap)}`);
-  if (coreAtEdgeFraction > 0.2) warnings.push(`the band seems missing on ${(coreAtEdgeFraction * 100).toFixed(0)} % of the circumference`);
+  const warnings = base.warnings;
+  if (fisher < (opts.warnFisher ?? 4)) warnings.push(warn('WEAK_TEXTURE_CONTRAST', `weak texture contrast between rim and core (Fisher ratio ${fmt(fisher)} < ${opts.warnFisher ?? 4})`));
+  if (overlap > (opts.warnOverlap ?? 0.2)) warnings.push(warn('TEXTURE_OVERLAP', `rim and core texture histograms overlap by ${fmt(overlap)}`));
+  if (base.coreAtEdgeFraction > 0.2) warnings.push(warn('BAND_MISSING_IN_PLACES', `the band seems missing on ${(base.coreAtEdgeFraction * 100).toFixed(0)} % of the circumference`));
   return { ...base, detected: true };
 }
 
+/**
+ * Classify the specimen into smooth rim and rough core.
+ *
+ * Combination of features: each feature f is log-transformed, centred on its median and divided
+ * by its robust spread (IQR/1.349) over the specimen interior, and the z-scores are averaged (all
+ * features grow with roughness). The combined feature is thresholded by Otsu (1979); the rough
+ * class is cleaned by a closing then an opening with a radius of 0.35 window; pixels within half a
+ * window of the outer edge are never rough (their window sees the background edge). Topology: the
+ * core is the rough component containing (or nearest) the centre, holes filled; the rim is the
+ * rest of the specimen.
+ *
+ * Refusal (detected = false, with a reason, never a number): no core component; Fisher ratio
+ * < minFisher (0.5) or overlap > maxOverlap (0.5) between the two topological classes (transition
+ * zone of ± half a window excluded); the core within ~one window of the outer edge on more than
+ * maxCoreAtEdgeFraction (80 %) of the rays; almost no rim pixels. Warnings: Fisher < 4,
+ * overlap > 0.2, core at the edge on > 20 % of the rays. These thresholds are our own choice
+ * (common practice for two-class separability, no source), tuned on synthetic images.
+ *
+ * @param specimen - from findSpecimen (full resolution)
+ * @param features - one or more roughness rasters (same size as the image, or downsampled by featureScale)
+ * @param opts - window size (px, full resolution) and thresholds
+ * @returns the core mask, boundary polygon (px, full resolution) and separability report
+ */
+export function classifyRimCore(specimen: Specimen, features: readonly GrayRaster[], opts: RimCoreOptions): RimCoreResult {
+  const { fw, fh, s } = checkInputs(specimen, features, opts);
+  const centerFull = opts.center ?? { x: specimen.circle.cx, y: specimen.circle.cy };
+  const toFeat = (p: PointPx): PointPx => ({ x: (p.x + 0.5) / s - 0.5, y: (p.y + 0.5) / s - 0.5 });
+  const toFull = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * s - 0.5, y: (p.y + 0.5) * s - 0.5 });
+  const wF = opts.windowPx / s; // window in feature px
+  const half = Math.max(1, Math.ceil(wF / 2));
+  const spec = maskAtScale(specimen.mask, fw, fh, s);
+  const interior = erodeMask(spec, half);
+  const comb = new Float32Array(fw * fh);
+  const idx = indicesOf(interior.data);
+  const warnings: Warning[] = [];
+  const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
+  const fail = (reason: string): RimCoreResult => ({
+    detected: false, reason, warnings, coreMask: null, boundary: null, separability: empty, coreAtEdgeFraction: NaN,
+    combined: createRaster(fw, fh, comb), featureScale: s,
+  });
+  if (idx.length < 50) return fail('the specimen is too small for the texture window');
+  combineFeatures(features, opts, idx, comb);
+  const split = otsuSplit(comb, idx);
+  const core = roughCore(comb, idx, split.t, interior, wF, toFeat(centerFull));
+  if (!core) return fail('no rough core was found around the centre');
+  const contourF = outerContour(core);
+  if (contourF.length < 8) return fail('the rough core is too small to have a boundary');
+  const boundary = contourF.map(toFull);
+  const { separability, nRim } = separabilityOf(spec, core, interior, half, comb, idx.length, split);
+  const coreAtEdgeFraction = coreAtEdgeFractionOf(specimen.contour, boundary, centerFull, opts.windowPx, s);
+  return verdict({ warnings, coreMask: core, boundary, separability, coreAtEdgeFraction, combined: createRaster(fw, fh, comb), featureScale: s }, nRim, opts);
+}

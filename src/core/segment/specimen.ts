@@ -2,10 +2,10 @@
  * Specimen outline: separate the fracture surface from a dark or bright background, fill holes,
  * keep the specimen component, trace its outer contour and fit a circle and an ellipse.
  */
-import { getCv } from '../cv.js';
+import { getCv, type Mat } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import type { Point } from '../measure/geometry.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat, rectMorph } from './cvutil.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 import { inBoxes } from '../measure/geometry.js';
@@ -23,14 +23,14 @@ export interface SpecimenOptions {
    * points on the frame: painted-out scale marks, where the outline is the mark's, not the
    * specimen's (default none).
    */
-  excludeBoxes?: ReadonlyArray<{ x: number; y: number; w: number; h: number }>;
+  excludeBoxes?: readonly BoxPx[];
 }
 
 /** Result of {@link findSpecimen}; all coordinates px at full resolution. */
 export interface Specimen {
   mask: Mask;
   /** Outer contour, every boundary pixel (pixel centres of the outermost specimen pixels). */
-  contour: Point[];
+  contour: PointPx[];
   circle: CircleFit;
   ellipse: EllipseFit;
   areaPx: number;
@@ -137,7 +137,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
   const contour = outerContour(mask);
-  const onFrame = (p: Point): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
+  const onFrame = (p: PointPx): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
   const inner = contour.filter((p) => !onFrame(p));
   const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
   const marks = opts.excludeBoxes ?? [];
@@ -154,8 +154,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   };
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-function addTexture(small: any, m: Mask, _nBorder: number, w: number, h: number): void {
+function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number): void {
   const cv = getCv();
   const mean = new cv.Mat();
   const sq = new cv.Mat();

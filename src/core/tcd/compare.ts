@@ -109,6 +109,13 @@ export function compareWidthWithL(input: CompareInput): CompareResult {
   return { reference, referenceUm: refUm, ratio, ratioInterval95: interval, verdict, tolerancePct: X, note: note[verdict] };
 }
 
+/** Toughness implied by a band width: K in MPa·√m, its 95 % interval, and the L the width stands for (µm). */
+export interface ImpliedToughness {
+  K_MPa_sqrtm: number;
+  interval95_MPa_sqrtm: [number, number] | null;
+  L_um: number;
+}
+
 /**
  * Fracture toughness implied by a measured band width, taking the width as the reference length
  * (L, L/2 or 2L): L = w / factor and K = σ_0·√(π·L) (inverse of L = (1/π)(K/σ_0)², Taylor 2007).
@@ -122,7 +129,7 @@ export function impliedToughness(
   widthUm: { mean: number; ci95?: [number, number] | null },
   sigma0_MPa: number,
   options: { sigma0Sd_MPa?: number; reference?: WidthReference } = {},
-): { K_MPa_sqrtm: number; interval95_MPa_sqrtm: [number, number] | null; L_um: number } {
+): ImpliedToughness {
   const reference = options.reference ?? 'L';
   if (!(Number.isFinite(widthUm.mean) && widthUm.mean > 0)) throw new FractozoneError('BAD_PARAMETER', `band width must be positive, got ${widthUm.mean} µm`);
   if (!(Number.isFinite(sigma0_MPa) && sigma0_MPa > 0)) throw new FractozoneError('BAD_PARAMETER', `inherent strength must be positive, got ${sigma0_MPa} MPa`);

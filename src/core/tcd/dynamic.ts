@@ -14,7 +14,7 @@
  */
 import { linearRegression, rSquared } from 'simple-statistics';
 import { FractozoneError } from '../errors.js';
-import { studentTQuantile } from './student-t.js';
+import { studentTQuantile } from './studentT.js';
 
 /** Statistics of a power-law fit, kept so that evaluations can carry an interval. */
 export interface PowerFitStats {

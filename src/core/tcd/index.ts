@@ -1,5 +1,5 @@
 /** Theory of Critical Distances: critical distance, stress fields, fits, rate laws, uncertainty, comparison, material sheets. */
-export { criticalDistance, toughnessFromDistance, methodDistances, type MethodDistances, type TcdMethod } from './critical-distance.js';
+export { criticalDistance, toughnessFromDistance, methodDistances, type MethodDistances, type TcdMethod } from './criticalDistance.js';
 export {
   MPA_PER_KSI,
   MPA_SQRTM_PER_KSI_SQRTIN,
@@ -24,8 +24,8 @@ export {
   maxCriticalDistance,
   type StressCurve,
   type AnalysisKind,
-} from './stress-curve.js';
-export { parseCurveCsv, type ParsedCurve } from './curve-csv.js';
+} from './stressCurve.js';
+export { parseCurveCsv, type ParsedCurve } from './curveCsv.js';
 export {
   predictFailureLoad,
   fitNotches,
@@ -34,10 +34,10 @@ export {
   type NotchSpecimen,
   type NotchFit,
   type FitNotchesOptions,
-} from './notch-fit.js';
-export { parseRatePairsCsv, type RatePairs } from './rate-csv.js';
+} from './notchFit.js';
+export { parseRatePairsCsv, type RatePairs } from './rateCsv.js';
 export { fitPowerLaw, evaluateRateLaw, type RateLaw, type PowerLawFit, type PowerFitStats, type RateValue } from './dynamic.js';
-export { studentTQuantile, studentTCdf } from './student-t.js';
+export { studentTQuantile, studentTCdf } from './studentT.js';
 export { criticalDistanceUncertainty, scatterMoments, type Scatter, type DistanceUncertainty } from './uncertainty.js';
 export {
   compareWidthWithL,
@@ -45,6 +45,7 @@ export {
   DEFAULT_TOLERANCE_PCT,
   type CompareInput,
   type CompareResult,
+  type ImpliedToughness,
   type Verdict,
   type WidthReference,
 } from './compare.js';

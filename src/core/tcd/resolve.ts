@@ -3,7 +3,8 @@
  * typed values, optionally at a strain rate, with its uncertainty and the method distances.
  */
 import { FractozoneError } from '../errors.js';
-import { criticalDistance, methodDistances, type MethodDistances } from './critical-distance.js';
+import { warn, type Warning } from '../warnings.js';
+import { criticalDistance, methodDistances, type MethodDistances } from './criticalDistance.js';
 import { evaluateRateLaw } from './dynamic.js';
 import type { Material, MaterialValue } from './materials.js';
 import { criticalDistanceUncertainty, type Scatter } from './uncertainty.js';
@@ -59,7 +60,7 @@ export interface ResolvedDistance extends MethodDistances {
     strainRate_per_s: number | null;
   };
   monteCarlo: { draws: number; seed: number } | null;
-  warnings: string[];
+  warnings: Warning[];
 }
 
 function echo(q: QuantityInput | MaterialValue, unit: string, fallbackSource: string): EchoedValue {
@@ -99,13 +100,13 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
   const fromMat = (q: unknown): string => (q !== undefined && m && (q === m.fractureToughness || q === m.inherentStrength) ? `material sheet` : 'command line');
   const toughness = echo(kIn, 'MPa·√m', fromMat(kIn));
   const strength = echo(sIn, 'MPa', fromMat(sIn));
-  const warnings: string[] = [];
+  const warnings: Warning[] = [];
   const seed = input.seed ?? 1;
   const draws = input.draws ?? 20000;
   const base = {
     inputs: { material: m?.name ?? null, invented: m ? m.invented : null, toughness, strength, strainRate_per_s: input.strainRate ?? null },
   };
-  if (m?.invented) warnings.push(`material "${m.name}" is invented demo data`);
+  if (m?.invented) warnings.push(warn('INVENTED_MATERIAL', `material "${m.name}" is invented demo data`));
 
   if (input.strainRate !== undefined) {
     const rate = input.strainRate;
@@ -115,11 +116,11 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
     }
     if (dyn.L) {
       const r = evaluateRateLaw(dyn.L, rate, input.allowExtrapolation);
-      if (r.warning) warnings.push(r.warning);
+      if (r.warning) warnings.push(warn('RATE_EXTRAPOLATED', r.warning));
       let strengthEcho = strength;
       if (dyn.sigma0) {
         const s = evaluateRateLaw(dyn.sigma0, rate, input.allowExtrapolation);
-        if (s.warning) warnings.push(s.warning);
+        if (s.warning) warnings.push(warn('RATE_EXTRAPOLATED', s.warning));
         strengthEcho = { value: s.value, unit: 'MPa', sd: null, interval95: null, source: `${dyn.sigma0.source} (at ${rate} /s)` };
       }
       return {
@@ -131,16 +132,16 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
         basis: 'strain-rate law for L',
         inputs: { ...base.inputs, strength: strengthEcho },
         monteCarlo: null,
-        warnings: [...warnings, `L from the strain-rate law (${dyn.L.source}); the static toughness is not used`],
+        warnings: [...warnings, warn('L_FROM_RATE_LAW', `L from the strain-rate law (${dyn.L.source}); the static toughness is not used`)],
       };
     }
     const s = evaluateRateLaw(dyn.sigma0 as NonNullable<typeof dyn.sigma0>, rate, input.allowExtrapolation);
-    if (s.warning) warnings.push(s.warning);
+    if (s.warning) warnings.push(warn('RATE_EXTRAPOLATED', s.warning));
     strength.value = s.value;
     strength.sd = null;
     strength.interval95 = null;
     strength.source = `${(dyn.sigma0 as { source: string }).source} (at ${rate} /s)`;
-    warnings.push('σ_0 from its strain-rate law with the static fracture toughness');
+    warnings.push(warn('SIGMA0_FROM_RATE_LAW', 'σ_0 from its strain-rate law with the static fracture toughness'));
   }
 
   const { L_um } = criticalDistance(toughness.value, strength.value);

@@ -11,7 +11,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import { createRng, percentileSorted, type Rng } from '../random.js';
-import { criticalDistance } from './critical-distance.js';
+import { criticalDistance } from './criticalDistance.js';
 
 /** A scattered input: normal (mean ± sd, truncated at > 0) or uniform on [lo, hi]. */
 export type Scatter = { mean: number; sd: number } | { lo: number; hi: number };

@@ -7,6 +7,7 @@ import { createRaster, type GrayRaster } from '../image/raster.js';
 import { boxMeanInto } from './boxMean.js';
 import { planStrips } from './kernels/strips.js';
 import type { FeatureDefinition } from './types.js';
+import { DEFAULT_WINDOW_RULE } from './window.js';
 import { checkRaster, checkWindowFits, nonFinite } from './validate.js';
 
 /**
@@ -88,5 +89,8 @@ export const gradientEnergyFeature: FeatureDefinition = {
   unit: 'gray level² (Sobel scale)',
   description: 'window mean of the squared 3×3 Sobel gradient magnitude',
   linearInAreaFraction: true,
+  transform: 'log',
+  gainPower: 2,
+  defaultWindow: DEFAULT_WINDOW_RULE,
   compute: (r, o) => gradientEnergy(r, o.windowPx),
 };

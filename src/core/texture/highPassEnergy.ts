@@ -4,6 +4,7 @@
 import { createRaster, type GrayRaster } from '../image/raster.js';
 import { boxMeanInto } from './boxMean.js';
 import type { FeatureDefinition } from './types.js';
+import { DEFAULT_WINDOW_RULE } from './window.js';
 import { checkRaster, checkWindowFits, nonFinite } from './validate.js';
 
 /**
@@ -59,5 +60,8 @@ export const highPassEnergyFeature: FeatureDefinition = {
   unit: 'gray level² (0..1)',
   description: 'window mean of the squared deviation from the local mean',
   linearInAreaFraction: true,
+  transform: 'log',
+  gainPower: 2,
+  defaultWindow: DEFAULT_WINDOW_RULE,
   compute: (r, o) => highPassEnergy(r, o.windowPx),
 };

@@ -18,16 +18,18 @@ export {
   DEFAULT_WINDOW_MIN_PX,
   DEFAULT_WINDOW_MAX_PX,
   DEFAULT_WINDOW_RADIUS_FRACTION,
+  DEFAULT_WINDOW_RULE,
   ASSUMED_RADIUS_FRACTION_OF_IMAGE,
   type DefaultWindowInput,
+  type WindowRule,
 } from './window.js';
 export {
   FEATURES,
-  CORE_FEATURES,
+  FEATURE_NAMES,
+  DEFAULT_FEATURES,
   computeFeature,
-  computeFeaturesAt,
   isFeatureName,
+  checkFeatureNames,
+  parseFeatureList,
   type FeatureName,
-  type FeaturesAt,
-  type FeaturesAtOptions,
 } from './registry.js';

@@ -5,6 +5,7 @@ import { FractozoneError } from '../errors.js';
 import { createRaster, type GrayRaster } from '../image/raster.js';
 import { entropyKernel } from './kernels/entropyKernel.js';
 import type { FeatureDefinition } from './types.js';
+import { DEFAULT_WINDOW_RULE } from './window.js';
 import { checkRaster, checkWindow, nonFinite } from './validate.js';
 
 /** Options of {@link localEntropy}. */
@@ -207,6 +208,9 @@ export const localEntropyFeature: FeatureDefinition = {
   unit: 'bit',
   description: 'Shannon entropy of the gray-level histogram in the window',
   linearInAreaFraction: false,
+  transform: 'identity',
+  gainPower: 0,
+  defaultWindow: DEFAULT_WINDOW_RULE,
   compute: (r, o) =>
     localEntropy(r, r.width, r.height, o.windowPx, { bins: o.bins, range: o.range, percentiles: o.percentiles }),
 };

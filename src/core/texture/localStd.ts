@@ -4,6 +4,7 @@
 import { createRaster, type GrayRaster } from '../image/raster.js';
 import { boxMomentsKernel, Moment } from './kernels/boxMomentsKernel.js';
 import type { FeatureDefinition } from './types.js';
+import { DEFAULT_WINDOW_RULE } from './window.js';
 import { checkRaster, checkWindowFits, nonFinite } from './validate.js';
 
 /**
@@ -53,6 +54,9 @@ export const localStdFeature: FeatureDefinition = {
   unit: 'gray level (0..1)',
   description: 'standard deviation of the gray levels in the window',
   linearInAreaFraction: false,
+  transform: 'log',
+  gainPower: 1,
+  defaultWindow: DEFAULT_WINDOW_RULE,
   compute: (r, o) => localStd(r, o.windowPx),
 };
 
@@ -62,5 +66,8 @@ export const localVarianceFeature: FeatureDefinition = {
   unit: 'gray level² (0..1)',
   description: 'variance of the gray levels in the window',
   linearInAreaFraction: false,
+  transform: 'log',
+  gainPower: 2,
+  defaultWindow: DEFAULT_WINDOW_RULE,
   compute: (r, o) => localVariance(r, o.windowPx),
 };

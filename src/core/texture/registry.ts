@@ -8,7 +8,6 @@ import { gradientEnergyFeature } from './gradientEnergy.js';
 import { highPassEnergyFeature } from './highPassEnergy.js';
 import { localEntropyFeature } from './localEntropy.js';
 import { localStdFeature, localVarianceFeature } from './localStd.js';
-import { downsample } from './resample.js';
 import type { FeatureDefinition, FeatureOptions } from './types.js';
 
 /** All roughness features by name. */
@@ -23,12 +22,42 @@ export const FEATURES = {
 /** Name of a registered feature. */
 export type FeatureName = keyof typeof FEATURES;
 
-/** The three features the pipeline combines by default. */
-export const CORE_FEATURES: readonly FeatureName[] = ['localStd', 'localEntropy', 'gradientEnergy'];
+/**
+ * The features the pipeline combines when none are chosen: the one default list, used by the
+ * parameters, the command line (`--features`), the app and the README.
+ */
+export const DEFAULT_FEATURES: readonly FeatureName[] = ['localStd', 'localEntropy', 'gradientEnergy'];
+
+/** Every registered feature name, in registry order. */
+export const FEATURE_NAMES = Object.keys(FEATURES) as FeatureName[];
 
 /** True when `name` is a registered feature. */
 export function isFeatureName(name: string): name is FeatureName {
   return Object.prototype.hasOwnProperty.call(FEATURES, name);
+}
+
+function unknownFeature(name: string): FractozoneError {
+  return new FractozoneError('BAD_PARAMETER', `unknown roughness feature "${name}" (known: ${FEATURE_NAMES.join(', ')})`);
+}
+
+/**
+ * Checks a list of feature names (from parameters or JSON) and returns it typed.
+ * @throws FractozoneError BAD_PARAMETER naming the first unknown feature, or for an empty list
+ */
+export function checkFeatureNames(names: readonly unknown[]): FeatureName[] {
+  if (names.length === 0) throw new FractozoneError('BAD_PARAMETER', 'at least one roughness feature is needed');
+  return names.map((n) => {
+    if (typeof n !== 'string' || !isFeatureName(n)) throw unknownFeature(String(n));
+    return n;
+  });
+}
+
+/**
+ * Parses a comma-separated feature list ("localStd,localEntropy").
+ * @throws FractozoneError BAD_PARAMETER for an unknown or no feature
+ */
+export function parseFeatureList(text: string): FeatureName[] {
+  return checkFeatureNames(text.split(',').map((s) => s.trim()).filter(Boolean));
 }
 
 /**
@@ -41,59 +70,11 @@ export function isFeatureName(name: string): name is FeatureName {
  * @returns feature map of the same size; unit in `FEATURES[name].unit`
  */
 export function computeFeature(
-  name: FeatureName | string,
+  name: FeatureName,
   raster: GrayRaster,
   windowPx: number,
   opts: Omit<FeatureOptions, 'windowPx'> = {},
 ): GrayRaster {
-  if (!isFeatureName(name)) {
-    throw new FractozoneError('BAD_PARAMETER', `unknown roughness feature "${name}" (known: ${Object.keys(FEATURES).join(', ')})`);
-  }
+  if (!isFeatureName(name)) throw unknownFeature(name);
   return FEATURES[name].compute(raster, { ...opts, windowPx });
-}
-
-/** Options of {@link computeFeaturesAt}. */
-export interface FeaturesAtOptions extends Omit<FeatureOptions, 'windowPx'> {
-  /** Full-resolution px per working px (≥ 1); 1 = full resolution. */
-  scaleFactor: number;
-  /** Odd window side in px at the working (downsampled) resolution. */
-  windowPx: number;
-  /** Features to compute; default {@link CORE_FEATURES}. */
-  features?: readonly FeatureName[];
-}
-
-/** Result of {@link computeFeaturesAt}. */
-export interface FeaturesAt {
-  /** The factor used (full-resolution px per working px, per axis as realised by rounding). */
-  scaleX: number;
-  scaleY: number;
-  /** The requested factor. */
-  scaleFactor: number;
-  /** The working raster (area-averaged). */
-  raster: GrayRaster;
-  /** Feature maps at working resolution. */
-  features: Partial<Record<FeatureName, GrayRaster>>;
-}
-
-/**
- * Computes several features on an area-averaged downsampled copy of `r` (see `downsample`), for a
- * classification at reduced resolution. A working pixel (i, j) covers full-resolution pixels
- * around ((i + 0.5)·scaleX − 0.5, (j + 0.5)·scaleY − 0.5).
- *
- * @param r gray raster (0..1) at full resolution
- * @param opts scale factor, window at working resolution, feature list, entropy options
- */
-export function computeFeaturesAt(r: GrayRaster, opts: FeaturesAtOptions): FeaturesAt {
-  const names = opts.features ?? CORE_FEATURES;
-  for (const n of names) {
-    if (!isFeatureName(n)) {
-      throw new FractozoneError('BAD_PARAMETER', `unknown roughness feature "${String(n)}" (known: ${Object.keys(FEATURES).join(', ')})`);
-    }
-  }
-  const work = downsample(r, opts.scaleFactor);
-  const { scaleFactor, windowPx, features: _ignored, ...rest } = opts;
-  void _ignored;
-  const features: Partial<Record<FeatureName, GrayRaster>> = {};
-  for (const n of names) features[n] = computeFeature(n, work, windowPx, rest);
-  return { scaleX: r.width / work.width, scaleY: r.height / work.height, scaleFactor, raster: work, features };
 }

@@ -6,6 +6,7 @@
  * pixel. Rules that all features follow are in DEVELOPERS.md ("Texture features").
  */
 import type { GrayRaster } from '../image/raster.js';
+import type { WindowRule } from './window.js';
 
 /** Options understood by {@link computeFeature}; each feature reads the fields it needs. */
 export interface FeatureOptions {
@@ -32,6 +33,20 @@ export interface FeatureDefinition {
    * two textures it is linear in their area fraction (the boundary-refinement stage relies on it).
    */
   readonly linearInAreaFraction: boolean;
+  /**
+   * Transform before the features are combined (segment/rimCore.ts): 'log' for values that scale
+   * with the texture amplitude (std, variance, energies), 'identity' for values that are already
+   * logarithmic (entropy in bits: a smooth window has entropy 0, whose log would swamp the rest).
+   */
+  readonly transform: 'log' | 'identity';
+  /**
+   * Power p of the brightness the value scales with under a multiplicative change of the light
+   * (1 for a standard deviation, 2 for a variance or an energy, 0 for entropy): the classification
+   * uses log f − p·log(local mean), so shading and vignetting do not read as texture.
+   */
+  readonly gainPower: number;
+  /** Rule for the window side when none is given (texture/window.ts). */
+  readonly defaultWindow: WindowRule;
   /** Compute the feature map (same size as `r`). */
   readonly compute: (r: GrayRaster, opts: FeatureOptions) => GrayRaster;
 }

@@ -8,6 +8,20 @@ export const DEFAULT_WINDOW_MIN_PX = 7;
 export const DEFAULT_WINDOW_MAX_PX = 31;
 /** Default window side as a fraction of the specimen radius. */
 export const DEFAULT_WINDOW_RADIUS_FRACTION = 1 / 25;
+
+/** A default-window rule: a fraction of the specimen radius, clamped to a px range at working resolution. */
+export interface WindowRule {
+  readonly radiusFraction: number;
+  readonly minPx: number;
+  readonly maxPx: number;
+}
+
+/** The rule every registered feature uses (see {@link defaultWindowUm}). */
+export const DEFAULT_WINDOW_RULE: WindowRule = {
+  radiusFraction: DEFAULT_WINDOW_RADIUS_FRACTION,
+  minPx: DEFAULT_WINDOW_MIN_PX,
+  maxPx: DEFAULT_WINDOW_MAX_PX,
+};
 /** Specimen radius assumed when unknown, as a fraction of the smaller image side. */
 export const ASSUMED_RADIUS_FRACTION_OF_IMAGE = 0.4;
 
@@ -42,6 +56,8 @@ export interface DefaultWindowInput {
   imageHeightPx?: number;
   /** Full-resolution px per working px (≥ 1) when features are computed on a downsampled image; default 1. */
   scaleFactor?: number;
+  /** The rule (default {@link DEFAULT_WINDOW_RULE}). */
+  rule?: WindowRule;
 }
 
 /**
@@ -76,7 +92,8 @@ export function defaultWindowUm(input: DefaultWindowInput): number {
   if (!(Number.isFinite(radiusUm) && radiusUm > 0)) {
     throw new FractozoneError('BAD_PARAMETER', `the specimen radius must be a positive length in µm, got ${radiusUm}`);
   }
+  const rule = input.rule ?? DEFAULT_WINDOW_RULE;
   const workUmPerPx = umPerPx * f;
-  const px = Math.min(DEFAULT_WINDOW_MAX_PX, Math.max(DEFAULT_WINDOW_MIN_PX, (radiusUm * DEFAULT_WINDOW_RADIUS_FRACTION) / workUmPerPx));
+  const px = Math.min(rule.maxPx, Math.max(rule.minPx, (radiusUm * rule.radiusFraction) / workUmPerPx));
   return px * workUmPerPx;
 }

@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { detectScaleBar, DEFAULT_MIN_CONFIDENCE } from '../../../src/core/calibrate/index.js';
 import type { GrayRaster } from '../../../src/core/image/raster.js';
 import * as D from '../../helpers/drawBar.js';
+import { barConfidence, CONFIDENCE_FACTORS, type ConfidenceInputs } from '../../../src/core/calibrate/scaleBarRefine.js';
 
 const W = 640;
 const H = 480;
@@ -232,5 +233,26 @@ describe('detectScaleBar: reduced-resolution search', () => {
     const bar = detectScaleBar(r);
     expect(bar).not.toBeNull();
     expect(Math.abs(bar!.lengthPx - truth)).toBeLessThanOrEqual(0.5);
+  });
+});
+
+describe('scale-bar confidence factors (scaleBarRefine.ts)', () => {
+  const ideal: ConfidenceInputs = { contrast: 0.5, cA: 0.5, cB: 0.5, edgeStd: 0.1, edgeOutliers: 0, uni: 0.02, sur: 0.05, endW: 2, margin: 0.05, hasLabel: true };
+  it('an ideal bar scores 1 on every factor; each factor is named and lies in 0..1', () => {
+    expect(CONFIDENCE_FACTORS.map((f) => f.name)).toEqual(['contrast', 'two-sided', 'straight', 'uniform', 'quiet surroundings', 'sharp ends', 'position', 'label']);
+    for (const f of CONFIDENCE_FACTORS) expect(f.score(ideal), f.name).toBe(1);
+    expect(barConfidence(ideal)).toBe(1);
+  });
+  it('each factor falls (or rises) along its ramp and stays in 0..1', () => {
+    const at = (patch: Partial<ConfidenceInputs>): number[] => CONFIDENCE_FACTORS.map((f) => f.score({ ...ideal, ...patch }));
+    const byName = (patch: Partial<ConfidenceInputs>): Record<string, number> => Object.fromEntries(CONFIDENCE_FACTORS.map((f, i) => [f.name, at(patch)[i]]));
+    expect(byName({ contrast: 0.04, cA: 0.04, cB: 0.04 }).contrast).toBe(0);
+    expect(byName({ contrast: 0.1, cA: 0.1, cB: 0.1 }).contrast).toBeCloseTo(0.5, 12);
+    expect(byName({ contrast: 0.1, cA: 0.1, cB: 0.4 })['two-sided']).toBeCloseTo(0.5, 12); // one-sided edges score low
+    expect(byName({ edgeStd: 1 }).straight).toBe(0);
+    expect(byName({ endW: NaN })['sharp ends']).toBe(0);
+    expect(byName({ margin: 0.5 }).position).toBeCloseTo(0.7, 12);
+    expect(byName({ hasLabel: false }).label).toBe(0.9);
+    for (const v of [...at({ contrast: -1 }), ...at({ uni: 9, sur: 9, edgeOutliers: 1 })]) expect(v >= 0 && v <= 1).toBe(true);
   });
 });

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { measureBand, measureFromPolygons, createBandMeasurer, isExcluded, type Point } from '../../../src/core/measure/index.js';
+import { measureBand, measureFromPolygons, createBandMeasurer, isExcluded } from '../../../src/core/measure/index.js';
+import type { PointPx as Point } from '../../../src/core/image/geometry.js';
 
 function circle(cx: number, cy: number, r: number, n = 2000): Point[] {
   return Array.from({ length: n }, (_, i) => {

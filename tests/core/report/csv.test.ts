@@ -1,6 +1,16 @@
 import Papa from 'papaparse';
 import { describe, expect, it } from 'vitest';
 import { RESULT_COLUMNS, entryRow, metadataColumns, parseCsv, toCsv, toJsonLines, type BatchEntry } from '../../../src/core/report/csv.js';
+import { makeResult } from '../../helpers/result.js';
+
+function measured(): BatchEntry['result'] {
+  const r = makeResult({ meanUm: 101.25, ci95: [99.1, 103.4], umPerPx: 2.5, L_um: 95.5, ratio: 1.0602, verdict: 'agrees' });
+  r.specimen.radiusUm = 2500;
+  r.band.separability = { fisher: 3.2, overlap: 0.05, eta: 0.8, coreFraction: 0.6, rimFraction: 0.4 };
+  Object.assign(r.band.widthUm!, { n: 300, median: 100, sd: 7.5 });
+  r.criticalDistance!.interval95_um = [80, 111];
+  return r;
+}
 
 function entry(over: Partial<BatchEntry> = {}): BatchEntry {
   return {
@@ -12,13 +22,7 @@ function entry(over: Partial<BatchEntry> = {}): BatchEntry {
     strainRatePerS: 0.001,
     material: 'QV-3 (invented alloy)',
     overlay: 'overlays/a__b.png',
-    result: {
-      scale: { umPerPx: 2.5, source: 'typed' },
-      specimen: { radiusUm: 2500 },
-      band: { detected: true, separability: { fisher: 3.2, overlap: 0.05, eta: 0.8 }, widthUm: { n: 300, mean: 101.25, median: 100, sd: 7.5, ci95: [99.1, 103.4] } },
-      criticalDistance: { L_um: 95.5, interval95_um: [80, 111] },
-      comparison: { reference: 'L', ratio: 1.0602, ratioInterval95: [0.9, 1.2], verdict: 'agrees' },
-    },
+    result: measured(),
     ...over,
   };
 }
@@ -49,8 +53,20 @@ describe('results table rows', () => {
     });
   });
 
+  it('carries the quality verdict and the warning codes (separated by ;)', () => {
+    const e = entry();
+    e.result!.warnings = [{ code: 'SPECIMEN_CUT_BY_FRAME', message: 'cut' }, { code: 'INVENTED_MATERIAL', message: 'demo' }];
+    e.result!.quality = { verdict: 'check', reasons: [e.result!.warnings[0]] };
+    expect(entryRow(e)).toMatchObject({ quality: 'check', warning_codes: 'SPECIMEN_CUT_BY_FRAME;INVENTED_MATERIAL' });
+    expect(entryRow(entry())).toMatchObject({ quality: 'ok', warning_codes: '' });
+    expect(entryRow(entry({ status: 'error', result: null }))).toMatchObject({ quality: null, warning_codes: null });
+    expect(RESULT_COLUMNS.slice(0, 5)).toEqual(['file', 'sha256', 'status', 'quality', 'warning_codes']);
+  });
+
   it('leaves width columns empty for no-band and error rows, and carries the error', () => {
-    const nb = entryRow(entry({ status: 'no-band', result: { band: { detected: false, reason: 'no band found' } } }));
+    const noBand = makeResult({ meanUm: null });
+    noBand.band.reason = 'no band found';
+    const nb = entryRow(entry({ status: 'no-band', result: noBand }));
     expect(nb.width_mean_um).toBeNull();
     expect(nb.error_message).toBe('no band found');
     const er = entryRow(entry({ status: 'error', error: { code: 'CORRUPT_IMAGE', message: 'damaged' }, result: null }));

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { BatchEntry } from '../../../src/core/report/csv.js';
 import { NO_NOTCH, analyseSeries } from '../../../src/core/report/series.js';
+import { makeResult } from '../../helpers/result.js';
 
 function e(file: string, notch: string | undefined, rate: number | null, mean: number, L?: number, verdict?: string): BatchEntry {
   return {
@@ -12,10 +13,7 @@ function e(file: string, notch: string | undefined, rate: number | null, mean: n
     strainRatePerS: rate,
     material: null,
     overlay: null,
-    result: {
-      band: { detected: true, widthUm: { mean, ci95: [mean - 1, mean + 1] } },
-      ...(L ? { criticalDistance: { L_um: L }, comparison: { ratio: mean / L, verdict: verdict ?? 'agrees' } } : {}),
-    },
+    result: L ? makeResult({ meanUm: mean, L_um: L, ratio: mean / L, verdict: (verdict ?? 'agrees') as 'agrees' }) : makeResult({ meanUm: mean }),
   };
 }
 

@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { makeResult } from '../../helpers/result.js';
 import { escapeXml, histogramSvg, niceTicks, polarProfileSvg, seriesPlotSvg } from '../../../src/core/report/svg.js';
 import { buildReportHtml, CAUTION_TEXT } from '../../../src/core/report/html.js';
 import { analyseSeries } from '../../../src/core/report/series.js';
@@ -44,7 +45,7 @@ describe('svg plots', () => {
       strainRatePerS: r,
       material: null,
       overlay: null,
-      result: { band: { widthUm: { mean: 100 + i } }, criticalDistance: { L_um: 90 } },
+      result: makeResult({ meanUm: 100 + i, L_um: 90 }),
     }));
     const svg = seriesPlotSvg(analyseSeries(entries));
     const xs = [...svg.matchAll(/<circle class="series-point" cx="([\d.]+)"/g)].map((m) => Number(m[1]));

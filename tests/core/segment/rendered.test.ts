@@ -4,20 +4,19 @@
  * slanted-rim / equal-brightness images. Truth = truth.band.meanWidthUm (mean over defined angles).
  */
 import { describe, expect, it } from 'vitest';
-import { segmentAndMeasure } from '../../../src/core/segment/index.js';
 import { renderFractograph, type RenderOptions } from '../../../src/core/render/index.js';
-import { localStd } from '../../../src/core/texture/index.js';
+import { runStages } from '../../helpers/stages.js';
 
 const UM = 9;
 const W = 15;
 function run(o: RenderOptions) {
   const { raster, truth } = renderFractograph({ widthPx: 900, heightPx: 675, umPerPx: UM, seed: 11, ...o });
-  const res = segmentAndMeasure(raster, UM, [localStd(raster, W)], { windowPx: W, bootstrap: 200 });
-  return { res, truth };
+  const r = runStages(raster, UM, { windowPx: W, features: ['localStd'], bootstrap: 200 });
+  return { res: { rimCore: r.classification.rimCore, band: r.band }, truth };
 }
 const relErr = (a: number, b: number) => Math.abs(a / b - 1);
 
-describe('segmentAndMeasure on rendered fractographs', () => {
+describe('the segmentation and measurement stages on rendered fractographs (one feature: local std)', () => {
   it('clean round specimen: mean width within 2 %, CI covers the truth', () => {
     const { res, truth } = run({});
     expect(res.rimCore.detected).toBe(true);

@@ -94,7 +94,8 @@ describe('resolveCriticalDistance', () => {
     expect(r.interval95_um![1]).toBeGreaterThan(r.L_um);
     expect(r.pointDistance_um).toBeCloseTo(r.L_um / 2, 12);
     expect(r.inputs.toughness.source).toBe('invented demo value');
-    expect(r.warnings.join(' ')).toMatch(/invented/);
+    expect(r.warnings.map((w) => w.code)).toContain('INVENTED_MATERIAL');
+    expect(r.warnings.map((w) => w.message).join(' ')).toMatch(/invented/);
   });
   it('typed values override the material and have no interval without sd', () => {
     const r = resolveCriticalDistance({ material: zx, toughness: { value: 30 }, strength: { value: 900 } });

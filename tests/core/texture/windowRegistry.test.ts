@@ -1,12 +1,19 @@
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import { isFractozoneError } from '../../../src/core/errors.js';
 import { createRaster } from '../../../src/core/image/raster.js';
+import { defaultParams } from '../../../src/core/pipeline/params.js';
 import {
-  CORE_FEATURES,
+  DEFAULT_FEATURES,
   FEATURES,
+  FEATURE_NAMES,
+  checkFeatureNames,
   computeFeature,
-  computeFeaturesAt,
   defaultWindowUm,
+  isFeatureName,
+  parseFeatureList,
+  type FeatureName,
   downsample,
   gradientEnergy,
   localEntropy,
@@ -74,14 +81,47 @@ describe('defaultWindowUm', () => {
 
 describe('feature registry', () => {
   const r = seeded(40, 30, 5);
-  it('registers the three core features, each with unit and description', () => {
-    for (const n of CORE_FEATURES) {
+  it('registers every feature with its name, unit, description, transform, gain power and window rule', () => {
+    for (const n of FEATURE_NAMES) {
       expect(FEATURES[n].name).toBe(n);
       expect(FEATURES[n].unit.length).toBeGreaterThan(0);
       expect(FEATURES[n].description.length).toBeGreaterThan(0);
+      expect(FEATURES[n].defaultWindow.minPx).toBeLessThan(FEATURES[n].defaultWindow.maxPx);
     }
     expect(FEATURES.gradientEnergy.linearInAreaFraction).toBe(true);
     expect(FEATURES.localStd.linearInAreaFraction).toBe(false);
+    // brightness scaling under a multiplicative light change k: std → k·std, variance and
+    // energies → k²·value, entropy of a histogram over the image's own range → unchanged
+    // (definitions; checked numerically below)
+    expect(FEATURES.localStd.gainPower).toBe(1);
+    expect(FEATURES.localVariance.gainPower).toBe(2);
+    expect(FEATURES.gradientEnergy.gainPower).toBe(2);
+    expect(FEATURES.highPassEnergy.gainPower).toBe(2);
+    expect(FEATURES.localEntropy.gainPower).toBe(0);
+    expect(FEATURES.localEntropy.transform).toBe('identity');
+    for (const n of ['localStd', 'localVariance', 'gradientEnergy', 'highPassEnergy'] as const) expect(FEATURES[n].transform).toBe('log');
+  });
+  it('each gain power is how the feature scales when the image is multiplied by k', () => {
+    const k = 0.5;
+    const dim = { ...r, data: r.data.map((v) => v * k) };
+    for (const n of FEATURE_NAMES) {
+      const a = computeFeature(n, r, 5);
+      const b = computeFeature(n, dim, 5);
+      const i = 17 * 40 + 20; // an interior pixel
+      expect(b.data[i] / a.data[i], n).toBeCloseTo(k ** FEATURES[n].gainPower, 3);
+    }
+  });
+  it('one default feature list: the parameters, the --features default and the README use it', () => {
+    expect([...DEFAULT_FEATURES]).toEqual(defaultParams().features);
+    for (const n of DEFAULT_FEATURES) expect(isFeatureName(n)).toBe(true);
+    const readme = readFileSync(fileURLToPath(new URL('../../../README.md', import.meta.url)), 'utf8');
+    expect(readme).toContain(`--features ${DEFAULT_FEATURES.join(',')}`);
+  });
+  it('parses and checks feature lists', () => {
+    expect(parseFeatureList(' localStd, gradientEnergy ')).toEqual(['localStd', 'gradientEnergy']);
+    expect(codeOf(() => parseFeatureList('localStd,roughness'))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => parseFeatureList(' , '))).toBe('BAD_PARAMETER');
+    expect(codeOf(() => checkFeatureNames([42]))).toBe('BAD_PARAMETER');
   });
   it('computeFeature dispatches to the feature functions', () => {
     expect(computeFeature('localStd', r, 5).data).toEqual(localStd(r, 5).data);
@@ -89,16 +129,7 @@ describe('feature registry', () => {
     expect(computeFeature('localEntropy', r, 5, { bins: 16 }).data).toEqual(localEntropy(r, 40, 30, 5, { bins: 16 }).data);
   });
   it('refuses an unknown feature name', () => {
-    expect(codeOf(() => computeFeature('roughness', r, 5))).toBe('BAD_PARAMETER');
-    expect(codeOf(() => computeFeaturesAt(r, { scaleFactor: 2, windowPx: 3, features: ['nope' as 'localStd'] }))).toBe('BAD_PARAMETER');
-  });
-  it('computeFeaturesAt works on the area-averaged raster and reports the factor', () => {
-    const res = computeFeaturesAt(r, { scaleFactor: 2, windowPx: 5 });
-    expect([res.raster.width, res.raster.height]).toEqual([20, 15]);
-    expect(res.scaleX).toBe(2);
-    expect(res.scaleY).toBe(2);
-    expect(Object.keys(res.features).sort()).toEqual([...CORE_FEATURES].sort());
-    expect(res.features.localStd?.data).toEqual(localStd(downsample(r, 2), 5).data);
+    expect(codeOf(() => computeFeature('roughness' as FeatureName, r, 5))).toBe('BAD_PARAMETER');
   });
 });
 

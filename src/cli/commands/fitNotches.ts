@@ -3,8 +3,9 @@
  * loads (point, line or area method), or L from one notch and a known K_c.
  */
 import type { Command } from 'commander';
-import { FractozoneError } from '../../core/errors.js';
 import {
+  CAUTION,
+  FractozoneError,
   fitNotches,
   fitWithToughness,
   methodDistances,
@@ -15,10 +16,12 @@ import {
   type Load,
   type NotchSpecimen,
   type TcdMethod,
-} from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+  TOOL_NAME,
+  TOOL_VERSION,
+  type Warning,
+} from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { CAUTION, readText } from './critical-distance.js';
+import { readText } from './criticalDistance.js';
 
 interface Options {
   curve: string[];
@@ -31,6 +34,9 @@ interface Options {
 function fmt(v: number, digits = 5): string {
   return Number(v.toPrecision(digits)).toString();
 }
+
+/** A JSON value (the output record). */
+type JsonValue = string | number | boolean | null | JsonValue[] | { [key: string]: JsonValue };
 
 /** Register `fit-notches`. */
 export function register(program: Command): void {
@@ -73,8 +79,9 @@ export function register(program: Command): void {
         return { name: file, unitCurve: scaleCurve(parsed.curve, 1 / ref.value), failureLoad: load.value };
       });
       const loadKey = dimension === 'force' ? 'N' : 'MPa';
-      let result: Record<string, unknown>;
+      let result: { [key: string]: JsonValue };
       let text: string[];
+      let warnings: Warning[] = [];
       if (specimens.length === 1) {
         if (opts.toughness === undefined) throw new FractozoneError('BAD_PARAMETER', 'one curve is not enough: give a second --curve, or --toughness to fit L from one notch');
         const K = parseQuantity(opts.toughness, 'toughness', '--toughness');
@@ -102,19 +109,20 @@ export function register(program: Command): void {
             [`predictedLoad_${loadKey}`]: r.predictedLoad,
             ratio: r.ratio,
           })),
-          warnings: f.warnings,
+          warnings: f.warnings.map((w) => ({ code: w.code, message: w.message })),
         };
+        warnings = f.warnings;
         text = [
           `Critical distance from ${specimens.length} notches (${method} method, ${f.solver})`,
           `  critical distance L     ${fmt(f.L_um)} µm`,
           `  inherent strength σ_0   ${fmt(f.sigma0_MPa)} MPa`,
           `  rms log residual        ${fmt(f.rmsLogResidualPct, 3)} %`,
           ...f.residuals.map((r) => `  ${r.name}: failure ${fmt(r.failureLoad)} ${loadKey}, predicted ${fmt(r.predictedLoad)} ${loadKey}, ratio ${fmt(r.ratio, 4)}`),
-          ...f.warnings.map((w) => `  note: ${w}`),
+          ...f.warnings.map((w) => `  note: ${w.message} [${w.code}]`),
         ];
       }
       if (opts.json) {
-        for (const w of result.warnings as string[]) process.stderr.write(`fractozone: note: ${w}\n`);
+        for (const w of warnings) process.stderr.write(`fractozone: note: ${w.message} [${w.code}]\n`);
         process.stdout.write(toJsonText({ tool: TOOL_NAME, version: TOOL_VERSION, ...result }));
       } else {
         process.stdout.write([...text, CAUTION].join('\n') + '\n');

@@ -13,7 +13,7 @@
  */
 import { FractozoneError } from '../errors.js';
 import { type Load, parseLoad, unitFactor } from './quantities.js';
-import { type AnalysisKind, type StressCurve, tabulatedCurve } from './stress-curve.js';
+import { type AnalysisKind, type StressCurve, tabulatedCurve } from './stressCurve.js';
 
 /** A parsed curve file. */
 export interface ParsedCurve {

@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { CAUTION } from '../../src/core/caution.js';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const main = join(root, 'dist/cli/main.js');
@@ -16,7 +17,7 @@ function run(...args: string[]): { code: number; out: string; err: string } {
 }
 
 beforeAll(() => {
-  if (!existsSync(join(root, 'dist/cli/commands/critical-distance.js'))) execFileSync('npm', ['run', 'build'], { cwd: root, stdio: 'ignore' });
+  if (!existsSync(join(root, 'dist/cli/commands/criticalDistance.js'))) execFileSync('npm', ['run', 'build'], { cwd: root, stdio: 'ignore' });
 }, 120_000);
 
 describe('fractozone critical-distance', () => {
@@ -52,12 +53,15 @@ describe('fractozone critical-distance', () => {
     expect(r.code).toBe(0);
     expect(r.out).toMatch(/critical distance L\s+1414\.7 µm/);
     for (const line of r.out.split('\n').filter((l) => /^\s+(point|line|area|critical|fracture|inherent)/.test(l))) expect(line).toMatch(/µm|MPa/);
+    // the one caution of core/caution.ts closes the text
+    expect(r.out.trimEnd().endsWith(CAUTION)).toBe(true);
   });
   it('material FILE:NAME and strain rate', () => {
     const s = JSON.parse(run('critical-distance', '--material', `${materials}:ZX-17 (invented)`, '--json').out);
     expect(s.L_um).toBeCloseTo(1414.71, 2);
     expect(s.inputs.material).toBe('ZX-17 (invented)');
     expect(s.interval95_um).not.toBeNull();
+    expect(s.warnings).toContainEqual({ code: 'INVENTED_MATERIAL', message: 'material "ZX-17 (invented)" is invented demo data' });
     const d = JSON.parse(run('critical-distance', '--material', `${materials}:ZX-17 (invented)`, '--strain-rate', '1e3', '--json').out);
     expect(d.L_um).toBeCloseTo(1400 * Math.pow(1e3, -0.04), 6);
     expect(d.inputs.strainRate_per_s).toBe(1000);

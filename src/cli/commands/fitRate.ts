@@ -3,10 +3,9 @@
  * log–log least squares; optionally evaluate the law at a strain rate with a 95 % interval.
  */
 import type { Command } from 'commander';
-import { evaluateRateLaw, fitPowerLaw, parseRatePairsCsv } from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+import { CAUTION, evaluateRateLaw, fitPowerLaw, parseRatePairsCsv, TOOL_NAME, TOOL_VERSION, warn, type Warning } from '../../core/index.js';
 import { toJsonText } from '../io.js';
-import { CAUTION, parseStrainRate, readText } from './critical-distance.js';
+import { parseStrainRate, readText } from './criticalDistance.js';
 
 interface Options {
   at?: string;
@@ -34,11 +33,11 @@ export function register(program: Command): void {
       const unitText = u === 'um' ? 'µm' : 'MPa';
       const at = opts.at !== undefined ? parseStrainRate(opts.at) : undefined;
       const ev = at !== undefined ? evaluateRateLaw(fit.law, at, opts.allowExtrapolation === true) : undefined;
-      const warnings = ev?.warning ? [ev.warning] : [];
-      if (fit.n < 3) warnings.push('with 2 points the law passes through both exactly; no standard errors or interval');
+      const warnings: Warning[] = ev?.warning ? [warn('RATE_EXTRAPOLATED', ev.warning)] : [];
+      if (fit.n < 3) warnings.push(warn('RATE_FIT_TWO_POINTS', 'with 2 points the law passes through both exactly; no standard errors or interval'));
       const key = data.quantity === 'L' ? `L_${u}` : `sigma0_${u}`;
       if (opts.json) {
-        for (const w of warnings) process.stderr.write(`fractozone: note: ${w}\n`);
+        for (const w of warnings) process.stderr.write(`fractozone: note: ${w.message} [${w.code}]\n`);
         process.stdout.write(
           toJsonText({
             tool: TOOL_NAME,
@@ -70,7 +69,7 @@ export function register(program: Command): void {
               `  ${q} at ${at} 1/s: ${fmt(ev.value)} ${unitText}${ev.interval95 ? ` (95 % interval ${fmt(ev.interval95[0])} – ${fmt(ev.interval95[1])} ${unitText})` : ''}`,
             ]
           : []),
-        ...warnings.map((w) => `  note: ${w}`),
+        ...warnings.map((w) => `  note: ${w.message} [${w.code}]`),
         CAUTION,
       ];
       process.stdout.write(lines.join('\n') + '\n');

@@ -14,8 +14,9 @@
  * actual failure load = σ_0 / (P_i e_i(L)).
  */
 import { FractozoneError } from '../errors.js';
-import { criticalDistance, type TcdMethod } from './critical-distance.js';
-import { effectiveStress, maxCriticalDistance, type StressCurve } from './stress-curve.js';
+import { warn, type Warning } from '../warnings.js';
+import { criticalDistance, type TcdMethod } from './criticalDistance.js';
+import { effectiveStress, maxCriticalDistance, type StressCurve } from './stressCurve.js';
 
 /** One notched specimen: its stress per unit load and its failure load (same load unit for all). */
 export interface NotchSpecimen {
@@ -40,7 +41,7 @@ export interface NotchFit {
   rmsLogResidualPct: number;
   /** Search range for L in metres. */
   searchRange_m: [number, number];
-  warnings: string[];
+  warnings: Warning[];
 }
 
 /**
@@ -72,6 +73,102 @@ function logStress(sp: NotchSpecimen, L: number, method: TcdMethod): number {
   return e > 0 ? Math.log(e) : NaN;
 }
 
+/** A log-spaced grid of `n` L values over [lo, hi] (m). */
+function logGrid(lo: number, hi: number, n: number): number[] {
+  const grid: number[] = [];
+  for (let i = 0; i < n; i++) grid.push(lo * Math.pow(hi / lo, i / (n - 1)));
+  return grid;
+}
+
+/** The L search range: given, or from the curves' extent (largest usable L down to 1e-5 of it). */
+function searchRange(specimens: NotchSpecimen[], method: TcdMethod, range?: [number, number]): [number, number] {
+  let [lo, hi] = range ?? [NaN, NaN];
+  if (!range) {
+    const maxes = specimens.map((s) => maxCriticalDistance(s.unitCurve, method)).filter((v): v is number => v !== undefined);
+    hi = maxes.length ? Math.min(...maxes) : 0.1;
+    lo = hi * 1e-5;
+  }
+  if (!(lo > 0 && hi > lo)) throw new FractozoneError('BAD_PARAMETER', `L search range must satisfy 0 < low < high, got [${lo}, ${hi}] m`);
+  return [lo, hi];
+}
+
+/** Bisection in log L of h on [a, b] where h changes sign (h(a) = ha). */
+function bisectLog(h: (x: number) => number, a: number, b: number, ha: number): number {
+  for (let k = 0; k < 200 && b - a > 1e-14 * b; k++) {
+    const m = Math.sqrt(a * b);
+    const hm = h(m);
+    if (hm === 0) return m;
+    if (ha * hm < 0) b = m;
+    else {
+      a = m;
+      ha = hm;
+    }
+  }
+  return Math.sqrt(a * b);
+}
+
+/** Two specimens: the crossings of the two curves at failure on the grid, refined by bisection (smallest first). */
+function crossings(specimens: NotchSpecimen[], method: TcdMethod, grid: number[]): number[] {
+  const h = (x: number): number => logStress(specimens[0], x, method) - logStress(specimens[1], x, method);
+  const roots: number[] = [];
+  let prevX = grid[0];
+  let prevH = h(prevX);
+  for (let i = 1; i < grid.length; i++) {
+    const x = grid[i];
+    const hx = h(x);
+    if (Number.isFinite(prevH) && Number.isFinite(hx) && (hx === 0 || prevH * hx < 0)) roots.push(hx === 0 ? x : bisectLog(h, prevX, x, prevH));
+    prevX = x;
+    prevH = hx;
+  }
+  return roots;
+}
+
+/** More specimens: the grid minimum of Σ(ln P_i e_i(L) − mean)², refined by golden section in log L. */
+function leastSquaresL(specimens: NotchSpecimen[], method: TcdMethod, grid: number[], warnings: Warning[]): number {
+  const n = grid.length;
+  const f = (x: number): number => {
+    const v = specimens.map((sp) => logStress(sp, x, method));
+    if (v.some((t) => !Number.isFinite(t))) return Infinity;
+    const m = v.reduce((a, b) => a + b, 0) / v.length;
+    return v.reduce((a, b) => a + (b - m) ** 2, 0);
+  };
+  let best = 0;
+  let bestF = Infinity;
+  for (let i = 0; i < n; i++) {
+    const fx = f(grid[i]);
+    if (fx < bestF) {
+      bestF = fx;
+      best = i;
+    }
+  }
+  if (!Number.isFinite(bestF)) throw new FractozoneError('PROCESSING_FAILED', 'no L in the search range gives positive stresses for all specimens', 'processing');
+  if (best === 0 || best === n - 1) warnings.push(warn('FIT_AT_RANGE_EDGE', `the best L lies at the edge of the search range (${fmtUm(grid[best])}); widen the range or check the curves`));
+  // golden-section in log L on the bracket around the grid minimum
+  let a = Math.log(grid[Math.max(0, best - 1)]);
+  let b = Math.log(grid[Math.min(n - 1, best + 1)]);
+  const g = (Math.sqrt(5) - 1) / 2;
+  let c = b - g * (b - a);
+  let d = a + g * (b - a);
+  let fc = f(Math.exp(c));
+  let fd = f(Math.exp(d));
+  for (let k = 0; k < 100 && b - a > 1e-13; k++) {
+    if (fc < fd) {
+      b = d;
+      d = c;
+      fd = fc;
+      c = b - g * (b - a);
+      fc = f(Math.exp(c));
+    } else {
+      a = c;
+      c = d;
+      fc = fd;
+      d = a + g * (b - a);
+      fd = f(Math.exp(d));
+    }
+  }
+  return Math.exp((a + b) / 2);
+}
+
 /**
  * Fit L and σ_0 from the failure loads of n ≥ 2 notch geometries (see the module note).
  * @param specimens at least two specimens with unit curves in a common load unit
@@ -90,51 +187,14 @@ export function fitNotches(specimens: NotchSpecimen[], method: TcdMethod, option
       throw new FractozoneError('BAD_PARAMETER', `${sp.name}: failure load must be positive, got ${sp.failureLoad}`);
     }
   }
-  const warnings: string[] = [];
-  let [lo, hi] = options.range_m ?? [NaN, NaN];
-  if (!options.range_m) {
-    const maxes = specimens.map((s) => maxCriticalDistance(s.unitCurve, method)).filter((v): v is number => v !== undefined);
-    hi = maxes.length ? Math.min(...maxes) : 0.1;
-    lo = hi * 1e-5;
-  }
-  if (!(lo > 0 && hi > lo)) throw new FractozoneError('BAD_PARAMETER', `L search range must satisfy 0 < low < high, got [${lo}, ${hi}] m`);
-  const n = Math.max(50, options.gridPoints ?? 800);
-  const grid: number[] = [];
-  for (let i = 0; i < n; i++) grid.push(lo * Math.pow(hi / lo, i / (n - 1)));
-
+  const warnings: Warning[] = [];
+  const [lo, hi] = searchRange(specimens, method, options.range_m);
+  const grid = logGrid(lo, hi, Math.max(50, options.gridPoints ?? 800));
   let L: number;
   let solver: NotchFit['solver'];
   if (specimens.length === 2) {
     solver = 'intersection';
-    const h = (x: number): number => logStress(specimens[0], x, method) - logStress(specimens[1], x, method);
-    const roots: number[] = [];
-    let prevX = grid[0];
-    let prevH = h(prevX);
-    for (let i = 1; i < n; i++) {
-      const x = grid[i];
-      const hx = h(x);
-      if (Number.isFinite(prevH) && Number.isFinite(hx) && (hx === 0 || prevH * hx < 0)) {
-        let a = prevX;
-        let b = x;
-        let ha = prevH;
-        for (let k = 0; k < 200 && b - a > 1e-14 * b; k++) {
-          const m = Math.sqrt(a * b);
-          const hm = h(m);
-          if (hm === 0) {
-            a = b = m;
-            break;
-          }
-          if (ha * hm < 0) b = m;
-          else {
-            a = m;
-            ha = hm;
-          }
-        }
-        roots.push(hx === 0 ? x : Math.sqrt(a * b));
-      }
-      prevX = x;
-      prevH = hx;
-    }
+    const roots = crossings(specimens, method, grid);
     if (roots.length === 0) {
       throw new FractozoneError(
         'PROCESSING_FAILED',
@@ -142,64 +202,23 @@ export function fitNotches(specimens: NotchSpecimen[], method: TcdMethod, option
         'processing',
       );
     }
-    if (roots.length > 1) warnings.push(`the curves cross ${roots.length} times; the smallest L was taken (others: ${roots.slice(1).map(fmtUm).join(', ')})`);
+    if (roots.length > 1) warnings.push(warn('CURVES_CROSS_MORE_THAN_ONCE', `the curves cross ${roots.length} times; the smallest L was taken (others: ${roots.slice(1).map(fmtUm).join(', ')})`));
     L = roots[0];
   } else {
     solver = 'least-squares';
-    const f = (x: number): number => {
-      const v = specimens.map((sp) => logStress(sp, x, method));
-      if (v.some((t) => !Number.isFinite(t))) return Infinity;
-      const m = v.reduce((a, b) => a + b, 0) / v.length;
-      return v.reduce((a, b) => a + (b - m) ** 2, 0);
-    };
-    let best = 0;
-    let bestF = Infinity;
-    for (let i = 0; i < n; i++) {
-      const fx = f(grid[i]);
-      if (fx < bestF) {
-        bestF = fx;
-        best = i;
-      }
-    }
-    if (!Number.isFinite(bestF)) throw new FractozoneError('PROCESSING_FAILED', 'no L in the search range gives positive stresses for all specimens', 'processing');
-    if (best === 0 || best === n - 1) warnings.push(`the best L lies at the edge of the search range (${fmtUm(grid[best])}); widen the range or check the curves`);
-    // golden-section in log L on the bracket around the grid minimum
-    let a = Math.log(grid[Math.max(0, best - 1)]);
-    let b = Math.log(grid[Math.min(n - 1, best + 1)]);
-    const g = (Math.sqrt(5) - 1) / 2;
-    let c = b - g * (b - a);
-    let d = a + g * (b - a);
-    let fc = f(Math.exp(c));
-    let fd = f(Math.exp(d));
-    for (let k = 0; k < 100 && b - a > 1e-13; k++) {
-      if (fc < fd) {
-        b = d;
-        d = c;
-        fd = fc;
-        c = b - g * (b - a);
-        fc = f(Math.exp(c));
-      } else {
-        a = c;
-        c = d;
-        fc = fd;
-        d = a + g * (b - a);
-        fd = f(Math.exp(d));
-      }
-    }
-    L = Math.exp((a + b) / 2);
+    L = leastSquaresL(specimens, method, grid, warnings);
   }
   const logs = specimens.map((sp) => logStress(sp, L, method));
   const lnS0 = logs.reduce((x, y) => x + y, 0) / logs.length;
-  const sigma0 = Math.exp(lnS0);
   const residuals = specimens.map((sp, i) => {
     const ratio = Math.exp(lnS0 - logs[i]);
     return { name: sp.name, failureLoad: sp.failureLoad, predictedLoad: sp.failureLoad * ratio, ratio };
   });
   const rms = Math.sqrt(logs.reduce((acc, v) => acc + (v - lnS0) ** 2, 0) / logs.length) * 100;
   for (const sp of specimens) {
-    if (sp.unitCurve.analysis === 'elastoplastic') warnings.push(`${sp.name}: elastoplastic curve scaled linearly with load; the fit assumes linear-elastic scaling`);
+    if (sp.unitCurve.analysis === 'elastoplastic') warnings.push(warn('ELASTOPLASTIC_SCALED_LINEARLY', `${sp.name}: elastoplastic curve scaled linearly with load; the fit assumes linear-elastic scaling`));
   }
-  return { method, L_m: L, L_um: L * 1e6, sigma0_MPa: sigma0, solver, residuals, rmsLogResidualPct: rms, searchRange_m: [lo, hi], warnings };
+  return { method, L_m: L, L_um: L * 1e6, sigma0_MPa: Math.exp(lnS0), solver, residuals, rmsLogResidualPct: rms, searchRange_m: [lo, hi], warnings };
 }
 
 function fmtUm(m: number): string {

@@ -3,24 +3,23 @@
  * interval. Thin shell: parses options, reads the material sheet, calls core.
  */
 import type { Command } from 'commander';
-import { FractozoneError } from '../../core/errors.js';
 import {
+  CAUTION,
+  FractozoneError,
   parseMaterialSheet,
   parseQuantity,
   resolveCriticalDistance,
   selectMaterial,
   splitMaterialRef,
+  TOOL_NAME,
+  TOOL_VERSION,
   type EchoedValue,
   type Material,
   type QuantityInput,
   type UnitSystem,
-} from '../../core/tcd/index.js';
-import { TOOL_NAME, TOOL_VERSION } from '../../core/version.js';
+} from '../../core/index.js';
 import { readInputFile, toJsonText } from '../io.js';
 
-/** Caution printed under every text result. */
-export const CAUTION =
-  'Critical-distance estimates support, and do not replace, the judgement of a qualified engineer; structural assessment must follow the applicable codes, standards and procedures.';
 
 /** Read a text file for a command (UTF-8). */
 export function readText(path: string): string {
@@ -75,7 +74,10 @@ function echoText(e: EchoedValue): string {
   return `${fmt(e.value)} ${e.unit}${sc}  [${e.source}]`;
 }
 
-function echoJson(e: EchoedValue, key: string, given?: string): Record<string, unknown> {
+/** An echoed input in the JSON output: value, sd and interval under unit-carrying keys, source, the text given. */
+type EchoRecord = Record<string, number | [number, number] | string | null>;
+
+function echoJson(e: EchoedValue, key: string, given?: string): EchoRecord {
   return {
     [`value_${key}`]: e.value,
     [`sd_${key}`]: e.sd,
@@ -128,7 +130,7 @@ export function register(program: Command): void {
         seed,
         draws,
       });
-      for (const w of r.warnings) if (opts.json) process.stderr.write(`fractozone: note: ${w}\n`);
+      for (const w of r.warnings) if (opts.json) process.stderr.write(`fractozone: note: ${w.message} [${w.code}]\n`);
       if (opts.json) {
         process.stdout.write(
           toJsonText({
@@ -170,7 +172,7 @@ export function register(program: Command): void {
         `  point method, r = L/2      ${fmt(r.pointDistance_um)} µm`,
         `  line method, 0 … 2L        ${fmt(r.lineDistance_um)} µm`,
         `  area method, radius L      ${fmt(r.areaRadius_um)} µm`,
-        ...r.warnings.map((w) => `  note: ${w}`),
+        ...r.warnings.map((w) => `  note: ${w.message} [${w.code}]`),
         CAUTION,
       ];
       process.stdout.write(lines.join('\n') + '\n');

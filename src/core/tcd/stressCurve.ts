@@ -23,7 +23,7 @@
  * K = (3/(2√2))·K_c ≈ 1.061·K_c instead of exactly K_c. The 2D angular fields are not used.
  */
 import { FractozoneError } from '../errors.js';
-import type { TcdMethod } from './critical-distance.js';
+import type { TcdMethod } from './criticalDistance.js';
 
 /** Whether a stress curve came from a linear-elastic or an elastoplastic analysis (metadata only). */
 export type AnalysisKind = 'linear-elastic' | 'elastoplastic';

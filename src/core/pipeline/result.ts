@@ -1,0 +1,250 @@
+/**
+ * The versioned result of one measurement (`fractozone.result/2`): what `analyseImage`,
+ * `analyseDecoded` and `remeasure` return, what the CLI writes as `<name>.result.json`, what the
+ * batch workers send back, what the reports, the CSV rows and the web app read. Every field is
+ * typed here, with its unit in its name (µm `…Um`, px `…Px`, mm² `…Mm2`).
+ *
+ * A result that went through JSON is the same object except that non-finite numbers (for example a
+ * median interval without a bootstrap) read back as `null`; readers that print numbers check them
+ * with `Number.isFinite`.
+ */
+import type { ScaleSource } from '../calibrate/scale.js';
+import type { ScaleBar } from '../calibrate/scaleBar.js';
+import type { DecodedImage, MetadataScale } from '../decode/types.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
+import type { RayReason } from '../measure/band.js';
+import type { WidthStatistics } from '../measure/statistics.js';
+import type { CompareResult, ImpliedToughness } from '../tcd/compare.js';
+import type { ResolvedDistance } from '../tcd/resolve.js';
+import type { FeatureName } from '../texture/registry.js';
+import type { Warning } from '../warnings.js';
+import type { MeasureParams } from './types.js';
+
+/** Schema name and version of {@link MeasureResult}; a change of the result bumps it. */
+export const RESULT_SCHEMA = 'fractozone.result/2' as const;
+
+/** Where the rim/core boundary came from: found by the texture stages, or drawn / given by a person. */
+export type BoundarySource = 'auto' | 'manual';
+
+/** The program that wrote the result. */
+export interface ResultTool {
+  name: string;
+  version: string;
+}
+
+/** What the decoder says about an image file (see decode/types.ts for each field). */
+export type ImageFacts = Pick<DecodedImage, 'format' | 'widthPx' | 'heightPx' | 'bitDepth' | 'channels' | 'colorType' | 'pageCount'>;
+
+/** The image file measured. */
+export interface ResultInput extends ImageFacts {
+  /** File name as the user gave it (no folder for the CLI). */
+  file: string;
+  /** SHA-256 of the file's bytes, hex (computed by the shell). */
+  sha256: string;
+}
+
+/** What was derived from the parameters for this image. */
+export interface ResolvedSettings {
+  /** Texture window side actually used, µm. */
+  windowUm: number;
+  /** The same window in full-resolution px (odd). */
+  windowPx: number;
+  /** Full-resolution px per working-copy px (≥ 1). */
+  workingScaleFactor: number;
+  features: FeatureName[];
+  boundarySource: BoundarySource;
+}
+
+/** The scale bar found in the image (full-resolution px). */
+export interface DetectedBar extends Omit<ScaleBar, 'plate' | 'labelBox'> {
+  /** µm per px from the given bar length, or null when no bar length was given. */
+  umPerPx: number | null;
+}
+
+/** The scale used, where it came from, and what else the image offered. */
+export interface ResultScale {
+  /** √(umPerPxX·umPerPxY), µm per px. */
+  umPerPx: number;
+  umPerPxX: number;
+  umPerPxY: number;
+  source: ScaleSource;
+  /** Human-readable origin, e.g. "scale bar 1000 µm = 222.0 px (horizontal)". */
+  detail: string;
+  /** Pixel size in the file's metadata (used or not), or null. */
+  metadata: MetadataScale | null;
+  /** Why the metadata gave no scale, or what was noticed, or null. */
+  metadataNote: string | null;
+  detectedBar: DetectedBar | null;
+}
+
+/** Fitted circle of the outer edge, full-resolution px and µm. */
+export interface CircleSummary {
+  cx: number;
+  cy: number;
+  radiusPx: number;
+  radiusUm: number;
+  rmsResidualPx: number;
+}
+
+/** Fitted ellipse of the outer edge; angle of the major axis in degrees, project convention. */
+export interface EllipseSummary {
+  cx: number;
+  cy: number;
+  semiMajorUm: number;
+  semiMinorUm: number;
+  angleDeg: number;
+  rmsResidualPx: number;
+}
+
+/** The specimen (fracture surface) outline. */
+export interface ResultSpecimen {
+  /** Ray origin: the fitted circle's centre, px. */
+  center: PointPx;
+  radiusPx: number;
+  radiusUm: number;
+  circle: CircleSummary;
+  ellipse: EllipseSummary;
+  areaMm2: number;
+  /** √(area/π), µm. */
+  equivalentRadiusUm: number;
+  background: 'dark' | 'bright';
+  touchesFrame: boolean;
+  /** Fraction of the outline on the image frame. */
+  frameContactFraction: number;
+  /**
+   * Boxes of the detected scale bar, plate and label (px), painted out before the outline was
+   * found; rays whose outer edge ends in one are not measured. Absent when no bar was found.
+   */
+  scaleMarksPx?: BoxPx[];
+  /** Outer edge used for the rays (px). */
+  outline: PointPx[];
+}
+
+/**
+ * Statistics of the valid ray widths as reported, µm, rounded: the fields of the computation
+ * (measure/statistics.ts `WidthStatistics`, where each is defined) under their reported names.
+ */
+export interface WidthSummary extends Pick<WidthStatistics, 'n' | 'nEff' | 'mean' | 'median' | 'sd' | 'min' | 'max' | 'p05' | 'p95'> {
+  /** 95 % confidence interval of the mean (`ci95Mean`). */
+  ci95: [number, number];
+  /** 95 % bootstrap interval of the median (`ci95Median`; [NaN, NaN] → `[null, null]` in JSON without a bootstrap). */
+  medianCi95: [number, number];
+}
+
+/** One ray of the width profile, µm. */
+export interface RayResult {
+  angleDeg: number;
+  widthUm: number | null;
+  /** false → left out of the statistics (see `reason`). */
+  valid: boolean;
+  /** Why the ray is invalid, or 'outlier' for a valid ray that is flagged. */
+  reason?: RayReason;
+  outerRadiusUm: number | null;
+  boundaryRadiusUm: number | null;
+}
+
+/** Separability of the rim and core textures (combined feature, transition zone left out). */
+export interface SeparabilitySummary {
+  /** Fisher ratio (μ_core − μ_rim)² / (σ_core² + σ_rim²). */
+  fisher: number;
+  /** Histogram overlap 0 (disjoint) … 1 (identical). */
+  overlap: number;
+  /** Otsu's between-class / total variance ratio. */
+  eta: number;
+  coreFraction: number;
+  rimFraction: number;
+}
+
+/** The rim/core boundary polygon (px) and where it came from. */
+export interface ResultBoundary {
+  source: BoundarySource;
+  polygon: PointPx[];
+}
+
+/** Width measured along the inward normal of the outer edge, µm. */
+export interface NormalWidthSummary {
+  mean: number;
+  median: number;
+  n: number;
+}
+
+/** The smooth rim band: boundary, width profile and statistics. */
+export interface ResultBand {
+  detected: boolean;
+  /** Why no band was measured (only when `detected` is false). */
+  reason?: string;
+  boundary: ResultBoundary | null;
+  widthUm: WidthSummary | null;
+  normalWidthUm: NormalWidthSummary | null;
+  /** √(A_outer/π) − √(A_core/π), µm; null when the section is not complete (frame, exclusions). */
+  areaEquivalentWidthUm: number | null;
+  nRays: number;
+  nValid: number;
+  nOutliers: number;
+  profile: RayResult[];
+  /** Null for a manual boundary (no classification ran). */
+  separability: SeparabilitySummary | null;
+}
+
+/** The width held against L, L/2 or 2L, and the toughness the width implies. */
+export interface Comparison extends CompareResult {
+  impliedToughness_MPa_sqrtm: ImpliedToughness | null;
+}
+
+/** How far the numbers of a result can be trusted (pipeline/stages/quality.ts). */
+export type QualityVerdict = 'ok' | 'check' | 'unreliable';
+
+/** The quality verdict and the warnings that set it (severity `check` or `unreliable`). */
+export interface Quality {
+  verdict: QualityVerdict;
+  reasons: Warning[];
+}
+
+/** Wall-clock figures; not part of the reproducible content. */
+export interface Diagnostics {
+  /** Milliseconds per stage. */
+  timingsMs: Record<string, number>;
+}
+
+/** The result object written as JSON by every shell; the keys are written in this order. */
+export interface MeasureResult {
+  schema: typeof RESULT_SCHEMA;
+  tool: ResultTool;
+  input: ResultInput;
+  /** Whether the numbers can be used as they stand: read this first. */
+  quality: Quality;
+  /** Every parameter used (validated). */
+  params: MeasureParams;
+  resolved: ResolvedSettings;
+  scale: ResultScale;
+  specimen: ResultSpecimen;
+  band: ResultBand;
+  /** Present when a material or typed toughness and strength were given. */
+  criticalDistance?: ResolvedDistance;
+  /** Present when a critical distance and a band width are both known. */
+  comparison?: Comparison;
+  /** Every warning, each with its code (core/warnings.ts), in the order the stages gave them. */
+  warnings: Warning[];
+  caution: string;
+  diagnostics: Diagnostics;
+}
+
+/** A result with its keys in the documented order (for results built or changed in parts). */
+export function inResultOrder(r: MeasureResult): MeasureResult {
+  return {
+    schema: r.schema,
+    tool: r.tool,
+    input: r.input,
+    quality: r.quality,
+    params: r.params,
+    resolved: r.resolved,
+    scale: r.scale,
+    specimen: r.specimen,
+    band: r.band,
+    ...(r.criticalDistance ? { criticalDistance: r.criticalDistance } : {}),
+    ...(r.comparison ? { comparison: r.comparison } : {}),
+    warnings: r.warnings,
+    caution: r.caution,
+    diagnostics: r.diagnostics,
+  };
+}

@@ -1,0 +1,43 @@
+/**
+ * Stage 4, classify: smooth rim against rough core on the working copy (segment/rimCore.ts):
+ * brightness-normalised (each feature's transform and gain power come from its definition in
+ * texture/), winsorised z-scores of the features, Otsu's threshold, morphology, and
+ * the topology of the problem (core = rough region around the centre, holes filled).
+ */
+import type { Warning } from '../../warnings.js';
+import type { RimCoreResult } from '../../segment/index.js';
+import { classifyRimCore } from '../../segment/index.js';
+import { FEATURES } from '../../texture/index.js';
+import type { SpecimenLocation } from './locateSpecimen.js';
+import type { TextureMaps } from './texture.js';
+
+/** Input of {@link classifyTexture}. */
+export interface ClassifyInput {
+  location: SpecimenLocation;
+  texture: TextureMaps;
+}
+
+/** Output of {@link classifyTexture}: the rim/core split in working px. */
+export interface Classification {
+  rimCore: RimCoreResult;
+  warnings: Warning[];
+}
+
+/** Splits the specimen into rim and core; `rimCore.detected` is false (with a reason) when there is no rim. */
+export function classifyTexture(input: ClassifyInput): Classification {
+  const { location, texture } = input;
+  const defs = texture.maps.map((m) => FEATURES[m.name]);
+  const rimCore = classifyRimCore(
+    location.specimen,
+    texture.maps.map((m) => m.raster),
+    {
+      windowPx: texture.window.windowPxWork,
+      featureScale: 1,
+      center: location.centerWork,
+      transforms: defs.map((d) => d.transform),
+      brightness: texture.brightness,
+      gainPowers: defs.map((d) => d.gainPower),
+    },
+  );
+  return { rimCore, warnings: [...rimCore.warnings] };
+}

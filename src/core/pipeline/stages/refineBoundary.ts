@@ -1,0 +1,53 @@
+/**
+ * Stage 5, refine the boundary: the classified core outline is moved along each ray to the step
+ * between the rim and core intensity variance (segment/refine.ts `refineBoundary`), on the working
+ * copy, and mapped to full-resolution px. A boundary given by a person skips stages 3 to 5.
+ */
+import type { PointPx } from '../../image/geometry.js';
+import { refineBoundary, type Separability } from '../../segment/index.js';
+import type { WorkingFrame } from '../frame.js';
+import type { BoundarySource } from '../result.js';
+import type { Classification } from './classify.js';
+import type { SpecimenLocation } from './locateSpecimen.js';
+import type { TextureWindow } from './texture.js';
+
+/** The rim/core boundary the band is measured to. */
+export interface RimBoundary {
+  source: BoundarySource;
+  /** Polygon in full-resolution px; null when no band was found. */
+  polygon: PointPx[] | null;
+  detected: boolean;
+  /** Why no band was found (detected = false). */
+  reason?: string;
+  /** Separability of the two textures (null for a manual boundary). */
+  separability: Separability | null;
+}
+
+/** Input of {@link refineRimBoundary}. */
+export interface RefineInput {
+  frame: WorkingFrame;
+  location: SpecimenLocation;
+  classification: Classification;
+  window: TextureWindow;
+  /** Rays of the measurement; the boundary is refined on at least 360. */
+  nRays: number;
+}
+
+/** Refines the classified boundary, or reports why there is none. */
+export function refineRimBoundary(input: RefineInput): RimBoundary {
+  const { frame, location, classification } = input;
+  const rc = classification.rimCore;
+  if (!rc.detected || !rc.boundary) {
+    return { source: 'auto', polygon: null, detected: false, reason: rc.reason ?? 'no smooth rim band was found', separability: rc.separability };
+  }
+  const refined = refineBoundary(frame.work, location.outer.map((q) => frame.toWork(q)), rc.boundary, location.centerWork, {
+    windowPx: input.window.windowPxWork,
+    nRays: Math.max(input.nRays, 360),
+  });
+  return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
+}
+
+/** A boundary drawn or given by a person (px), taken as it is. */
+export function manualBoundary(polygon: readonly PointPx[]): RimBoundary {
+  return { source: 'manual', polygon: polygon.map((q) => ({ x: q.x, y: q.y })), detected: true, separability: null };
+}

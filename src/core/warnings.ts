@@ -1,0 +1,82 @@
+/**
+ * The one registry of warning codes. Every warning core gives (in a result, a critical-distance
+ * estimate or a fit) is `{ code, message }`: a stable UPPER_SNAKE code that scripts and views can
+ * match on, and one plain sentence with the figures of the case. Each code has a severity, which
+ * the quality verdict of a result is made from (pipeline/quality.ts):
+ *
+ * - `info`: worth knowing, the numbers are as good as without it (demo material, a rate law used);
+ * - `check`: a person should look at the image and the overlay before using the numbers;
+ * - `unreliable`: the numbers are likely wrong or meaningless as they stand.
+ *
+ * A new warning: add its code here with severity and description (the README table lists them
+ * all; a test keeps the two equal), then give it with `warn(code, message)`.
+ */
+
+/** How much a warning weighs on the result (see the module comment). */
+export type Severity = 'info' | 'check' | 'unreliable';
+
+/** A registry entry: severity and a one-line description for the documentation. */
+export interface WarningDefinition {
+  severity: Severity;
+  description: string;
+}
+
+/** Every warning code, with its severity and description. */
+export const WARNINGS = {
+  // calibration
+  SCALE_BAR_NOT_FOUND: { severity: 'check', description: 'a scale-bar length was given but no bar was found; the pixel size from the file metadata was used' },
+  NON_SQUARE_PIXELS: { severity: 'info', description: 'the pixels are not square; widths are converted per ray direction' },
+  // specimen
+  SPECIMEN_CUT_BY_FRAME: { severity: 'check', description: 'the specimen is cut by the image frame; rays reaching the frame are not measured' },
+  SCALE_MARK_ON_OUTLINE: { severity: 'check', description: 'the scale bar or its plate touches the specimen outline; rays ending there are not measured' },
+  // rim/core classification
+  WEAK_TEXTURE_CONTRAST: { severity: 'check', description: 'rim and core textures differ weakly (Fisher ratio below 4)' },
+  TEXTURE_OVERLAP: { severity: 'check', description: 'the rim and core texture histograms overlap by more than 0.2' },
+  BAND_MISSING_IN_PLACES: { severity: 'check', description: 'the rough core comes within about one texture window of the outer edge on more than 20 % of the circumference' },
+  // result-level rules (pipeline/quality.ts)
+  NO_BAND_FOUND: { severity: 'check', description: 'no smooth rim band was found; check that there is none' },
+  LOW_SCALE_BAR_CONFIDENCE: { severity: 'check', description: 'the scale comes from a detected scale bar with a confidence below 0.75' },
+  FEW_VALID_RAYS: { severity: 'check', description: 'only 25–50 % of the rays gave a width' },
+  VERY_FEW_VALID_RAYS: { severity: 'unreliable', description: 'fewer than 25 % of the rays gave a width: the mean describes a small part of the circumference' },
+  WIDE_WIDTH_INTERVAL: { severity: 'check', description: 'the 95 % confidence interval of the mean width is wider than 30 % of the mean' },
+  MANY_OUTLIER_RAYS: { severity: 'check', description: 'more than 10 % of the measured rays are outliers' },
+  // critical distance
+  INVENTED_MATERIAL: { severity: 'info', description: 'the material is invented demo data' },
+  L_FROM_RATE_LAW: { severity: 'info', description: 'L comes from the material\'s strain-rate law; the static toughness is not used' },
+  SIGMA0_FROM_RATE_LAW: { severity: 'info', description: 'σ_0 comes from its strain-rate law, with the static fracture toughness' },
+  RATE_EXTRAPOLATED: { severity: 'check', description: 'the strain rate lies outside the range of the rate law (extrapolated)' },
+  // fits (fit-notches, fit-rate)
+  CURVES_CROSS_MORE_THAN_ONCE: { severity: 'check', description: 'the two stress curves at failure cross more than once; the smallest L was taken' },
+  FIT_AT_RANGE_EDGE: { severity: 'unreliable', description: 'the best L lies at the edge of the search range' },
+  ELASTOPLASTIC_SCALED_LINEARLY: { severity: 'check', description: 'an elastoplastic stress curve was scaled linearly with the load' },
+  RATE_FIT_TWO_POINTS: { severity: 'info', description: 'a rate law through two points: no standard errors or interval' },
+} as const satisfies Record<string, WarningDefinition>;
+
+/** A registered warning code. */
+export type WarningCode = keyof typeof WARNINGS;
+
+/** Every code, in registry order. */
+export const WARNING_CODES = Object.keys(WARNINGS) as WarningCode[];
+
+/** A warning as results and outputs carry it. */
+export interface Warning {
+  code: WarningCode;
+  message: string;
+}
+
+/** A warning with its code (the message gives the figures of the case). */
+export function warn(code: WarningCode, message: string): Warning {
+  return { code, message };
+}
+
+/** The severity of a code; a code this version does not know (a newer file) counts as `check`. */
+export function severityOf(code: WarningCode): Severity {
+  return Object.prototype.hasOwnProperty.call(WARNINGS, code) ? WARNINGS[code].severity : 'check';
+}
+
+/** `list` followed by the warnings of `more` that it does not hold yet (same code and message). */
+export function mergeWarnings(list: readonly Warning[], more: readonly Warning[]): Warning[] {
+  const out = [...list];
+  for (const w of more) if (!out.some((o) => o.code === w.code && o.message === w.message)) out.push(w);
+  return out;
+}
