@@ -4,7 +4,8 @@
  * actions, histories); flows talk to the engine worker; this file only lays the parts out.
  */
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { CAUTION, type PointPx } from '../core/pipeline/index.js';
+import { CAUTION } from '../core/caution.js';
+import type { PointPx } from '../core/image/geometry.js';
 import { activeDoc, setView, type AppState } from './state/store.js';
 import { apply, type Change } from './state/actions/types.js';
 import { setTwoPointScale } from './state/actions/scale.js';

@@ -7,9 +7,11 @@
  */
 import { FractozoneError } from './errors.js';
 import { defaultParams, validateParams } from './pipeline/params.js';
-import type { MaterialParams, MeasureParams, PointPx, ScaleParams } from './pipeline/types.js';
+import type { PointPx } from './image/geometry.js';
+import type { MaterialParams, MeasureParams, ScaleParams } from './pipeline/types.js';
 import type { QuantityInput } from './tcd/resolve.js';
 import type { Material, MaterialValue, SheetRateLaw } from './tcd/materials.js';
+import { isFeatureName, type FeatureName } from './texture/registry.js';
 import { TOOL_NAME, TOOL_VERSION } from './version.js';
 
 export const SESSION_SCHEMA = 'fractozone.session/2';
@@ -158,6 +160,12 @@ function materialParams(v: unknown): MaterialParams | null {
   return out;
 }
 
+function feature(v: unknown, where: string): FeatureName {
+  const name = text(v, where);
+  if (!isFeatureName(name)) bad(`${where} is not a roughness feature this version knows ("${name}")`);
+  return name;
+}
+
 function integer(v: unknown, where: string): number {
   const n = num(v, where);
   if (!Number.isInteger(n)) bad(`${where} must be a whole number`);
@@ -171,7 +179,7 @@ function measureParams(v: unknown): MeasureParams {
   const p: MeasureParams = {
     scale: o.scale === undefined ? d.scale : scaleParams(o.scale),
     windowUm: o.windowUm === undefined || o.windowUm === null ? null : positive(o.windowUm, 'params.windowUm'),
-    features: o.features === undefined ? d.features : (Array.isArray(o.features) ? o.features : bad('params.features must be a list')).map((f, i) => text(f, `params.features[${i}]`)),
+    features: o.features === undefined ? d.features : (Array.isArray(o.features) ? o.features : bad('params.features must be a list')).map((f, i) => feature(f, `params.features[${i}]`)),
     nRays: o.nRays === undefined ? d.nRays : integer(o.nRays, 'params.nRays'),
     exclude: o.exclude === undefined ? d.exclude : (Array.isArray(o.exclude) ? o.exclude : bad('params.exclude must be a list')).map((s, i) => pair(s, `params.exclude[${i}]`)),
     dropOutliers: o.dropOutliers === true,

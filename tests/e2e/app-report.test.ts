@@ -1,6 +1,6 @@
 /**
- * Saving in headless Chromium: the HTML report of the bundled sample (verdict, every warning, the
- * caution, under 10,000 px tall, no JSON dump), overlay PNG and CSV row; the session file round trip
+ * Saving in headless Chromium: the HTML report of the bundled sample (quality, verdict, every
+ * warning, the caution, under 10,000 px tall, no JSON dump), overlay PNG and CSV row; the session file round trip
  * (also twice from the same file); the outline reset to its circle fit and reshaped by a handle;
  * a 16-bit TIFF with its metadata scale and the cursor readout in px and µm.
  */
@@ -14,7 +14,8 @@ import { SKIP_E2E, currentMean, downloadOf, launchApp, openImage, repoRoot, wait
 const cli = join(repoRoot, 'dist/cli/main.js');
 
 interface Exported {
-  warnings: string[];
+  warnings: { code: string; message: string }[];
+  quality: { verdict: string; reasons: { code: string }[] };
   comparison?: { verdict: string };
   band: { widthUm: { mean: number } };
   specimen: { center: { x: number; y: number }; outline: { x: number; y: number }[]; circle: { radiusPx: number } };
@@ -52,7 +53,10 @@ describe.skipIf(SKIP_E2E)('saving, sessions and the outline in Chromium', () => 
 
     const html = readFileSync(await downloadOf(page, 'export-html'), 'utf8');
     expect(html).toContain(`data-verdict="${result.comparison?.verdict}"`);
-    for (const w of result.warnings) expect(html).toContain(escapeHtml(w));
+    for (const w of result.warnings) expect(html).toContain(escapeHtml(w.message));
+    expect(html).toContain(`data-quality="${result.quality.verdict}"`);
+    // the app shows the same quality verdict above the statistics
+    expect(await page.getByTestId('quality').getAttribute('data-verdict')).toBe(result.quality.verdict);
     expect(html).toContain('invented demo data');
     expect(html).toContain('qualified engineer');
     expect(html).not.toContain('"schema": "fractozone.result/1"');
@@ -106,7 +110,7 @@ describe.skipIf(SKIP_E2E)('saving, sessions and the outline in Chromium', () => 
     await page.getByTestId('outline-circle').click();
     await waitCurrent(page);
     const r = JSON.parse(readFileSync(await downloadOf(page, 'export-json'), 'utf8')) as Exported;
-    expect(r.warnings.some((w) => w.startsWith('the specimen outline was corrected by hand'))).toBe(true);
+    expect(r.warnings.some((w) => w.code === 'OUTLINE_CORRECTED')).toBe(true);
     // every outline point on one circle about the (refitted) centre
     const radii = r.specimen.outline.map((p) => Math.hypot(p.x - r.specimen.center.x, p.y - r.specimen.center.y));
     expect(Math.max(...radii) - Math.min(...radii)).toBeLessThan(0.05);

@@ -15,7 +15,7 @@ import { resultOverlay } from '../../core/report/resultOverlay.js';
 import { fitEllipseToPoints } from '../../core/segment/fit.js';
 import { computeFeature } from '../../core/texture/registry.js';
 import type { GrayRaster } from '../../core/image/raster.js';
-import { loadCvInWorker } from './load-cv.js';
+import { asOpenCv, loadCvInWorker } from './load-cv.js';
 import type { EngineReplies, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -44,7 +44,7 @@ const images = new Map<string, OpenImage>();
 let cvPromise: Promise<void> | null = null;
 function ensureCv(id: number): Promise<void> {
   if (!cvPromise) {
-    cvPromise = loadCvInWorker((stage, fraction) => post({ type: 'progress', id, stage, fraction })).then(({ cv }) => setCv(cv));
+    cvPromise = loadCvInWorker((stage, fraction) => post({ type: 'progress', id, stage, fraction })).then(({ cv }) => setCv(asOpenCv(cv)));
     cvPromise.catch(() => {
       cvPromise = null;
     });

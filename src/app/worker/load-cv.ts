@@ -11,6 +11,7 @@
  */
 import cvSource from 'opencv-wasm/opencv.js?raw';
 import wasmUrl from 'opencv-wasm/opencv.wasm?url';
+import type { OpenCv } from '../../core/cv.js';
 
 export type ProgressFn = (stage: string, fraction: number) => void;
 
@@ -76,6 +77,20 @@ interface CvModule {
   then?: unknown;
 }
 type CvRuntime = CvModule;
+
+/** Members core calls that an initialised runtime must have (checked once, at the JavaScript boundary). */
+const REQUIRED = ['Mat', 'MatVector', 'Size', 'Point', 'matFromArray', 'fitEllipse', 'findContours', 'boxFilter', 'GaussianBlur', 'resize', 'threshold', 'connectedComponentsWithStats'];
+
+/** True when the initialised module has what core's OpenCv interface describes. */
+function isOpenCv(m: object): m is OpenCv {
+  return REQUIRED.every((k) => typeof Reflect.get(m, k) === 'function');
+}
+
+/** The initialised runtime as core's typed OpenCv, or an error naming what is missing. */
+export function asOpenCv(m: object): OpenCv {
+  if (!isOpenCv(m)) throw new Error(`the OpenCV runtime lacks ${REQUIRED.filter((k) => typeof Reflect.get(m, k) !== 'function').join(', ')}`);
+  return m;
+}
 
 /** Loads and initialises OpenCV; resolves with the runtime object (wrapped, because it is thenable). */
 export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): Promise<{ cv: CvRuntime }> {

@@ -21,19 +21,17 @@
  * from a full run in the last printed digits (relative 1e-5: the stored radius in px has 3 decimals).
  */
 import { FractozoneError } from '../errors.js';
-import { chooseScale, type MetadataScaleLike, type Scale, type ScaleBar } from '../calibrate/index.js';
+import { chooseScale, type Scale, type ScaleBar } from '../calibrate/index.js';
+import type { PointPx } from '../image/geometry.js';
 import { polygonArea } from '../measure/geometry.js';
 import { fitCircle, fitEllipseToPoints } from '../segment/fit.js';
 import { windowPxFromUm } from '../texture/window.js';
-import { remeasure, type MeasureResult } from './analyse.js';
+import { mergeWarnings, warn, type Warning, type WarningCode } from '../warnings.js';
 import { canonicalJson, validateParams } from './params.js';
-import type { MeasureParams, PointPx, ScaleParams } from './types.js';
-
-const round = (v: number, d: number): number => {
-  if (!Number.isFinite(v)) return v;
-  const f = Math.pow(10, d);
-  return Math.round(v * f) / f;
-};
+import { round, storedPoint, storedPolygon } from './precision.js';
+import { remeasure } from './remeasure.js';
+import type { MeasureResult } from './result.js';
+import type { MeasureParams, ScaleParams } from './types.js';
 
 /** Rays the outline and the automatic boundary were traced with in a full run. */
 const tracedRays = (p: MeasureParams): number => Math.max(p.nRays, 360);
@@ -77,14 +75,6 @@ function storedBar(base: MeasureResult): ScaleBar | null {
   return { x0: b.x0, y0: b.y0, x1: b.x1, y1: b.y1, lengthPx, thicknessPx: b.thicknessPx, orientation: b.orientation, polarity: b.polarity, confidence: b.confidence };
 }
 
-/** The metadata scale stored in a result, with its optional remark (the result type does not declare it). */
-function storedMetadata(m: NonNullable<MeasureResult['scale']['metadata']>): MetadataScaleLike | null {
-  const source = m.source === 'tiff-resolution' || m.source === 'png-phys' ? m.source : null;
-  if (!source) return null;
-  const note = 'note' in m && typeof m.note === 'string' ? { note: m.note } : {};
-  return { umPerPxX: m.umPerPxX, umPerPxY: m.umPerPxY, source, ...note };
-}
-
 /**
  * The scale a full run would choose for these scale parameters on this image (same precedence and
  * messages as the pipeline), from the bar and metadata stored in the result.
@@ -94,22 +84,22 @@ function storedMetadata(m: NonNullable<MeasureResult['scale']['metadata']>): Met
 export function scaleFor(base: MeasureResult, s: ScaleParams): Scale {
   const metadata = s.useMetadata === false ? null : base.scale.metadata;
   const typed = s.pixelSizeUm !== undefined ? (s.pixelSizeYUm !== undefined ? { x: s.pixelSizeUm, y: s.pixelSizeYUm } : s.pixelSizeUm) : undefined;
-  return chooseScale({ typed, twoPoint: s.twoPoint, barLengthUm: s.barLengthUm, bar: storedBar(base), metadata: metadata ? storedMetadata(metadata) : null });
+  return chooseScale({ typed, twoPoint: s.twoPoint, barLengthUm: s.barLengthUm, bar: storedBar(base), metadata });
 }
 
-/** The warnings the scale step of a full run gives (they always come first in a result). */
-function scaleWarnings(base: MeasureResult, s: ScaleParams, scale: Scale): string[] {
-  const out: string[] = [];
+/** The warnings the calibrate stage of a full run gives (they always come first in a result). */
+function scaleWarnings(base: MeasureResult, s: ScaleParams, scale: Scale): Warning[] {
+  const out: Warning[] = [];
   if (s.barLengthUm !== undefined && !base.scale.detectedBar && s.pixelSizeUm === undefined && !s.twoPoint) {
-    out.push('a scale-bar length was given but no scale bar was found: the pixel size from the file metadata is used instead');
+    out.push(warn('SCALE_BAR_NOT_FOUND', 'a scale-bar length was given but no scale bar was found: the pixel size from the file metadata is used instead'));
   }
   const x = scale.umPerPxX;
   const y = scale.umPerPxY;
-  if (Math.abs(x - y) / Math.max(x, y) > 1e-6) out.push(`pixels are not square (${x.toPrecision(4)} × ${y.toPrecision(4)} µm): widths are converted per ray direction`);
+  if (Math.abs(x - y) / Math.max(x, y) > 1e-6) out.push(warn('NON_SQUARE_PIXELS', `pixels are not square (${x.toPrecision(4)} × ${y.toPrecision(4)} µm): widths are converted per ray direction`));
   return out;
 }
 
-const SCALE_WARNING = /^(a scale-bar length was given but no scale bar was found|pixels are not square)/;
+const SCALE_WARNINGS: ReadonlySet<WarningCode> = new Set<WarningCode>(['SCALE_BAR_NOT_FOUND', 'NON_SQUARE_PIXELS']);
 
 /**
  * The result at another scale: scale block, specimen sizes in µm, resolved window, scale warnings
@@ -148,12 +138,12 @@ export function rescaleResult(base: MeasureResult, s: ScaleParams): MeasureResul
   const w = r.params.windowUm;
   r.resolved.windowUm = w === null ? (changed ? round(base.resolved.windowUm * k, 3) : base.resolved.windowUm) : round(w, 3);
   r.resolved.windowPx = w === null ? base.resolved.windowPx : windowPxFromUm(w, scale.umPerPx);
-  r.warnings = [...scaleWarnings(base, s, scale), ...base.warnings.filter((x) => !SCALE_WARNING.test(x))];
+  r.warnings = [...scaleWarnings(base, s, scale), ...base.warnings.filter((x) => !SCALE_WARNINGS.has(x.code))];
   return r;
 }
 
-/** Marker of a hand-corrected outline in the warnings. */
-export const OUTLINE_EDITED_WARNING = 'the specimen outline was corrected by hand: centre, radius, ellipse and area are fitted to the corrected outline';
+/** The warning a hand-corrected outline leaves in the result. */
+export const OUTLINE_CORRECTED = warn('OUTLINE_CORRECTED', 'the specimen outline was corrected by hand: centre, radius, ellipse and area are fitted to the corrected outline');
 
 /**
  * The result with a hand-corrected specimen outline: the outline, the fitted circle (its centre is
@@ -172,8 +162,8 @@ export function withOutline(base: MeasureResult, outline: readonly PointPx[]): M
   const u = r.scale.umPerPx;
   const areaPx = polygonArea(outline);
   const sp = r.specimen;
-  sp.outline = outline.map((p) => ({ x: round(p.x, 2), y: round(p.y, 2) }));
-  sp.center = { x: round(circle.cx, 3), y: round(circle.cy, 3) };
+  sp.outline = storedPolygon(outline);
+  sp.center = storedPoint({ x: circle.cx, y: circle.cy });
   sp.radiusPx = round(circle.radiusPx, 3);
   sp.radiusUm = round(circle.radiusPx * u, 3);
   sp.circle = { cx: sp.center.x, cy: sp.center.y, radiusPx: sp.radiusPx, radiusUm: sp.radiusUm, rmsResidualPx: round(circle.rmsResidualPx, 4) };
@@ -187,7 +177,7 @@ export function withOutline(base: MeasureResult, outline: readonly PointPx[]): M
   };
   sp.areaMm2 = round((areaPx * r.scale.umPerPxX * r.scale.umPerPxY) / 1e6, 5);
   sp.equivalentRadiusUm = round(Math.sqrt(areaPx / Math.PI) * u, 3);
-  if (!r.warnings.includes(OUTLINE_EDITED_WARNING)) r.warnings.push(OUTLINE_EDITED_WARNING);
+  r.warnings = mergeWarnings(r.warnings, [OUTLINE_CORRECTED]);
   return r;
 }
 

@@ -5,9 +5,10 @@
  * measurement, the width statistics, the critical distance L with its interval, the width/reference
  * ratio with its interval and the verdict, and the caution. Deterministic (no timestamp).
  */
-import type { MeasureResult } from '../pipeline/analyse.js';
-import type { BatchEntry, ResultView } from './csv.js';
+import type { MeasureResult } from '../pipeline/result.js';
+import type { BatchEntry } from './csv.js';
 import { card } from './html.js';
+import { summarise, type Figure, type IntervalFigure, type ResultSummary } from './summary.js';
 import { escapeXml as esc, fmt } from './svg.js';
 
 export interface ImageReportInput {
@@ -24,6 +25,8 @@ h1{font-size:21px;margin:0 0 4px;word-break:break-all}h2{font-size:16px;margin:2
 h3{font-size:14px;margin:0 0 6px;word-break:break-all}
 .caution{border:1px solid #c9a227;background:#fff8e0;padding:8px 12px;margin:12px 0;font-size:13px}
 .verdict{border:1px solid #8aa4c8;background:#eef4fc;padding:8px 12px;margin:12px 0;font-size:14px}
+.quality{padding:8px 12px;margin:12px 0;font-size:15px;border:2px solid}.quality-ok{border-color:#7cc08f;background:#eef8f0}.quality-check{border-color:#d9a441;background:#fff4dc}.quality-unreliable{border-color:#c0392b;background:#fde8e6}
+.quality ul{margin:4px 0 0;padding-left:20px;font-size:13px}
 .notes{border:1px solid #d9a441;background:#fff4e0;padding:6px 12px 6px 28px;font-size:13px}
 table{border-collapse:collapse;font-size:13px;margin:6px 0}th,td{border:1px solid #ccc;padding:3px 8px;text-align:left;vertical-align:top}
 th{background:#f3f3f3;font-weight:normal;white-space:nowrap}td.n{font-variant-numeric:tabular-nums}
@@ -31,29 +34,6 @@ th{background:#f3f3f3;font-weight:normal;white-space:nowrap}td.n{font-variant-nu
 .card .plots{display:flex;gap:10px;flex-wrap:wrap}.card ul{color:#6b4700;font-size:13px}
 .muted{color:#666;font-size:12px}code{font-size:11px;word-break:break-all}
 `;
-
-/** The parts of a result the shared card reads. */
-function viewOf(r: MeasureResult): ResultView {
-  const cd = r.criticalDistance;
-  const cmp = r.comparison;
-  return {
-    schema: r.schema,
-    input: { file: r.input.file, sha256: r.input.sha256 },
-    scale: { umPerPx: r.scale.umPerPx, source: r.scale.source },
-    specimen: { center: r.specimen.center, radiusUm: r.specimen.radiusUm },
-    band: {
-      detected: r.band.detected,
-      reason: r.band.reason,
-      widthUm: r.band.widthUm ?? undefined,
-      profile: r.band.profile.map((p) => ({ angleDeg: p.angleDeg, widthUm: p.widthUm, valid: p.valid, reason: p.reason })),
-      separability: r.band.separability,
-    },
-    criticalDistance: cd ? { L_um: cd.L_um, interval95_um: cd.interval95_um ?? undefined } : undefined,
-    comparison: cmp ? { reference: cmp.reference, ratio: cmp.ratio, ratioInterval95: cmp.ratioInterval95, verdict: cmp.verdict } : undefined,
-    warnings: r.warnings,
-    tool: r.tool,
-  };
-}
 
 /** One result as the batch tables and cards see it (the CSV row of a single image comes from this too). */
 export function imageEntry(r: MeasureResult): BatchEntry {
@@ -66,7 +46,7 @@ export function imageEntry(r: MeasureResult): BatchEntry {
     strainRatePerS: r.params.strainRatePerS,
     material: r.criticalDistance?.inputs.material ?? null,
     overlay: null,
-    result: viewOf(r),
+    result: r,
   };
 }
 
@@ -80,7 +60,7 @@ const rows = (pairs: readonly [string, string][]): string => `<table>${pairs.map
 function measurementInputs(r: MeasureResult): [string, string][] {
   const p = r.params;
   const sectors = p.exclude.length ? p.exclude.map(([a, b]) => `${fmt(a, 4)}°–${fmt(b, 4)}°`).join(', ') : 'none';
-  const outlineEdited = r.warnings.some((w) => w.startsWith('the specimen outline was corrected by hand'));
+  const outlineEdited = r.warnings.some((w) => w.code === 'OUTLINE_CORRECTED');
   return [
     ['image', `${esc(r.input.file)} <span class="muted">(${esc(r.input.format)}, ${r.input.widthPx}×${r.input.heightPx}\u00a0px, ${r.input.bitDepth}-bit)</span>`],
     ['pixel size', `${num(r.scale.umPerPx, 'µm/px', 5)} <span class="muted">(${esc(r.scale.detail)})</span>`],
@@ -119,50 +99,60 @@ function noIntervalReason(cd: NonNullable<MeasureResult['criticalDistance']>): s
   return 'none: give the sd (or an interval) of K_c or σ₀';
 }
 
-function widthRows(r: MeasureResult): [string, string][] {
-  const w = r.band.widthUm;
-  if (!r.band.detected || !w) return [['band', `not found: ${esc(r.band.reason ?? 'no smooth rim band')}`]];
-  const s = r.band.separability;
+const fig = (f: Figure | null | undefined, digits = 4): string => num(f?.value, f?.unit ?? '', digits);
+const ivl = (f: IntervalFigure | null | undefined, digits = 4): string => (f && f.lo !== null && f.hi !== null ? range([f.lo, f.hi], f.unit, digits) : '—');
+
+function widthRows(r: MeasureResult, s: ResultSummary): [string, string][] {
+  const b = s.band;
+  if (!b.detected) return [['band', `not found: ${esc(b.reason)}`]];
+  const sep = s.separability;
   return [
-    ['rays measured', `${w.n} of ${r.band.nRays} (effective ${fmt(w.nEff, 3)}); ${r.band.nOutliers} outliers`],
-    ['mean width', `<strong>${num(w.mean, 'µm')}</strong>, 95\u00a0% CI ${range(w.ci95, 'µm')}`],
-    ['median width', `${num(w.median, 'µm')}, 95\u00a0% CI ${range(w.medianCi95, 'µm')}`],
-    ['sd', num(w.sd, 'µm')],
-    ['min / p05 / p95 / max', `${num(w.min)} / ${num(w.p05)} / ${num(w.p95)} / ${num(w.max, 'µm')}`],
-    ['width along the normal', r.band.normalWidthUm ? `mean ${num(r.band.normalWidthUm.mean, 'µm')}` : '—'],
-    ['area-equivalent width', num(r.band.areaEquivalentWidthUm, 'µm')],
-    ['specimen radius', num(r.specimen.radiusUm, 'µm')],
-    ['separability', s ? `Fisher ratio ${fmt(s.fisher, 3)}, histogram overlap ${fmt(s.overlap, 3)}` : '—'],
+    ['rays measured', `${b.n} of ${r.band.nRays} (effective ${fmt(b.nEff, 3)}); ${b.outliers ? `${b.outliers.count} outliers${b.outliers.dropped ? ', left out' : ''}` : 'no outliers'}`],
+    [b.mean.label, `<strong>${fig(b.mean)}</strong>, ${esc(b.ci95.label)} ${ivl(b.ci95)}`],
+    [b.median.label, `${fig(b.median)}, ${esc(b.medianCi95.label)} ${ivl(b.medianCi95)}`],
+    [b.sd.label, fig(b.sd)],
+    [`${b.min.label} / ${b.p05.label} / ${b.p95.label} / ${b.max.label}`, `${fig(b.min)} / ${fig(b.p05)} / ${fig(b.p95)} / ${fig(b.max)}`],
+    ['width along the normal', b.normalMean ? fig(b.normalMean) : '—'],
+    ['area-equivalent width', b.areaEquivalent ? fig(b.areaEquivalent) : '—'],
+    [s.specimen.radius.label, fig(s.specimen.radius)],
+    ['separability', sep ? `${sep.fisher.label} ${fig(sep.fisher, 3)}, ${sep.overlap.label} ${fig(sep.overlap, 3)}` : '—'],
   ];
 }
 
-function comparisonRows(r: MeasureResult): [string, string][] {
+function comparisonRows(r: MeasureResult, s: ResultSummary): [string, string][] {
   const cd = r.criticalDistance;
-  const cmp = r.comparison;
-  if (!cd) return [];
+  const cs = s.criticalDistance;
+  if (!cd || !cs) return [];
   const label = cd.basis === 'static' ? 'L = (1/π)(K_c/σ₀)²' : cd.basis === 'strain-rate law for L' ? 'L from the strain-rate law' : 'L = (1/π)(K_c/σ₀(ε̇))²';
   const out: [string, string][] = [
-    [label, `<strong>${num(cd.L_um, 'µm')}</strong>`],
-    ['95 % interval of L', cd.interval95_um ? range(cd.interval95_um, 'µm') : noIntervalReason(cd)],
+    [label, `<strong>${fig(cs.L)}</strong>`],
+    ['95 % interval of L', cs.interval95 ? ivl(cs.interval95) : noIntervalReason(cd)],
   ];
-  if (!cmp) return [...out, ['comparison', 'none: no band width to compare']];
-  const imp = cmp.impliedToughness_MPa_sqrtm;
+  const c = s.comparison;
+  if (!c || !r.comparison) return [...out, ['comparison', 'none: no band width to compare']];
   out.push(
-    [`width / ${cmp.reference}`, `<strong>${fmt(cmp.ratio, 4)}</strong>, 95\u00a0% interval ${range(cmp.ratioInterval95, '', 4)}`],
-    ['verdict', `<strong>${esc(cmp.verdict)}</strong> <span class="muted">(${esc(cmp.note)})</span>`],
-    ['implied toughness', imp ? `${num(imp.K_MPa_sqrtm, 'MPa·√m')}${imp.interval95_MPa_sqrtm ? `, 95\u00a0% ${range(imp.interval95_MPa_sqrtm, 'MPa·√m')}` : ''}` : '—'],
+    [c.ratio.label, `<strong>${fig(c.ratio)}</strong>, ${esc(c.ratioInterval95.label)} ${ivl(c.ratioInterval95)}`],
+    ['verdict', `<strong>${esc(c.verdict)}</strong> <span class="muted">(${esc(r.comparison.note)})</span>`],
+    ['implied toughness', c.impliedToughness ? fig(c.impliedToughness) : '—'],
   );
   return out;
 }
 
 /** One sentence at the top: the width and, when there is one, the verdict. */
-function headline(r: MeasureResult): string {
-  const w = r.band.widthUm;
-  if (!r.band.detected || !w) return `No smooth rim band was measured: ${esc(r.band.reason ?? 'not detected')}.`;
-  const width = `Mean band width <strong>${num(w.mean, 'µm')}</strong> (95\u00a0% CI ${range(w.ci95, 'µm')}, n\u00a0=\u00a0${w.n} rays).`;
-  const cmp = r.comparison;
-  if (!cmp) return width;
-  return `${width} Width / ${esc(cmp.reference)} = <strong>${fmt(cmp.ratio, 4)}</strong> (95\u00a0% ${range(cmp.ratioInterval95, '', 4)}): verdict <strong data-verdict="${esc(cmp.verdict)}">${esc(cmp.verdict)}</strong>.`;
+function headline(s: ResultSummary): string {
+  const b = s.band;
+  if (!b.detected) return `No smooth rim band was measured: ${esc(b.reason)}.`;
+  const width = `Mean band width <strong>${fig(b.mean)}</strong> (95\u00a0% CI ${ivl(b.ci95)}, n\u00a0=\u00a0${b.n} rays).`;
+  const c = s.comparison;
+  if (!c) return width;
+  return `${width} Width / ${esc(c.reference)} = <strong>${fig(c.ratio)}</strong> (95\u00a0% ${ivl(c.ratioInterval95)}): verdict <strong data-verdict="${esc(c.verdict)}">${esc(c.verdict)}</strong>.`;
+}
+
+/** The quality verdict, read first: its headline and the warnings that set it. */
+function qualityBox(s: ResultSummary): string {
+  const q = s.quality;
+  const reasons = q.reasons.map((w) => `<li>${esc(w.message)} <code>${esc(w.code)}</code></li>`).join('');
+  return `<div class="quality quality-${q.verdict}" data-quality="${q.verdict}"><strong>Quality: ${esc(q.headline)}</strong>${reasons ? `<ul>${reasons}</ul>` : ''}</div>`;
 }
 
 /**
@@ -173,9 +163,10 @@ function headline(r: MeasureResult): string {
  */
 export function buildImageReportHtml(input: ImageReportInput): string {
   const r = input.result;
+  const s = summarise(r);
   const notes = input.notes ?? [];
   const title = `Band width — ${r.input.file}`;
-  const cmp = comparisonRows(r);
+  const cmp = comparisonRows(r, s);
   return `<!DOCTYPE html>
 <html lang="en"><head><meta charset="utf-8"><meta name="viewport" content="width=device-width, initial-scale=1">
 <title>${esc(title)}</title><style>${CSS}</style></head>
@@ -183,7 +174,8 @@ export function buildImageReportHtml(input: ImageReportInput): string {
 <h1>${esc(title)}</h1>
 <div class="muted">${esc(r.tool.name)} ${esc(r.tool.version)} · result schema ${esc(r.schema)}</div>
 <div class="caution"><strong>Caution.</strong> ${esc(r.caution)}</div>
-<p class="verdict">${headline(r)}</p>
+${qualityBox(s)}
+<p class="verdict">${headline(s)}</p>
 ${notes.length ? `<ul class="notes">${notes.map((s) => `<li>${esc(s)}</li>`).join('')}</ul>` : ''}
 <h2>Image, overlay and width profile</h2>
 ${card(imageEntry(r), input.overlayDataUrl ?? undefined)}
@@ -191,7 +183,7 @@ ${card(imageEntry(r), input.overlayDataUrl ?? undefined)}
 ${rows(measurementInputs(r))}
 ${rows(materialInputs(r))}
 <h2>Band width</h2>
-${rows(widthRows(r))}
+${rows(widthRows(r, s))}
 ${cmp.length ? `<h2>Critical distance</h2>\n${rows(cmp)}` : ''}
 <p class="muted">Report written by ${esc(r.tool.name)} ${esc(r.tool.version)} from the result of this image; the result file (${esc(r.schema)}) holds every number and parameter.</p>
 </body></html>

@@ -1,11 +1,14 @@
 /**
  * The overlay picture of a result, drawn from the result alone (outline, boundary, rays of the
- * profile, detected bar, label) over the image it was measured on — so a recomputed or
- * hand-corrected result gets the same picture a full run draws, at the full extent of the image.
+ * profile, detected bar, the label core's overlay uses) over the image it was measured on — so a
+ * recomputed or hand-corrected result gets the same picture a full run draws, at the full extent
+ * of the image.
  */
 import type { GrayRaster } from '../image/raster.js';
 import type { RgbaImage } from '../draw/index.js';
-import type { MeasureResult } from '../pipeline/analyse.js';
+import type { MeasureResult } from '../pipeline/result.js';
+import { overlayLabel } from '../pipeline/overlay.js';
+import { summarise } from './summary.js';
 import { renderOverlay, type OverlayRay } from './overlay.js';
 
 /** Rays of the profile in px: radii in µm divided by the pitch along each ray's direction. */
@@ -18,19 +21,6 @@ function raysPx(r: MeasureResult): OverlayRay[] {
     const px = (v: number | null | undefined): number | null => (typeof v === 'number' && Number.isFinite(v) ? v / k : null);
     return { angleDeg: p.angleDeg, outerRadiusPx: px(p.outerRadiusUm), boundaryRadiusPx: px(p.boundaryRadiusUm), valid: p.valid, outlier: p.reason === 'outlier' };
   });
-}
-
-/** The label lines of the overlay (file, width with interval, scale, comparison). */
-export function overlayLabel(r: MeasureResult): string[] {
-  const w = r.band.widthUm;
-  const label = [
-    r.input.file,
-    r.band.detected && w ? `band width mean ${w.mean.toFixed(1)} µm, 95% CI ${w.ci95[0].toFixed(1)}-${w.ci95[1].toFixed(1)} µm` : `no smooth rim band: ${r.band.reason ?? 'not detected'}`,
-    r.band.detected && w ? `median ${w.median.toFixed(1)} µm, sd ${w.sd.toFixed(1)} µm, n = ${w.n} rays` : '',
-    `pixel ${r.scale.umPerPx.toPrecision(4)} µm (${r.scale.source})`,
-  ];
-  if (r.comparison) label.push(`w/${r.comparison.reference} = ${r.comparison.ratio.toFixed(2)}: ${r.comparison.verdict}`);
-  return label.filter(Boolean);
 }
 
 /**
@@ -50,7 +40,7 @@ export function resultOverlay(raster: GrayRaster, r: MeasureResult, maxSidePx = 
     boundary: r.band.boundary?.polygon ?? null,
     rays: raysPx(r),
     scaleBar: bar && r.scale.source === 'scale-bar' ? bar : null,
-    label: overlayLabel(r),
+    label: overlayLabel(summarise(r)),
     maxSidePx,
   });
 }

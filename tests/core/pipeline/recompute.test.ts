@@ -7,7 +7,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { renderFractograph } from '../../../src/core/render/index.js';
 import { encodeGrayRaster } from '../../../src/core/encode/index.js';
 import { analyseImage, defaultParams, type MeasureParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
-import { OUTLINE_EDITED_WARNING, fullRunReason, recompute, scaleFor } from '../../../src/core/pipeline/recompute.js';
+import { OUTLINE_CORRECTED, fullRunReason, recompute, scaleFor } from '../../../src/core/pipeline/recompute.js';
 import { expectSameResult } from '../../helpers/sameResult.js';
 
 let bytes: Uint8Array;
@@ -106,7 +106,7 @@ describe('recompute from the stored geometry', () => {
     expect(shifted.specimen.center.x - once.specimen.center.x).toBeCloseTo(6, 2);
     expect(shifted.specimen.center.y).toBeCloseTo(once.specimen.center.y, 2);
     expect(shifted.specimen.radiusUm).toBeCloseTo(once.specimen.radiusUm, 1);
-    expect(shifted.warnings).toContain(OUTLINE_EDITED_WARNING);
+    expect(shifted.warnings).toContain(OUTLINE_CORRECTED);
     // moving the outer edge 6 px right and keeping the boundary widens the band at 0° by ≈ 30 µm
     const w0 = (r: MeasureResult) => r.band.profile.find((q) => q.angleDeg === 0)!.widthUm!;
     expect(w0(shifted) - w0(once)).toBeGreaterThan(20);

@@ -39,7 +39,8 @@ describe('single-image report', () => {
     expect(html).toContain('L = (1/π)(K_c/σ₀)²');
     const iv = result.criticalDistance!.interval95_um!;
     expect(html).toMatch(new RegExp(`95 % interval of L</th><td class="n">${Number(iv[0].toPrecision(4))}–${Number(iv[1].toPrecision(4))}\u00a0µm`));
-    for (const w of result.warnings) expect(html).toContain(w.replace(/"/g, '&quot;'));
+    for (const w of result.warnings) expect(html).toContain(w.message.replace(/"/g, '&quot;'));
+    expect(html).toContain(`data-quality="${result.quality.verdict}"`);
     expect(html).toContain('invented demo data');
     expect(html).toContain('a note from the app');
     expect(html).toContain(result.caution.replace(/'/g, '&#39;').slice(0, 60));

@@ -2,6 +2,7 @@
 import { useMemo } from 'react';
 import type { MeasureResult } from '../../../core/pipeline/index.js';
 import { histogramSvg, polarProfileSvg } from '../../../core/report/svg.js';
+import { summarise, type Figure, type IntervalFigure, type ResultSummary } from '../../../core/report/summary.js';
 import { resultStateOf, type ResultState } from '../../state/results.js';
 import { withoutCliHints } from '../../state/words.js';
 import { num, type PanelProps } from './types.js';
@@ -17,25 +18,48 @@ function Banner({ rs, result }: { rs: ResultState; result: MeasureResult | null 
   );
 }
 
-function StatsTable({ r, stale }: { r: MeasureResult; stale: boolean }) {
-  const w = r.band.widthUm;
-  if (!r.band.detected || !w) {
+const cell = (f: Figure | null | undefined): string => (f && f.value !== null ? `${num(f.value)}${f.unit ? ` ${f.unit}` : ''}` : '—');
+const span = (f: IntervalFigure): string => (f.lo !== null && f.hi !== null ? `${num(f.lo)} – ${num(f.hi)}${f.unit ? ` ${f.unit}` : ''}` : '—');
+
+/** The quality verdict, read first: what it means and the warnings that set it (core's words). */
+function QualityBox({ s, stale }: { s: ResultSummary; stale: boolean }) {
+  const q = s.quality;
+  return (
+    <div className={`quality ${q.verdict}${stale ? ' stale' : ''}`} data-testid="quality" data-verdict={q.verdict}>
+      <strong>Quality: {q.headline}</strong>
+      {q.reasons.length > 0 && (
+        <ul>
+          {q.reasons.map((w, i) => (
+            <li key={i} title={w.code}>
+              {withoutCliHints(w.message)}
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}
+
+function StatsTable({ r, s, stale }: { r: MeasureResult; s: ResultSummary; stale: boolean }) {
+  const b = s.band;
+  if (!b.detected) {
     return (
       <p className="warn" data-testid="no-band">
-        No smooth rim band was measured: {r.band.reason ?? 'not detected'}. Check the scale and the texture window, or correct the boundary by hand.
+        No smooth rim band was measured: {b.reason}. Check the scale and the texture window, or correct the boundary by hand.
       </p>
     );
   }
+  // labels and units from core's summary (the same in the CLI, the overlay and the reports)
   const rows: [string, string, string][] = [
-    ['mean', 'mean', `${num(w.mean)} µm`],
-    ['median', 'median', `${num(w.median)} µm`],
-    ['95 % CI of the mean', 'ci', `${num(w.ci95[0])} – ${num(w.ci95[1])} µm`],
-    ['95 % CI of the median', 'mci', `${num(w.medianCi95[0])} – ${num(w.medianCi95[1])} µm`],
-    ['sd', 'sd', `${num(w.sd)} µm`],
-    ['p05 / p95', 'p', `${num(w.p05)} / ${num(w.p95)} µm`],
-    ['min / max', 'mm', `${num(w.min)} / ${num(w.max)} µm`],
-    ['rays (effective)', 'n', `${w.n} of ${r.band.nRays} (${num(w.nEff, 3)})`],
-    ['specimen radius', 'radius', `${num(r.specimen.radiusUm)} µm`],
+    [b.mean.label, 'mean', cell(b.mean)],
+    [b.median.label, 'median', cell(b.median)],
+    [b.ci95.label, 'ci', span(b.ci95)],
+    [b.medianCi95.label, 'mci', span(b.medianCi95)],
+    [b.sd.label, 'sd', cell(b.sd)],
+    [`${b.p05.label} / ${b.p95.label}`, 'p', `${num(b.p05.value)} / ${cell(b.p95)}`],
+    [`${b.min.label} / ${b.max.label}`, 'mm', `${num(b.min.value)} / ${cell(b.max)}`],
+    ['rays (effective)', 'n', `${b.n} of ${r.band.nRays} (${num(b.nEff, 3)})`],
+    [s.specimen.radius.label, 'radius', cell(s.specimen.radius)],
   ];
   return (
     <table className={`stats${stale ? ' stale' : ''}`} data-testid="stats-table">
@@ -43,7 +67,7 @@ function StatsTable({ r, stale }: { r: MeasureResult; stale: boolean }) {
         {rows.map(([label, id, v]) => (
           <tr key={id}>
             <th>{label}</th>
-            <td data-testid={`stat-${id}`} data-value={id === 'mean' ? String(w.mean) : undefined}>
+            <td data-testid={`stat-${id}`} data-value={id === 'mean' ? String(b.mean.value) : undefined}>
               {v}
             </td>
           </tr>
@@ -82,16 +106,21 @@ export function Plots({ r }: { r: MeasureResult }) {
 export function ResultsPanel(p: PanelProps) {
   const rs = resultStateOf(p.doc, p.series);
   const r = p.doc.result;
+  const s = useMemo(() => (r ? summarise(r) : null), [r]);
+  const stale = rs.state !== 'current';
   return (
     <section>
       <h2>Band width</h2>
       <Banner rs={rs} result={r} />
-      {r && <StatsTable r={r} stale={rs.state !== 'current'} />}
-      {r && <VerdictLine r={r} stale={rs.state !== 'current'} />}
-      {r && r.warnings.length > 0 && (
-        <ul className={`warnings${rs.state !== 'current' ? ' stale' : ''}`} data-testid="warnings">
-          {r.warnings.map((w, i) => (
-            <li key={i}>{withoutCliHints(w)}</li>
+      {r && s && <QualityBox s={s} stale={stale} />}
+      {r && s && <StatsTable r={r} s={s} stale={stale} />}
+      {r && <VerdictLine r={r} stale={stale} />}
+      {s && s.notes.length > 0 && (
+        <ul className={`warnings${stale ? ' stale' : ''}`} data-testid="warnings">
+          {s.notes.map((w, i) => (
+            <li key={i} title={w.code}>
+              {withoutCliHints(w.message)}
+            </li>
           ))}
         </ul>
       )}
