@@ -15,7 +15,7 @@ import { resultOverlay } from '../../core/report/resultOverlay.js';
 import { fitEllipseToPoints } from '../../core/segment/fit.js';
 import { computeFeature } from '../../core/texture/registry.js';
 import type { GrayRaster } from '../../core/image/raster.js';
-import { asOpenCv, loadCvInWorker } from './load-cv.js';
+import { asOpenCv, loadCvInWorker } from './loadCv.js';
 import type { EngineReplies, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
