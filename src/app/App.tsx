@@ -4,8 +4,7 @@
  * actions, histories); flows talk to the engine worker; this file only lays the parts out.
  */
 import { useCallback, useEffect, useRef, useState } from 'react';
-import { CAUTION } from '../core/caution.js';
-import type { PointPx } from '../core/image/geometry.js';
+import { CAUTION, type PointPx } from '../core/index.js';
 import { activeDoc, setView, type AppState } from './state/store.js';
 import { apply, type Change } from './state/actions/types.js';
 import { setTwoPointScale } from './state/actions/scale.js';

@@ -1,7 +1,5 @@
 /** Measuring: the scale bar, the full run ("Find boundary"), the texture map. */
-import { canonicalJson, WORKING_LONG_SIDE_PX, type MeasureParams } from '../../core/pipeline/index.js';
-import { defaultWindowUm, windowPxFromUm } from '../../core/texture/window.js';
-import { FEATURES, type FeatureName } from '../../core/texture/registry.js';
+import { canonicalJson, defaultWindowUm, FEATURES, windowPxFromUm, WORKING_LONG_SIDE_PX, type FeatureName, type MeasureParams } from '../../core/index.js';
 import { derive, say } from '../state/store.js';
 import { apply, quiet } from '../state/actions/types.js';
 import { applyScaleBar } from '../state/actions/scale.js';

@@ -1,7 +1,7 @@
 /** Opening images (file picker, drop, the bundled invented sample). */
 import { newDoc, type Doc, type ImageInfo, type Series } from '../state/document.js';
 import { addDoc, derive, notice, type AppState } from '../state/store.js';
-import { parseMaterialSheet } from '../../core/tcd/materials.js';
+import { parseMaterialSheet } from '../../core/index.js';
 import { apply, quiet, type Change } from '../state/actions/types.js';
 import { chooseSheetMaterial, ownMaterial, readSheet, setStrainRate } from '../state/actions/inputs.js';
 import { setTypedScale } from '../state/actions/scale.js';

@@ -3,12 +3,7 @@
  * overlay PNG and HTML report (core's single-image report, overlay drawn from the result), session
  * files, material sheets. Nothing leaves the machine: downloads are made from blobs in the page.
  */
-import type { MeasureResult } from '../../core/pipeline/index.js';
-import { RESULT_COLUMNS, entryRow, toCsv } from '../../core/report/csv.js';
-import { buildImageReportHtml, imageEntry } from '../../core/report/imageReport.js';
-import { makeSession, parseSession, sessionText } from '../../core/session.js';
-import { parseMaterialSheet } from '../../core/tcd/materials.js';
-import { isFractozoneError } from '../../core/errors.js';
+import { buildImageReportHtml, entryRow, imageEntry, isFractozoneError, makeSession, parseMaterialSheet, parseSession, RESULT_COLUMNS, sessionText, toCsv, type MeasureResult } from '../../core/index.js';
 import { materialOf, type Doc } from '../state/document.js';
 import { materialProblem } from '../state/material.js';
 import { paramsOf, resultStateOf } from '../state/results.js';

@@ -1,6 +1,6 @@
 /** The flows bound to the app: opening files, and those of the shown image (see panels/types.ts). */
 import { useMemo, useState } from 'react';
-import type { FeatureName } from '../../core/texture/registry.js';
+import type { FeatureName } from '../../core/index.js';
 import type { Engine } from '../worker/client.js';
 import type { DocFlows } from '../components/panels/types.js';
 import { rgbaCanvas, type FlowContext, type TextureView } from '../flows/context.js';

@@ -3,7 +3,7 @@
  * Konva layer draws (image px coordinates), plus the view transform helpers. The React/Konva
  * component only maps these to nodes.
  */
-import type { PointPx } from '../../core/pipeline/index.js';
+import type { PointPx } from '../../core/index.js';
 import { boundaryOf, centreOf, outlineOf, type Doc } from '../state/document.js';
 import { nearestVertex } from '../state/geometry.js';
 import { outlineHandles } from '../state/outline.js';

@@ -5,12 +5,7 @@
  * keep the previous values. Coordinates are image pixels (pixel centres at integer x, y; x right,
  * y down); lengths a user types are in µm.
  */
-import type { ScaleBar } from '../../core/calibrate/index.js';
-import type { MetadataScale } from '../../core/decode/index.js';
-import type { MeasureResult, PointPx } from '../../core/pipeline/index.js';
-import { DEFAULT_FEATURES } from '../../core/pipeline/index.js';
-import type { Material } from '../../core/tcd/materials.js';
-import type { FeatureName } from '../../core/texture/registry.js';
+import { DEFAULT_FEATURES, type FeatureName, type Material, type MeasureResult, type MetadataScale, type PointPx, type ScaleBar } from '../../core/index.js';
 import { emptyHistory, type History } from './history.js';
 
 /** What the image file is (never edited). */

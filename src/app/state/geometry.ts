@@ -2,7 +2,7 @@
  * Pure polygon edits used by the boundary tools. Angles follow the project convention:
  * degrees, 0° = +x, counter-clockwise on screen, direction (cos θ, −sin θ) in image coordinates.
  */
-import type { PointPx } from '../../core/image/geometry.js';
+import type { PointPx } from '../../core/index.js';
 
 /** Angle of `p` seen from `c`, degrees in [0, 360). */
 export function angleDeg(c: PointPx, p: PointPx): number {

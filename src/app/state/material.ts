@@ -2,9 +2,7 @@
  * Material inputs → core's MaterialParams, and what is missing before a critical distance can be
  * computed (said in the app's words, beside the material form).
  */
-import type { MaterialParams, MeasureParams } from '../../core/pipeline/index.js';
-import type { QuantityInput } from '../../core/tcd/resolve.js';
-import type { Material, MaterialValue } from '../../core/tcd/materials.js';
+import type { Material, MaterialParams, MaterialValue, MeasureParams, QuantityInput } from '../../core/index.js';
 import { emptyMaterial, type MaterialForm, type TypedValue } from './document.js';
 
 /** Source recorded for values typed in the app (echoed in the result). */

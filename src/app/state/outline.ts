@@ -4,7 +4,7 @@
  * that bend the nearby part of the edge. Pure polygon functions, px, project angle convention
  * (degrees, 0° = +x, counter-clockwise on screen).
  */
-import type { MeasureResult, PointPx } from '../../core/pipeline/index.js';
+import type { MeasureResult, PointPx } from '../../core/index.js';
 import { angleDeg, angleGap } from './geometry.js';
 
 /** Points of a circle, counter-clockwise on screen from 0°. */

@@ -4,9 +4,7 @@
  * current, out of date (and why), or missing. A result is current only when it was computed for
  * exactly the inputs on screen; anything else is shown as stale, with exports disabled.
  */
-import { canonicalJson, defaultParams, type MeasureParams, type PointPx } from '../../core/pipeline/index.js';
-import { fullRunReason } from '../../core/pipeline/recompute.js';
-import { isFractozoneError } from '../../core/errors.js';
+import { canonicalJson, defaultParams, fullRunReason, isFractozoneError, type MeasureParams, type PointPx } from '../../core/index.js';
 import { materialOf, settingsOf, type Doc, type Series } from './document.js';
 import { materialParamsOf } from './material.js';
 import { scaleOf, scaleParamsOf } from './scale.js';

@@ -3,9 +3,7 @@
  * rules give for it on this image (with the bar and metadata the image has), or why there is none,
  * in the app's words.
  */
-import { chooseScale, type MetadataScaleLike, type Scale, type ScaleBar } from '../../core/calibrate/index.js';
-import { isFractozoneError } from '../../core/errors.js';
-import type { ScaleParams } from '../../core/pipeline/index.js';
+import { chooseScale, isFractozoneError, type MetadataScale, type Scale, type ScaleBar, type ScaleParams } from '../../core/index.js';
 import type { Doc, ScaleChoice } from './document.js';
 
 /**
@@ -39,7 +37,7 @@ export function scaleChoiceOf(p: ScaleParams): ScaleChoice {
 /** The scale an image has now, or a sentence saying what to do to get one. */
 export type ScaleState = { ok: true; scale: Scale } | { ok: false; problem: string };
 
-function metadataOf(doc: Doc): MetadataScaleLike | null {
+function metadataOf(doc: Doc): MetadataScale | null {
   const m = doc.image.metadataScale;
   return m ? { umPerPxX: m.umPerPxX, umPerPxY: m.umPerPxY, source: m.source, ...(m.note ? { note: m.note } : {}) } : null;
 }

@@ -3,7 +3,7 @@
  * each keep their own history; undo takes the latest edit of the shown image or of the series, so
  * undoing on one image never changes another image's own inputs.
  */
-import type { FeatureName } from '../../core/texture/registry.js';
+import type { FeatureName } from '../../core/index.js';
 import { newSeries, type Doc, type DocPatch, type Message, type MessageArea, type Series, type SeriesPatch } from './document.js';
 import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type History, type HistoryMode } from './history.js';
 

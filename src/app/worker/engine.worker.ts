@@ -5,16 +5,8 @@
  * the worker runs the same code as the command line.
  */
 /// <reference lib="webworker" />
-import { setCv } from '../../core/cv.js';
-import { isFractozoneError } from '../../core/errors.js';
-import { detectScaleBar } from '../../core/calibrate/index.js';
-import { decodeImage, type DecodedImage } from '../../core/decode/index.js';
-import { analyseDecoded, encodeOverlayPng, type MeasureParams, type MeasureResult, type PointPx } from '../../core/pipeline/index.js';
-import { recompute } from '../../core/pipeline/recompute.js';
-import { resultOverlay } from '../../core/report/resultOverlay.js';
+import { analyseDecoded, computeFeature, decodeImage, detectScaleBar, encodeOverlayPng, isFractozoneError, recompute, resultOverlay, setCv, type DecodedImage, type GrayRaster, type MeasureParams, type MeasureResult, type PointPx } from '../../core/index.js';
 import { fitEllipseToPoints } from '../../core/segment/fit.js';
-import { computeFeature } from '../../core/texture/registry.js';
-import type { GrayRaster } from '../../core/image/raster.js';
 import { asOpenCv, loadCvInWorker } from './loadCv.js';
 import type { EngineReplies, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
 

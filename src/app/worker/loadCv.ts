@@ -11,7 +11,7 @@
  */
 import cvSource from 'opencv-wasm/opencv.js?raw';
 import wasmUrl from 'opencv-wasm/opencv.wasm?url';
-import type { OpenCv } from '../../core/cv.js';
+import type { OpenCv } from '../../core/index.js';
 
 export type ProgressFn = (stage: string, fraction: number) => void;
 

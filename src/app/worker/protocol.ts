@@ -4,10 +4,7 @@
  * before. Results are core's `MeasureResult`; everything is structured-clone data (typed arrays
  * are transferred).
  */
-import type { ScaleBar } from '../../core/calibrate/index.js';
-import type { MetadataScale } from '../../core/decode/index.js';
-import type { MeasureParams, MeasureResult, PointPx } from '../../core/pipeline/index.js';
-import type { FeatureName } from '../../core/texture/registry.js';
+import type { FeatureName, MeasureParams, MeasureResult, MetadataScale, PointPx, ScaleBar } from '../../core/index.js';
 
 /** An opened image as the UI needs it. */
 export interface OpenedImage {

@@ -1,5 +1,5 @@
 /** L with its interval (or why it has none), the width/reference ratio, the verdict, the implied K_c. */
-import type { MeasureResult } from '../../../core/pipeline/index.js';
+import type { MeasureResult } from '../../../core/index.js';
 import { num } from './types.js';
 
 function lLabel(basis: NonNullable<MeasureResult['criticalDistance']>['basis']): string {

@@ -2,7 +2,7 @@
  * Material and critical distance: the series' material (or this image's own), the image's strain
  * rate, what is missing (beside the form), and the comparison of the width with L.
  */
-import type { Material } from '../../../core/tcd/materials.js';
+import type { Material } from '../../../core/index.js';
 import { materialOf, type MaterialForm, type TypedValue } from '../../state/document.js';
 import { materialProblem, sheetMaterial } from '../../state/material.js';
 import { chooseSheetMaterial, ownMaterial, setMaterial, setStrainRate } from '../../state/actions/inputs.js';

@@ -1,8 +1,6 @@
 /** Band width: whether the result is current, the statistics (µm), warnings, histogram and polar profile. */
 import { useMemo } from 'react';
-import type { MeasureResult } from '../../../core/pipeline/index.js';
-import { histogramSvg, polarProfileSvg } from '../../../core/report/svg.js';
-import { summarise, type Figure, type IntervalFigure, type ResultSummary } from '../../../core/report/summary.js';
+import { histogramSvg, polarProfileSvg, summarise, type Figure, type IntervalFigure, type MeasureResult, type ResultSummary } from '../../../core/index.js';
 import { resultStateOf, type ResultState } from '../../state/results.js';
 import { withoutCliHints } from '../../state/words.js';
 import { num, type PanelProps } from './types.js';

@@ -1,6 +1,5 @@
 /** Texture map: one roughness feature laid over the image, with the measurement's window. */
-import { DEFAULT_FEATURES } from '../../../core/pipeline/index.js';
-import { isFeatureName } from '../../../core/texture/registry.js';
+import { DEFAULT_FEATURES, isFeatureName } from '../../../core/index.js';
 import { featureLabel } from '../../flows/measure.js';
 import { setView, type ViewState } from '../../state/store.js';
 import type { Update } from '../../hooks/useStore.js';

@@ -1,5 +1,5 @@
 /** What every panel gets: the shown image, the series, and ways to act on them. */
-import type { FeatureName } from '../../../core/texture/registry.js';
+import type { FeatureName } from '../../../core/index.js';
 import type { Doc, MessageArea, Series } from '../../state/document.js';
 import type { Change } from '../../state/actions/types.js';
 import type { ExportKind } from '../../flows/save.js';

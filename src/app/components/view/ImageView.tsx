@@ -4,7 +4,7 @@
  */
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { Stage } from 'react-konva';
-import type { PointPx } from '../../../core/pipeline/index.js';
+import type { PointPx } from '../../../core/index.js';
 import type { Doc } from '../../state/document.js';
 import type { Tool } from '../../state/store.js';
 import type { Change } from '../../state/actions/types.js';

@@ -1,6 +1,6 @@
 /** The Konva layers of the image view, drawn from `shapesOf` (pure) and the drag in progress. */
 import { Circle, Group, Image as KImage, Layer, Line } from 'react-konva';
-import type { PointPx } from '../../../core/pipeline/index.js';
+import type { PointPx } from '../../../core/index.js';
 import { sectorFromDrag } from '../../state/geometry.js';
 import { wedge, type Shapes } from '../../render/layers.js';
 import type { Drag } from './drag.js';

@@ -3,7 +3,7 @@
  * edit), moves continue it, the release ends it. Edits are actions (see state/actions); a drag's
  * edits are one history entry. No React here.
  */
-import type { PointPx } from '../../../core/pipeline/index.js';
+import type { PointPx } from '../../../core/index.js';
 import { boundaryOf, centreOf, outlineOf, type Doc } from '../../state/document.js';
 import { nearestVertex, sectorFromDrag } from '../../state/geometry.js';
 import { outlineHandles } from '../../state/outline.js';

@@ -3,7 +3,7 @@
  * and the outcome of a full run. Drags pass `history: 'drag'` while moving and `'drag-end'` at
  * release, so a drag is one history entry.
  */
-import type { PointPx } from '../../../core/pipeline/index.js';
+import type { PointPx } from '../../../core/index.js';
 import { boundaryOf, centreOf, type Analysis, type Doc } from '../document.js';
 import type { HistoryMode } from '../history.js';
 import { brushBoundary, moveVertex, nearestVertex, pullBoundaryThrough, removeVertex } from '../geometry.js';

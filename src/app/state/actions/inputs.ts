@@ -2,7 +2,7 @@
  * Analysis settings, material and strain rate. Settings and material belong to the series unless
  * the image has its own; an edit goes to whichever the image uses.
  */
-import type { Material } from '../../../core/tcd/materials.js';
+import type { Material } from '../../../core/index.js';
 import type { AnalysisSettings, Doc, MaterialForm, Series, TypedValue } from '../document.js';
 import { docEdit, positiveNumber, refuse, seriesEdit, unchanged, type Change } from './types.js';
 

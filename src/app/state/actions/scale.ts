@@ -1,6 +1,5 @@
 /** Scale actions: typed pixel size, scale-bar length, two points, file metadata. */
-import type { ScaleBar } from '../../../core/calibrate/index.js';
-import type { PointPx } from '../../../core/pipeline/index.js';
+import type { PointPx, ScaleBar } from '../../../core/index.js';
 import type { Doc } from '../document.js';
 import { docEdit, positiveNumber, refuse, unchanged, type Change } from './types.js';
 

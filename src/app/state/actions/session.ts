@@ -1,7 +1,5 @@
 /** Reopening a session: the image's inputs as the session file holds them. */
-import { canonicalJson } from '../../../core/pipeline/index.js';
-import type { Session } from '../../../core/session.js';
-import { isFeatureName } from '../../../core/texture/registry.js';
+import { canonicalJson, isFeatureName, type Session } from '../../../core/index.js';
 import type { Analysis, AnalysisSettings, Doc, Series } from '../document.js';
 import { materialFormOf } from '../material.js';
 import { scaleChoiceOf } from '../scale.js';
