@@ -11,7 +11,3 @@ declare module '*.css' {
   const css: string;
   export default css;
 }
-interface ImportMeta {
-  /** Vite: lazy importers of the files matching `pattern` at build time (empty if none exist). */
-  glob(pattern: string, options?: { eager?: boolean }): Record<string, () => Promise<unknown>>;
-}

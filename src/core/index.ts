@@ -5,9 +5,13 @@
  *
  * - Measure an image: `analyseImage` / `analyseDecoded` with a `MeasureParams` (from
  *   `defaultParams()`), giving a `MeasureResult` (schema `RESULT_SCHEMA`) and an overlay picture;
- *   `remeasure` re-runs the measurement of a result with an edited boundary or other parameters.
+ *   `remeasure` re-runs the measurement of a result with an edited boundary or other parameters;
+ *   `recompute` applies any later input (scale, corrected outline, boundary, material, …) to a full
+ *   run's result from its stored geometry, or says why only a full run can give the numbers.
  * - Show a result: `summarise` (the labelled figures every view formats), `entryRow` / `toCsv`
- *   (tables), `buildReportHtml` (batch report), `encodeOverlayPng`.
+ *   (tables), `buildReportHtml` (batch report), `buildImageReportHtml` (one image),
+ *   `resultOverlay` / `encodeOverlayPng` (overlay pictures).
+ * - Take work up again: `makeSession` / `sessionText` / `parseSession` (`SESSION_SCHEMA`).
  * - The engineering caution every view carries: `CAUTION`.
  */
 
@@ -54,6 +58,8 @@ export type {
   QualityVerdict,
 } from './pipeline/index.js';
 export { judgeQuality, assessQuality, QUALITY_RULES, type QualityRule } from './pipeline/stages/quality.js';
+export { recompute, fullRunReason, rescaleResult, withOutline, scaleFor, OUTLINE_CORRECTED, type RecomputeOutcome } from './pipeline/recompute.js';
+export { SESSION_SCHEMA, makeSession, sessionText, parseSession, type Session } from './session.js';
 export { CAUTION } from './caution.js';
 export {
   WARNINGS,
@@ -134,6 +140,7 @@ export {
   type UnitSystem,
   type EchoedValue,
   type Material,
+  type MaterialValue,
   type QuantityInput,
   type ResolvedDistance,
   type CompareResult,
@@ -158,7 +165,9 @@ export {
   type Cell,
 } from './report/csv.js';
 export { analyseSeries, type SeriesAnalysis } from './report/series.js';
-export { buildReportHtml, type ReportInput } from './report/html.js';
+export { buildReportHtml, card, type ReportInput } from './report/html.js';
+export { buildImageReportHtml, imageEntry, type ImageReportInput } from './report/imageReport.js';
+export { resultOverlay } from './report/resultOverlay.js';
 export { histogramSvg, polarProfileSvg, seriesPlotSvg, escapeXml } from './report/svg.js';
 export { renderOverlay, type OverlayInput } from './report/overlay.js';
 export type { RgbaImage } from './draw/index.js';

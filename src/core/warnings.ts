@@ -29,6 +29,7 @@ export const WARNINGS = {
   // specimen
   SPECIMEN_CUT_BY_FRAME: { severity: 'check', description: 'the specimen is cut by the image frame; rays reaching the frame are not measured' },
   SCALE_MARK_ON_OUTLINE: { severity: 'check', description: 'the scale bar or its plate touches the specimen outline; rays ending there are not measured' },
+  OUTLINE_CORRECTED: { severity: 'info', description: 'the specimen outline was corrected by hand; centre, radius, ellipse and area are fitted to the corrected outline' },
   // rim/core classification
   WEAK_TEXTURE_CONTRAST: { severity: 'check', description: 'rim and core textures differ weakly (Fisher ratio below 4)' },
   TEXTURE_OVERLAP: { severity: 'check', description: 'the rim and core texture histograms overlap by more than 0.2' },

@@ -34,7 +34,7 @@ export function ensureBuilt(): void {
   execFileSync(process.execPath, [join(repoRoot, 'node_modules/vite/bin/vite.js'), 'build'], { cwd: repoRoot, stdio: 'inherit' });
 }
 
-export async function launchApp(opts: { path?: string } = {}): Promise<AppSession> {
+export async function launchApp(opts: { path?: string; viewport?: { width: number; height: number } } = {}): Promise<AppSession> {
   if (!existsSync(CHROMIUM)) {
     throw new Error(`Chromium not found at ${CHROMIUM}: install it (apt-get install chromium) or set FRACTOZONE_SKIP_E2E=1 to skip the browser tests`);
   }
@@ -57,7 +57,7 @@ export async function launchApp(opts: { path?: string } = {}): Promise<AppSessio
         '--no-first-run',
         '--disable-quic',
       ],
-      viewport: { width: 1400, height: 900 },
+      viewport: opts.viewport ?? { width: 1400, height: 900 },
       acceptDownloads: true,
     });
   } catch (e) {
@@ -94,4 +94,57 @@ export async function launchApp(opts: { path?: string } = {}): Promise<AppSessio
       rmSync(profile, { recursive: true, force: true });
     },
   };
+}
+
+/** Waits until the engine is ready and the bundled sample is open with its scale set (the app's start-up). */
+export async function waitForStart(page: Page): Promise<void> {
+  await page.getByTestId('engine-status').filter({ hasText: 'self-test passed' }).waitFor({ timeout: 60_000 });
+  await page.getByTestId('image-item').first().waitFor({ timeout: 30_000 });
+  await page.locator('[data-testid=scale-source][data-um-per-px]:not([data-um-per-px=""])').waitFor({ timeout: 30_000 });
+}
+
+/** Opens an image through the file input and waits until it is the shown image. */
+export async function openImage(page: Page, file: string): Promise<void> {
+  const name = file.split('/').pop() ?? file;
+  await page.getByTestId('file-input').setInputFiles(file);
+  await page.locator(`[data-testid=image-item][data-name="${name}"].active`).waitFor({ timeout: 30_000 });
+}
+
+/** Shows an open image by name. */
+export async function showImage(page: Page, name: string): Promise<void> {
+  await page.locator(`[data-testid=image-item][data-name="${name}"] button.name`).click();
+  await page.locator(`[data-testid=image-item][data-name="${name}"].active`).waitFor();
+}
+
+/** Waits until the shown result is current (computed for the inputs on screen). */
+export async function waitCurrent(page: Page, timeout = 60_000): Promise<void> {
+  await page.locator('[data-testid=result-state][data-state=current]').waitFor({ timeout });
+}
+
+/** The mean band width shown (µm), once the result is current. */
+export async function currentMean(page: Page): Promise<number> {
+  await waitCurrent(page);
+  return Number(await page.getByTestId('stat-mean').getAttribute('data-value'));
+}
+
+/** Types into a number field and presses Enter (fields commit on Enter or when left). */
+export async function typeNumber(page: Page, testId: string, value: string): Promise<void> {
+  await page.getByTestId(testId).fill(value);
+  await page.getByTestId(testId).press('Enter');
+}
+
+/** Sets a typed pixel size (µm/px) with the field and its apply button. */
+export async function setPixelSize(page: Page, umPerPx: number): Promise<void> {
+  await page.getByTestId('typed-um').fill(String(umPerPx));
+  await page.getByTestId('typed-um-apply').click();
+  await page.locator(`[data-testid=scale-source][data-um-per-px="${umPerPx}"]`).waitFor();
+}
+
+/** Clicks a save button and returns the downloaded file's path. */
+export async function downloadOf(page: Page, testId: string): Promise<string> {
+  const dl = page.waitForEvent('download');
+  await page.getByTestId(testId).click();
+  const path = await (await dl).path();
+  if (!path) throw new Error(`no file downloaded from ${testId}`);
+  return path;
 }

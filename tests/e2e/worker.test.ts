@@ -1,4 +1,4 @@
-/** The engine worker loads OpenCV in headless Chromium and runs a cv.boxFilter. */
+/** The engine worker loads OpenCV in headless Chromium and passes its self-test through core. */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { SKIP_E2E, launchApp, type AppSession } from './harness.js';
 
@@ -11,11 +11,11 @@ describe.skipIf(SKIP_E2E)('engine worker in Chromium', () => {
     await s?.close();
   });
 
-  it('loads OpenCV in the worker and a 3×3 box filter spreads a 9 into nine 1s', async () => {
+  it('loads OpenCV in the worker; core’s ellipse fit (cv.fitEllipse) gives back a circle of radius 10 px', async () => {
     const status = s.page.getByTestId('engine-status');
-    await expect.poll(async () => status.textContent(), { timeout: 60_000 }).toMatch(/self-test (passed|FAILED)|engine failed/);
-    // Normalised 3×3 box filter of a single 9 at the centre (zero border) gives 1 at the centre;
-    // the app checks all nine outputs equal 1 (common practice, no source: definition of a mean filter).
+    await expect.poll(async () => status.textContent(), { timeout: 60_000 }).toMatch(/self-test (passed|FAILED)|failed to start/);
+    // The worker fits an ellipse to 24 points on a circle of radius 10 px about (50, 40) and checks
+    // both semi-axes and the centre to 1e-3 px (a circle is its own best-fitting ellipse).
     expect(await status.textContent()).toContain('self-test passed');
     expect(s.consoleErrors).toEqual([]);
     expect(s.foreignRequests).toEqual([]);

@@ -1,89 +1,100 @@
 /**
- * Rendering as a pure function of state: from a document and the view, the shapes each Konva
- * layer draws (image px coordinates). The React/Konva component only maps these to nodes.
+ * Rendering as a pure function of state: from a document, the tool and the pointer, the shapes each
+ * Konva layer draws (image px coordinates), plus the view transform helpers. The React/Konva
+ * component only maps these to nodes.
  */
-import type { PointPx } from '../../core/pipeline/types.js';
-import type { Doc } from '../state/document.js';
-import { outlinePolygonOf } from '../state/params.js';
+import type { PointPx } from '../../core/index.js';
+import { boundaryOf, centreOf, outlineOf, type Doc } from '../state/document.js';
+import { nearestVertex } from '../state/geometry.js';
+import { outlineHandles } from '../state/outline.js';
+import type { Tool } from '../state/store.js';
 
-export interface SectorShape {
-  index: number;
-  from: number;
-  to: number;
-  /** Wedge polygon (px) from the centre out to beyond the outline. */
-  points: number[];
+export interface View {
+  scale: number;
+  x: number;
+  y: number;
 }
 
-export interface OverlayShapes {
+export interface Shapes {
   outline: number[] | null;
   boundary: number[] | null;
-  center: PointPx | null;
-  sectors: SectorShape[];
+  centre: PointPx | null;
+  /** Excluded sectors as wedges from the centre (drawn clipped to the outline). */
+  sectors: number[][];
   scaleLine: [PointPx, PointPx] | null;
   bar: [PointPx, PointPx] | null;
-  /** Boundary handles (px) when the boundary tools are active. */
-  handles: PointPx[];
-  /** Outline handles: centre, +a and +b semi-axis ends. */
-  outlineHandles: { center: PointPx; a: PointPx; b: PointPx } | null;
+  /** The boundary point the pointer would pick (boundary tools). */
+  hoverVertex: PointPx | null;
+  /** Outline handles: centre (moves the outline) and points that reshape it (outline tool). */
+  outlineHandles: { centre: PointPx; points: PointPx[] } | null;
 }
+
+/** Number of reshape handles around the outline. */
+export const OUTLINE_HANDLES = 16;
+/** Pick distance for handles and points, screen px. */
+export const PICK_PX = 10;
 
 const flat = (poly: readonly PointPx[]): number[] => poly.flatMap((p) => [p.x, p.y]);
 
-/** Outline handles (px): centre and the ends of the two semi-axes (angle convention: CCW on screen). */
-export function outlineHandlesOf(doc: Doc): OverlayShapes['outlineHandles'] {
-  const o = doc.outline;
-  if (!o) return null;
-  const a = (o.angleDeg * Math.PI) / 180;
-  return {
-    center: { x: o.cx, y: o.cy },
-    a: { x: o.cx + o.rx * Math.cos(a), y: o.cy - o.rx * Math.sin(a) },
-    b: { x: o.cx - o.ry * Math.sin(a), y: o.cy - o.ry * Math.cos(a) },
-  };
+/** Wedge polygon of the sector [from, to] (degrees, counter-clockwise) out to `reach` px. */
+export function wedge(c: PointPx, from: number, to: number, reach: number): number[] {
+  let span = (to - from) % 360;
+  if (span < 0) span += 360;
+  const pts: number[] = [c.x, c.y];
+  const steps = Math.max(2, Math.ceil(span / 3));
+  for (let k = 0; k <= steps; k++) {
+    const t = ((from + (span * k) / steps) * Math.PI) / 180;
+    pts.push(c.x + reach * Math.cos(t), c.y - reach * Math.sin(t));
+  }
+  return pts;
 }
 
-/** Shapes of the overlay and handle layers for a document and the active tool (pure). */
-export function overlayShapes(doc: Doc, tool: string): OverlayShapes {
-  const outlinePoly = outlinePolygonOf(doc);
-  const center = doc.outline ? { x: doc.outline.cx, y: doc.outline.cy } : null;
-  const reach = doc.outline ? Math.max(doc.outline.rx, doc.outline.ry) * 1.15 : 0;
-  const sectors: SectorShape[] = center
-    ? doc.exclude.map(([from, to], index) => {
-        let span = (to - from) % 360;
-        if (span < 0) span += 360;
-        const pts: number[] = [center.x, center.y];
-        const steps = Math.max(2, Math.ceil(span / 3));
-        for (let k = 0; k <= steps; k++) {
-          const t = ((from + (span * k) / steps) * Math.PI) / 180;
-          pts.push(center.x + reach * Math.cos(t), center.y - reach * Math.sin(t));
-        }
-        return { index, from, to, points: pts };
-      })
-    : [];
+/** Largest distance of the polygon's points from c. */
+function reachOf(poly: readonly PointPx[], c: PointPx): number {
+  let r = 0;
+  for (const p of poly) r = Math.max(r, Math.hypot(p.x - c.x, p.y - c.y));
+  return r;
+}
+
+/** Shapes of the overlay and handle layers (pure). `pointer` is the cursor in image px, `k` image px per screen px. */
+export function shapesOf(doc: Doc, tool: Tool, pointer: PointPx | null, k: number): Shapes {
+  const outline = outlineOf(doc);
+  const boundary = boundaryOf(doc);
+  const centre = centreOf(doc);
+  const reach = outline && centre ? reachOf(outline, centre) * 1.05 : 0;
   const sc = doc.scale;
-  const editing = tool === 'vertex' || tool === 'add-vertex' || tool === 'remove-vertex';
+  const bar = doc.bar && sc.source === 'scale-bar' ? doc.bar : null;
+  const pickBoundary = tool === 'vertex' || tool === 'remove-vertex';
+  const i = pickBoundary && boundary && pointer ? nearestVertex(boundary, pointer, PICK_PX * k) : -1;
   return {
-    outline: outlinePoly ? flat(outlinePoly) : null,
-    boundary: doc.boundary ? flat(doc.boundary) : null,
-    center,
-    sectors,
+    outline: outline ? flat(outline) : null,
+    boundary: boundary ? flat(boundary) : null,
+    centre,
+    sectors: centre ? doc.exclude.map(([a, b]) => wedge(centre, a, b, reach)) : [],
     scaleLine: sc.source === 'two-point' ? [sc.p0, sc.p1] : null,
-    bar: sc.source === 'scale-bar' && sc.bar ? [{ x: sc.bar.x0, y: sc.bar.y0 }, { x: sc.bar.x1, y: sc.bar.y1 }] : null,
-    handles: editing && doc.boundary ? doc.boundary : [],
-    outlineHandles: tool === 'outline' ? outlineHandlesOf(doc) : null,
+    bar: bar ? [{ x: bar.x0, y: bar.y0 }, { x: bar.x1, y: bar.y1 }] : null,
+    hoverVertex: boundary && i >= 0 ? boundary[i] : null,
+    outlineHandles:
+      tool === 'outline' && outline && centre ? { centre, points: outlineHandles(outline, centre, OUTLINE_HANDLES).map((h) => h.at) } : null,
   };
 }
 
 /** Stage transform that fits an image of w×h px into a viewport of vw×vh (with a margin). */
-export function fitView(w: number, h: number, vw: number, vh: number): { scale: number; x: number; y: number } {
-  const scale = Math.min((vw - 20) / w, (vh - 20) / h);
+export function fitView(w: number, h: number, vw: number, vh: number): View {
+  const scale = Math.min((vw - 16) / w, (vh - 16) / h);
   const s = Number.isFinite(scale) && scale > 0 ? scale : 1;
   return { scale: s, x: (vw - w * s) / 2, y: (vh - h * s) / 2 };
 }
 
 /** Zoom about a screen point: the image point under the cursor stays put. */
-export function zoomAt(view: { scale: number; x: number; y: number }, screen: PointPx, factor: number): { scale: number; x: number; y: number } {
+export function zoomAt(view: View, screen: PointPx, factor: number): View {
   const scale = Math.min(64, Math.max(0.01, view.scale * factor));
   const ix = (screen.x - view.x) / view.scale;
   const iy = (screen.y - view.y) / view.scale;
   return { scale, x: screen.x - ix * scale, y: screen.y - iy * scale };
+}
+
+/** Image px of a screen point. */
+export function toImage(view: View, screen: PointPx): PointPx {
+  return { x: (screen.x - view.x) / view.scale, y: (screen.y - view.y) / view.scale };
 }

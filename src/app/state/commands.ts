@@ -2,7 +2,7 @@
  * Commands: `{ name, label, key, perform }`. `perform` returns the new state and never touches the
  * UI; the keyboard handler and the panels both dispatch them. The help overlay lists them.
  */
-import { activeDoc, redo, setView, step, undo, type AppState, type Tool } from './store.js';
+import { redo, setView, step, undo, type AppState, type Tool } from './store.js';
 
 export interface Command {
   name: string;
@@ -25,13 +25,13 @@ export const COMMANDS: Command[] = [
   { name: 'redo-alt', label: 'Redo', key: 'Ctrl+Shift+Z', perform: redo },
   tool('tool-pan', 'Pan (drag the image)', 'H', 'pan'),
   tool('tool-vertex', 'Move boundary points', 'V', 'vertex'),
-  tool('tool-add-vertex', 'Add boundary point', 'A', 'add-vertex'),
+  tool('tool-add-vertex', 'Add point: pull the boundary through a point', 'A', 'add-vertex'),
   tool('tool-remove-vertex', 'Remove boundary point', 'X', 'remove-vertex'),
   tool('tool-brush-add', 'Brush: paint rim', 'B', 'brush-add'),
   tool('tool-brush-remove', 'Brush: paint core', 'E', 'brush-remove'),
   tool('tool-sector', 'Exclude a sector (drag around the centre)', 'S', 'sector'),
   tool('tool-scale-line', 'Scale line (drag along the bar)', 'L', 'scale-line'),
-  tool('tool-outline', 'Adjust the specimen outline', 'O', 'outline'),
+  tool('tool-outline', 'Correct the specimen outline (move, reshape, reset to a fit)', 'O', 'outline'),
   { name: 'next-image', label: 'Next image', key: 'N', perform: (s) => step(s, 1) },
   { name: 'previous-image', label: 'Previous image', key: 'P', perform: (s) => step(s, -1) },
   { name: 'help', label: 'Show / hide this list', key: '?', perform: (s) => setView(s, { showHelp: !s.view.showHelp }) },
@@ -61,4 +61,3 @@ export function run(s: AppState, name: string): AppState {
   return c ? c.perform(s) : s;
 }
 
-export { activeDoc };

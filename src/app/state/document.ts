@@ -1,51 +1,38 @@
 /**
- * The document model of the web app: one `Doc` per opened image. Plain data only (no React, no
- * Konva, no worker); every edit is a patch on a Doc so undo/redo can keep inverse deltas.
- * Coordinates are image pixels (pixel centres at integer x, y; x right, y down).
+ * The document model of the web app: one `Doc` per open image, and the `Series` the open images
+ * belong to (its material and analysis settings apply to every image that does not override them).
+ * Plain immutable data (no React, no Konva, no worker): every edit replaces fields, so undo/redo can
+ * keep the previous values. Coordinates are image pixels (pixel centres at integer x, y; x right,
+ * y down); lengths a user types are in µm.
  */
-import type { ScaleBarInfo } from '../worker/protocol.js';
-import type { PointPx } from '../../core/pipeline/types.js';
+import { DEFAULT_FEATURES, type FeatureName, type Material, type MeasureResult, type MetadataScale, type PointPx, type ScaleBar } from '../../core/index.js';
+import { emptyHistory, type History } from './history.js';
 
-/** Specimen outline as an ellipse, px; `angleDeg` follows the project convention (CCW on screen). */
-export interface Outline {
-  cx: number;
-  cy: number;
-  rx: number;
-  ry: number;
-  angleDeg: number;
+/** What the image file is (never edited). */
+export interface ImageInfo {
+  name: string;
+  sha256: string;
+  widthPx: number;
+  heightPx: number;
+  format: string;
+  bitDepth: number;
+  metadataScale: MetadataScale | null;
+  metadataNote: string | null;
 }
 
-/** The detected bar as the worker reports it (see worker/protocol.ts). */
-export type BarInfo = ScaleBarInfo;
-
-/** The active scale source. Only one is active at a time and it is always shown. */
+/** The scale the user chose for an image. Exactly one is active and it is always shown. */
 export type ScaleChoice =
   | { source: 'none' }
-  | { source: 'metadata'; umPerPx: number }
+  | { source: 'metadata' }
   | { source: 'typed'; umPerPx: number }
   | { source: 'two-point'; p0: PointPx; p1: PointPx; distanceUm: number }
-  | { source: 'scale-bar'; bar: BarInfo | null; barLengthUm: number };
+  | { source: 'scale-bar'; barLengthUm: number };
 
-export interface MaterialForm {
-  name: string;
-  /** A material record read from a material sheet (passed whole to the engine), or null. */
-  sheet: import('../../core/tcd/materials.js').Material | null;
-  toughnessMPaSqrtM: number | null;
-  toughnessSdMPaSqrtM: number | null;
-  strengthMPa: number | null;
-  strengthSdMPa: number | null;
-  strainRatePerS: number | null;
-  /** Power law L(ε̇) = A·ε̇^B (µm) — optional dynamic law; both null = static values. */
-  rateLawA: number | null;
-  rateLawB: number | null;
-  reference: 'L' | 'L/2' | '2L';
-  tolerancePct: number;
-}
-
+/** Analysis settings (series defaults, or one image's own). */
 export interface AnalysisSettings {
-  /** Texture window side, µm; null = automatic. */
+  /** Texture window side, µm; null = automatic (core's rule). */
   windowUm: number | null;
-  features: string[];
+  features: FeatureName[];
   nRays: number;
   dropOutliers: boolean;
   outlierK: number;
@@ -53,141 +40,147 @@ export interface AnalysisSettings {
   seed: number;
 }
 
+/** A typed value with its optional standard deviation (engine units). */
+export interface TypedValue {
+  value: number;
+  sd: number | null;
+}
+
+/** Material inputs: a material sheet (one material chosen) and/or typed values that override it. */
+export interface MaterialForm {
+  sheet: { file: string; materials: Material[]; chosen: string } | null;
+  /** K_c, MPa·√m. */
+  toughness: TypedValue | null;
+  /** σ0, MPa. */
+  strength: TypedValue | null;
+  /** Typed strain-rate law L = A·ε̇^B (A in µm, ε̇ in 1/s; either may still be missing); replaces the sheet's L law. */
+  rateLaw: { A: number | null; B: number | null } | null;
+  reference: 'L' | 'L/2' | '2L';
+  tolerancePct: number;
+}
+
+/** The result of a full run ("Find boundary"), the base every later result is recomputed from. */
+export interface Analysis {
+  /** Identity of this run (results computed from it carry it in their key). */
+  id: number;
+  result: MeasureResult;
+}
+
+/** A message about one image, shown beside what it concerns. */
+export interface Message {
+  area: MessageArea;
+  level: 'error' | 'warning' | 'info';
+  text: string;
+}
+export type MessageArea = 'image' | 'scale' | 'analysis' | 'edit' | 'material' | 'save' | 'session' | 'texture';
+
+/** One open image: what it is, its inputs (with history) and its current result. */
 export interface Doc {
   id: string;
-  name: string;
-  sha256: string;
-  widthPx: number;
-  heightPx: number;
-  format: string;
-  bitDepth: number;
-  metadataUmPerPx: number | null;
+  image: ImageInfo;
+  /** The detected scale bar: undefined = not looked for yet, null = none found. */
+  bar: ScaleBar | null | undefined;
+  // inputs (edited through actions, with history)
   scale: ScaleChoice;
-  settings: AnalysisSettings;
-  material: MaterialForm;
-  /** Outline from the automatic analysis (polygon, px) and its ellipse form for editing. */
-  outerPolygon: PointPx[] | null;
-  outline: Outline | null;
-  /** True once the user moved the outline (then it is sent as an override on re-measure). */
-  outlineEdited: boolean;
-  /** Boundary between rim and core (polygon, px); null before analysis. */
-  boundary: PointPx[] | null;
-  /** True once the boundary was edited by hand (sent as `boundaryPolygon`). */
-  boundaryEdited: boolean;
+  /** This image's own settings, or null for the series settings. */
+  settings: AnalysisSettings | null;
+  /** This image's own material inputs, or null for the series material. */
+  material: MaterialForm | null;
+  strainRatePerS: number | null;
   /** Excluded angular sectors, degrees [from, to] (project convention, wrap allowed). */
   exclude: [number, number][];
-  /** Latest result (schema fractozone.result/1) from the engine, and whether it is up to date. */
-  result: Record<string, unknown> | null;
-  resultStale: boolean;
-  status: 'opened' | 'analysing' | 'analysed' | 'error';
-  error: string | null;
+  /** Boundary corrected by hand (px), or null for the automatic one of the base run. */
+  boundary: PointPx[] | null;
+  /** Outer edge corrected by hand (px), or null for the one of the base run. */
+  outline: PointPx[] | null;
+  /** The last full run. */
+  base: Analysis | null;
+  // derived from the inputs by the engine (no history)
+  result: MeasureResult | null;
+  /** The inputs `result` belongs to (see results.ts); the result is current only when they match. */
+  resultKey: string | null;
+  /** Inputs for which only a full run gives numbers, and why. */
+  fullRun: { key: string; reason: string } | null;
+  /** Inputs the engine refused, and why (e.g. no scale). */
+  refused: { key: string; message: string } | null;
+  /** Why the material was left out of the result, when it was. */
+  materialError: string | null;
+  busy: 'analysing' | null;
+  messages: Message[];
+  history: History<DocPatch>;
 }
+
+/** Fields an edit may change. */
+export type DocPatch = Partial<Omit<Doc, 'id' | 'image' | 'history'>>;
+
+/** Series-level inputs: material and analysis settings for every image that does not override them. */
+export interface Series {
+  material: MaterialForm;
+  settings: AnalysisSettings;
+  history: History<SeriesPatch>;
+}
+export type SeriesPatch = Partial<Omit<Series, 'history'>>;
 
 /** Analysis settings equal to core's defaultParams (automatic window, 360 rays, seed 1). */
 export function defaultSettings(): AnalysisSettings {
-  return {
-    windowUm: null,
-    features: ['localStd', 'localEntropy', 'gradientEnergy'],
-    nRays: 360,
-    dropOutliers: false,
-    outlierK: 3.5,
-    bootstrap: 2000,
-    seed: 1,
-  };
+  return { windowUm: null, features: [...DEFAULT_FEATURES], nRays: 360, dropOutliers: false, outlierK: 3.5, bootstrap: 2000, seed: 1 };
 }
 
-/** Empty material form (no comparison until K_c and σ0 are typed), reference L, tolerance 20 %. */
-export function defaultMaterial(): MaterialForm {
+/** No material (no comparison until one is given), reference L, tolerance 20 %. */
+export function emptyMaterial(): MaterialForm {
+  return { sheet: null, toughness: null, strength: null, rateLaw: null, reference: 'L', tolerancePct: 20 };
+}
+
+export function newSeries(): Series {
+  return { material: emptyMaterial(), settings: defaultSettings(), history: emptyHistory() };
+}
+
+/** A new document for an opened image; the file's metadata scale is the initial scale when it has one. */
+export function newDoc(id: string, image: ImageInfo): Doc {
   return {
-    name: '',
-    sheet: null,
-    toughnessMPaSqrtM: null,
-    toughnessSdMPaSqrtM: null,
-    strengthMPa: null,
-    strengthSdMPa: null,
+    id,
+    image,
+    bar: undefined,
+    scale: image.metadataScale ? { source: 'metadata' } : { source: 'none' },
+    settings: null,
+    material: null,
     strainRatePerS: null,
-    rateLawA: null,
-    rateLawB: null,
-    reference: 'L',
-    tolerancePct: 20,
-  };
-}
-
-/** A new document for an opened image; the metadata scale (µm/px) is the initial scale when present. */
-export function newDoc(init: {
-  id: string;
-  name: string;
-  sha256: string;
-  widthPx: number;
-  heightPx: number;
-  format?: string;
-  bitDepth?: number;
-  metadataUmPerPx?: number | null;
-}): Doc {
-  const meta = init.metadataUmPerPx ?? null;
-  return {
-    id: init.id,
-    name: init.name,
-    sha256: init.sha256,
-    widthPx: init.widthPx,
-    heightPx: init.heightPx,
-    format: init.format ?? 'unknown',
-    bitDepth: init.bitDepth ?? 8,
-    metadataUmPerPx: meta,
-    scale: meta ? { source: 'metadata', umPerPx: meta } : { source: 'none' },
-    settings: defaultSettings(),
-    material: defaultMaterial(),
-    outerPolygon: null,
-    outline: null,
-    outlineEdited: false,
-    boundary: null,
-    boundaryEdited: false,
     exclude: [],
+    boundary: null,
+    outline: null,
+    base: null,
     result: null,
-    resultStale: false,
-    status: 'opened',
-    error: null,
+    resultKey: null,
+    fullRun: null,
+    refused: null,
+    materialError: null,
+    busy: null,
+    messages: [],
+    history: emptyHistory(),
   };
 }
 
-/** µm per pixel of the active scale, when the app knows it (the scale-bar length needs the bar). */
-export function umPerPxOf(doc: Doc): number | null {
-  const s = doc.scale;
-  switch (s.source) {
-    case 'none':
-      return null;
-    case 'metadata':
-    case 'typed':
-      return s.umPerPx;
-    case 'two-point': {
-      const d = Math.hypot(s.p1.x - s.p0.x, s.p1.y - s.p0.y);
-      return d > 0 ? s.distanceUm / d : null;
-    }
-    case 'scale-bar':
-      return s.bar && s.bar.lengthPx > 0 ? s.barLengthUm / s.bar.lengthPx : null;
-  }
+/** The settings an image uses. */
+export function settingsOf(doc: Doc, series: Series): AnalysisSettings {
+  return doc.settings ?? series.settings;
 }
 
-/** Plain words for the active scale source, always shown in the UI. */
-export function describeScale(doc: Doc): string {
-  const u = umPerPxOf(doc);
-  const v = u === null ? '' : ` — ${fmtNum(u)} µm/px`;
-  switch (doc.scale.source) {
-    case 'none':
-      return 'no scale set (lengths in px only)';
-    case 'metadata':
-      return `from file metadata${v}`;
-    case 'typed':
-      return `typed pixel size${v}`;
-    case 'two-point':
-      return `two points, ${fmtNum(doc.scale.distanceUm)} µm apart${v}`;
-    case 'scale-bar':
-      return `scale bar of ${fmtNum(doc.scale.barLengthUm)} µm${doc.scale.bar ? '' : ' (bar not found yet)'}${v}`;
-  }
+/** The material inputs an image uses. */
+export function materialOf(doc: Doc, series: Series): MaterialForm {
+  return doc.material ?? series.material;
 }
 
-/** Number with 4 significant digits, plain notation. */
-export function fmtNum(v: number, digits = 4): string {
-  if (!Number.isFinite(v)) return '—';
-  return Number(v.toPrecision(digits)).toString();
+/** The boundary in use (px): the corrected one, else the automatic one of the base run. */
+export function boundaryOf(doc: Doc): PointPx[] | null {
+  return doc.boundary ?? doc.base?.result.band.boundary?.polygon ?? null;
+}
+
+/** The outer edge in use (px): the corrected one, else the one of the base run. */
+export function outlineOf(doc: Doc): PointPx[] | null {
+  return doc.outline ?? doc.base?.result.specimen.outline ?? null;
+}
+
+/** The centre of the rays (px): of the current result, else of the base run. */
+export function centreOf(doc: Doc): PointPx | null {
+  return (doc.result ?? doc.base?.result)?.specimen.center ?? null;
 }

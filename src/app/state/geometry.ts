@@ -2,7 +2,7 @@
  * Pure polygon edits used by the boundary tools. Angles follow the project convention:
  * degrees, 0° = +x, counter-clockwise on screen, direction (cos θ, −sin θ) in image coordinates.
  */
-import type { PointPx } from '../../core/pipeline/types.js';
+import type { PointPx } from '../../core/index.js';
 
 /** Angle of `p` seen from `c`, degrees in [0, 360). */
 export function angleDeg(c: PointPx, p: PointPx): number {
@@ -53,6 +53,33 @@ export function insertVertex(poly: readonly PointPx[], p: PointPx): { poly: Poin
   const out = poly.map((q) => ({ ...q }));
   out.splice(best + 1, 0, { x: p.x, y: p.y });
   return { poly: out, index: best + 1 };
+}
+
+/** Smallest absolute difference of two angles, degrees in [0, 180]. */
+export function angleGap(a: number, b: number): number {
+  const d = Math.abs((((a - b) % 360) + 540) % 360 - 180);
+  return d;
+}
+
+/**
+ * "Add point": the boundary is pulled through `p`. Vertices within ±`spanDeg` of p's angle (seen
+ * from the centre `c`) move radially towards p's radius with a raised-cosine weight (1 at p's
+ * angle, 0 at ±spanDeg), and `p` itself is inserted. So the rays near p see the new point: a point
+ * inserted between two rays alone would change no ray's width.
+ */
+export function pullBoundaryThrough(poly: readonly PointPx[], c: PointPx, p: PointPx, spanDeg: number): PointPx[] {
+  const ap = angleDeg(c, p);
+  const rp = Math.hypot(p.x - c.x, p.y - c.y);
+  const moved = poly.map((v) => {
+    const g = angleGap(angleDeg(c, v), ap);
+    if (g >= spanDeg) return { ...v };
+    const w = 0.5 * (1 + Math.cos((Math.PI * g) / spanDeg));
+    const rv = Math.hypot(v.x - c.x, v.y - c.y);
+    if (rv === 0) return { ...v };
+    const k = (rv + (rp - rv) * w) / rv;
+    return { x: c.x + (v.x - c.x) * k, y: c.y + (v.y - c.y) * k };
+  });
+  return insertVertex(moved, p).poly;
 }
 
 /** Removes vertex `i` (a polygon keeps at least 3 vertices). */

@@ -1,55 +1,48 @@
 /**
- * Application state and its inverse-delta history (pure functions, no React).
- *
- * Every document edit is a patch (a subset of Doc fields). Entering the history stores the patch
- * and its inverse (the previous values of the same fields); undo applies the inverse, redo the patch.
- * A drag is one entry: `edit(..., 'transient')` updates the state without history and remembers the
- * values from before the drag; `edit(..., 'end')` closes it as a single entry.
+ * Application state and how edits enter it (pure functions, no React). Documents and the series
+ * each keep their own history; undo takes the latest edit of the shown image or of the series, so
+ * undoing on one image never changes another image's own inputs.
  */
-import type { Doc } from './document.js';
+import type { FeatureName } from '../../core/index.js';
+import { newSeries, type Doc, type DocPatch, type Message, type MessageArea, type Series, type SeriesPatch } from './document.js';
+import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type History, type HistoryMode } from './history.js';
 
-export type DocPatch = Partial<Omit<Doc, 'id'>>;
-
-export interface HistoryEntry {
-  docId: string;
-  label: string;
-  /** Values after the edit (redo) and before it (undo), same keys. */
-  redo: DocPatch;
-  undo: DocPatch;
-}
-
-export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'scale-line' | 'outline';
+export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'outline' | 'scale-line';
 
 export interface ViewState {
   tool: Tool;
+  /** Brush radius, µm; 0 = automatic (1/40 of the smaller image side). */
   brushRadiusUm: number;
-  overlayFeature: string | null;
-  overlayWindowUm: number;
-  overlayOpacity: number;
+  texture: { feature: FeatureName | null; opacity: number };
   showHelp: boolean;
 }
 
 export interface AppState {
   docs: Doc[];
   activeId: string | null;
-  undo: HistoryEntry[];
-  redo: HistoryEntry[];
-  /** Open drag: the values before it started (for its single history entry). */
-  drag: { docId: string; label: string; before: DocPatch } | null;
+  series: Series;
   view: ViewState;
+  /** Order counter of history entries over all histories. */
+  seq: number;
+  /** Messages not tied to an open image (a file that could not be opened), newest last. */
+  notices: string[];
 }
 
-export const HISTORY_LIMIT = 200;
+/** An edit as actions return it: the new values, and whether (and how) it enters the history. */
+export interface Edit<P> {
+  label: string;
+  patch: P;
+  history: HistoryMode;
+}
 
-/** Empty state: no documents, empty history, point tool. */
 export function initialState(): AppState {
   return {
     docs: [],
     activeId: null,
-    undo: [],
-    redo: [],
-    drag: null,
-    view: { tool: 'vertex', brushRadiusUm: 0, overlayFeature: null, overlayWindowUm: 0, overlayOpacity: 0.5, showHelp: false },
+    series: newSeries(),
+    view: { tool: 'vertex', brushRadiusUm: 0, texture: { feature: null, opacity: 0.5 }, showHelp: false },
+    seq: 0,
+    notices: [],
   };
 }
 
@@ -58,95 +51,80 @@ export function activeDoc(s: AppState): Doc | null {
   return s.docs.find((d) => d.id === s.activeId) ?? null;
 }
 
-function clone<T>(v: T): T {
-  return v === undefined ? v : (structuredClone(v) as T);
+function mapDoc(s: AppState, id: string, f: (d: Doc) => Doc): AppState {
+  return { ...s, docs: s.docs.map((d) => (d.id === id ? f(d) : d)) };
 }
 
-/** The current values of the patch's fields (deep copies). */
-export function pick(doc: Doc, keys: readonly string[]): DocPatch {
-  const out: Record<string, unknown> = {};
-  for (const k of keys) out[k] = clone((doc as unknown as Record<string, unknown>)[k]);
-  return out as DocPatch;
+/** Applies an edit to one document (recording it in that document's history). */
+export function editDoc(s: AppState, id: string, e: Edit<DocPatch>): AppState {
+  const seq = s.seq + 1;
+  return { ...mapDoc(s, id, (d) => ({ ...d, ...e.patch, history: record(d.history, d, e.patch, e.history, e.label, seq) })), seq };
 }
 
-function applyPatch(s: AppState, docId: string, patch: DocPatch): AppState {
-  return { ...s, docs: s.docs.map((d) => (d.id === docId ? { ...d, ...clone(patch) } : d)) };
+/** Applies an edit to the series (recording it in the series history). */
+export function editSeries(s: AppState, e: Edit<SeriesPatch>): AppState {
+  const seq = s.seq + 1;
+  return { ...s, series: { ...s.series, ...e.patch, history: record(s.series.history, s.series, e.patch, e.history, e.label, seq) }, seq };
 }
 
-function pushEntry(s: AppState, e: HistoryEntry): AppState {
-  const undo = [...s.undo, e];
-  if (undo.length > HISTORY_LIMIT) undo.shift();
-  return { ...s, undo, redo: [] };
+/** Updates fields the engine derives (result, busy flags); never enters the history. */
+export function derive(s: AppState, id: string, patch: DocPatch): AppState {
+  return mapDoc(s, id, (d) => ({ ...d, ...patch }));
 }
 
-/**
- * Applies a patch to a document.
- * - 'commit': one history entry now.
- * - 'transient': no history; the first transient edit of a drag records the values before it.
- * - 'end': applies the patch and closes the drag as ONE entry (before = values at drag start).
- * - 'silent': no history at all (engine results, status fields).
- */
-export function edit(s: AppState, docId: string, patch: DocPatch, mode: 'commit' | 'transient' | 'end' | 'silent' = 'commit', label = 'edit'): AppState {
-  const doc = s.docs.find((d) => d.id === docId);
-  if (!doc) return s;
-  const keys = Object.keys(patch);
-  if (mode === 'silent') return applyPatch(s, docId, patch);
-  if (mode === 'commit') {
-    if (s.drag) s = endDrag(s);
-    const undo = pick(doc, keys);
-    return pushEntry(applyPatch(s, docId, patch), { docId, label, undo, redo: clone(patch) });
-  }
-  if (mode === 'transient') {
-    let drag = s.drag;
-    if (!drag || drag.docId !== docId) drag = { docId, label, before: pick(doc, keys) };
-    else {
-      const missing = keys.filter((k) => !(k in drag!.before));
-      if (missing.length) drag = { ...drag, before: { ...drag.before, ...pick(doc, missing) } };
-    }
-    return { ...applyPatch(s, docId, patch), drag };
-  }
-  // end
-  const applied = applyPatch(s, docId, patch);
-  return endDrag(applied.drag ? applied : { ...applied, drag: { docId, label, before: pick(doc, keys) } });
+/** Replaces the messages of one area of a document (an empty list clears them). */
+export function say(s: AppState, id: string, area: MessageArea, messages: Omit<Message, 'area'>[]): AppState {
+  return mapDoc(s, id, (d) => ({ ...d, messages: [...d.messages.filter((m) => m.area !== area), ...messages.map((m) => ({ ...m, area }))] }));
 }
 
-/** Closes an open drag as one history entry (no entry if nothing changed). */
-export function endDrag(s: AppState): AppState {
-  const drag = s.drag;
-  if (!drag) return s;
-  const doc = s.docs.find((d) => d.id === drag.docId);
-  const cleared = { ...s, drag: null };
-  if (!doc) return cleared;
-  const keys = Object.keys(drag.before);
-  const redo = pick(doc, keys);
-  if (JSON.stringify(redo) === JSON.stringify(drag.before)) return cleared;
-  return pushEntry(cleared, { docId: drag.docId, label: drag.label, undo: drag.before, redo });
+/** Adds a message not tied to an image (the last 5 are kept). */
+export function notice(s: AppState, text: string): AppState {
+  return { ...s, notices: [...s.notices, text].slice(-5) };
 }
 
-/** True when there is something to undo (including an open drag). */
+/** Closes open drags (before undo/redo). */
+function closeDrags(s: AppState): AppState {
+  const d = activeDoc(s);
+  const seq = s.seq + 1;
+  let out: AppState = { ...s, seq, series: { ...s.series, history: closeDrag(s.series.history, s.series, seq) } };
+  if (d) out = mapDoc(out, d.id, (x) => ({ ...x, history: closeDrag(x.history, x, seq) }));
+  return out;
+}
+
+/** True when undo has something to take (shown image or series). */
 export function canUndo(s: AppState): boolean {
-  return s.undo.length > 0 || s.drag !== null;
+  const d = activeDoc(s);
+  return Boolean(s.series.history.undo.length || s.series.history.drag || (d && (d.history.undo.length || d.history.drag)));
 }
-/** True when there is something to redo. */
+
+/** True when redo has something to take. */
 export function canRedo(s: AppState): boolean {
-  return s.redo.length > 0;
+  const d = activeDoc(s);
+  return Boolean(s.series.history.redo.length || (d && d.history.redo.length));
 }
 
-/** Undo the last entry (closing an open drag first): applies its inverse delta. */
+type Take = <P>(h: History<P>, stamp: number) => { patch: P; history: History<P> } | null;
+
+/** Applies `take` (undo or redo) to the history whose last entry is the latest: the shown image's or the series'. */
+function travel(s: AppState, take: Take, last: (h: History<DocPatch> | History<SeriesPatch>) => number): AppState {
+  const d = activeDoc(s);
+  const stamp = s.seq + 1;
+  if (d && last(d.history) > last(s.series.history)) {
+    const t = take(d.history, stamp);
+    return t ? { ...mapDoc(s, d.id, (x) => ({ ...x, ...t.patch, history: t.history })), seq: stamp } : s;
+  }
+  const t = take(s.series.history, stamp);
+  return t ? { ...s, series: { ...s.series, ...t.patch, history: t.history }, seq: stamp } : s;
+}
+
+/** Undoes the latest edit of the shown image or of the series. */
 export function undo(s: AppState): AppState {
-  s = endDrag(s);
-  const e = s.undo[s.undo.length - 1];
-  if (!e) return s;
-  const next = applyPatch(s, e.docId, e.undo);
-  return { ...next, activeId: e.docId, undo: s.undo.slice(0, -1), redo: [...s.redo, e] };
+  return travel(closeDrags(s), takeUndo, lastUndoSeq);
 }
 
-/** Redo the last undone entry: applies its delta again. */
+/** Redoes the latest undone edit of the shown image or of the series. */
 export function redo(s: AppState): AppState {
-  const e = s.redo[s.redo.length - 1];
-  if (!e) return s;
-  const next = applyPatch(s, e.docId, e.redo);
-  return { ...next, activeId: e.docId, redo: s.redo.slice(0, -1), undo: [...s.undo, e] };
+  return travel(s, takeRedo, lastRedoSeq);
 }
 
 /** Adds a document and shows it (opening is not an undoable edit). */
@@ -154,38 +132,21 @@ export function addDoc(s: AppState, doc: Doc): AppState {
   return { ...s, docs: [...s.docs, doc], activeId: doc.id };
 }
 
-/** Closes a document and drops its history entries. */
-export function removeDoc(s: AppState, docId: string): AppState {
-  const docs = s.docs.filter((d) => d.id !== docId);
-  return {
-    ...s,
-    docs,
-    activeId: s.activeId === docId ? (docs[0]?.id ?? null) : s.activeId,
-    undo: s.undo.filter((e) => e.docId !== docId),
-    redo: s.redo.filter((e) => e.docId !== docId),
-    drag: s.drag?.docId === docId ? null : s.drag,
-  };
+/** Closes a document (its history goes with it). */
+export function removeDoc(s: AppState, id: string): AppState {
+  const docs = s.docs.filter((d) => d.id !== id);
+  const i = s.docs.findIndex((d) => d.id === id);
+  return { ...s, docs, activeId: s.activeId === id ? (docs[Math.min(i, docs.length - 1)]?.id ?? null) : s.activeId };
 }
 
-/** Updates view settings (tool, overlay, help); never enters the history. */
+/** Updates view settings (tool, texture map, help); never enters the history. */
 export function setView(s: AppState, v: Partial<ViewState>): AppState {
   return { ...s, view: { ...s.view, ...v } };
 }
 
-/** Shows the next (+1) or previous (−1) document of the list, wrapping around. */
+/** Shows the next (+1) or previous (−1) document, wrapping around. */
 export function step(s: AppState, delta: 1 | -1): AppState {
   if (s.docs.length === 0) return s;
   const i = Math.max(0, s.docs.findIndex((d) => d.id === s.activeId));
-  const j = (i + delta + s.docs.length) % s.docs.length;
-  return { ...s, activeId: s.docs[j].id };
-}
-
-/** Fields whose change needs a re-measure (fast path, no re-segmentation). */
-export const MEASURE_FIELDS = ['boundary', 'outline', 'exclude', 'scale', 'material', 'settings'] as const;
-
-/** True when a re-measure is needed between two versions of a document. */
-export function needsRemeasure(before: Doc | undefined, after: Doc): boolean {
-  if (!after.boundary) return false;
-  if (!before) return true;
-  return MEASURE_FIELDS.some((k) => before[k] !== after[k]);
+  return { ...s, activeId: s.docs[(i + delta + s.docs.length) % s.docs.length].id };
 }

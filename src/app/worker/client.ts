@@ -2,7 +2,7 @@
  * UI-thread handle on the engine worker: typed request/response with progress callbacks.
  * The worker is a module worker bundled by Vite (`new URL(..., import.meta.url)` pattern).
  */
-import type { EngineReplies, EngineRequest, ResponseMessage } from './protocol.js';
+import type { EngineReplies, EngineRequest, RequestType, ResponseMessage } from './protocol.js';
 
 export type Progress = (stage: string, fraction: number) => void;
 
@@ -17,38 +17,45 @@ export class EngineError extends Error {
 }
 
 export interface Engine {
-  request<T extends EngineRequest>(req: T, onProgress?: Progress, transfer?: Transferable[]): Promise<EngineReplies[T['type']]>;
+  request<T extends EngineRequest>(req: T, transfer?: Transferable[]): Promise<EngineReplies[T['type']]>;
   terminate(): void;
 }
 
-/** Starts the engine worker; `globalProgress` receives every progress message. */
-export function createEngine(globalProgress?: Progress): Engine {
+interface Pending {
+  resolve(v: EngineReplies[RequestType]): void;
+  reject(e: Error): void;
+}
+
+/** Starts the engine worker; `onProgress` receives every progress message, and fraction 1 when no request is left. */
+export function createEngine(onProgress?: Progress): Engine {
   const worker = new Worker(new URL('./engine.worker.ts', import.meta.url), { type: 'module', name: 'fractozone-engine' });
   let next = 1;
-  const pending = new Map<number, { resolve: (v: unknown) => void; reject: (e: Error) => void; onProgress?: Progress }>();
+  const pending = new Map<number, Pending>();
   worker.onmessage = (ev: MessageEvent<ResponseMessage>) => {
     const m = ev.data;
-    const p = pending.get(m.id);
     if (m.type === 'progress') {
-      p?.onProgress?.(m.stage, m.fraction);
-      globalProgress?.(m.stage, m.fraction);
+      onProgress?.(m.stage, m.fraction);
       return;
     }
+    const p = pending.get(m.id);
     if (!p) return;
     pending.delete(m.id);
     if (m.ok) p.resolve(m.value);
     else p.reject(new EngineError(m.error.code, m.error.message));
+    // nothing left to wait for: the progress line ends
+    if (pending.size === 0) onProgress?.('', 1);
   };
   worker.onerror = (ev) => {
     ev.preventDefault();
-    for (const p of pending.values()) p.reject(new EngineError('PROCESSING_FAILED', `engine worker failed: ${ev.message}`));
+    for (const p of pending.values()) p.reject(new EngineError('PROCESSING_FAILED', `the engine stopped: ${ev.message}`));
     pending.clear();
   };
   return {
-    request(req, onProgress, transfer = []) {
+    request<T extends EngineRequest>(req: T, transfer: Transferable[] = []) {
       const id = next++;
-      return new Promise((resolve, reject) => {
-        pending.set(id, { resolve: resolve as (v: unknown) => void, reject, onProgress });
+      return new Promise<EngineReplies[T['type']]>((resolve, reject) => {
+        // the worker answers request `id` with the reply type of `req.type` (see engine.worker.ts)
+        pending.set(id, { resolve: resolve as (v: EngineReplies[RequestType]) => void, reject });
         worker.postMessage({ id, ...req }, transfer);
       });
     },

@@ -1,29 +1,12 @@
 /**
  * Messages between the UI thread and the engine worker. Every request carries an `id`; the worker
  * answers once with `{ id, ok, value | error }` and may send `{ type: 'progress', id, stage, fraction }`
- * before. Everything is structured-clone data (typed arrays are transferred).
+ * before. Results are core's `MeasureResult`; everything is structured-clone data (typed arrays
+ * are transferred).
  */
-import type { MeasureParams, PointPx } from '../../core/pipeline/types.js';
+import type { FeatureName, MeasureParams, MeasureResult, MetadataScale, PointPx, ScaleBar } from '../../core/index.js';
 
-export interface EngineCapabilities {
-  decode: boolean;
-  calibrate: boolean;
-  texture: boolean;
-  pipeline: boolean;
-  render: boolean;
-}
-
-export interface ScaleBarInfo {
-  x0: number;
-  y0: number;
-  x1: number;
-  y1: number;
-  lengthPx: number;
-  confidence: number;
-  /** Length read from the label next to the bar, µm, when the detector provides it. */
-  lengthUm?: number | null;
-}
-
+/** An opened image as the UI needs it. */
 export interface OpenedImage {
   docId: string;
   name: string;
@@ -33,57 +16,55 @@ export interface OpenedImage {
   heightPx: number;
   bitDepth: number;
   channels: number;
-  /** µm per pixel from file metadata, or null. */
-  metadataUmPerPx: number | null;
+  pageCount: number;
+  /** Pixel size from the file's metadata (TIFF resolution, PNG pHYs), or null. */
+  metadataScale: MetadataScale | null;
+  /** Why the metadata gave no scale, when it says so. */
+  metadataNote: string | null;
   /** 8-bit RGBA preview at full resolution (gray replicated). */
   rgba: Uint8ClampedArray;
 }
 
-/** Geometry the app can edit and send back for a fast re-measure (pixel coordinates). */
-export interface GeometryOverride {
-  outerPolygon?: PointPx[];
-  center?: PointPx;
+/** A texture map for display: values scaled to 0..255 between the map's min and max. */
+export interface TextureMap {
+  width: number;
+  height: number;
+  values: Uint8Array;
+  windowPx: number;
+  min: number;
+  max: number;
 }
 
-export interface AnalysisGeometry {
-  outerPolygon: PointPx[];
-  boundaryPolygon: PointPx[];
-  center: PointPx;
-  umPerPx: number | null;
-  scaleSource: string | null;
-}
-
-export interface AnalyseReply {
-  result: Record<string, unknown>;
-  geometry: AnalysisGeometry;
-}
+/** Outcome of a recompute: the result (and why the material was left out, if it was), or a full run is needed. */
+export type RecomputeReply = { kind: 'result'; result: MeasureResult; materialError: string | null } | { kind: 'full-run'; reason: string };
 
 export type EngineRequest =
-  | { type: 'status' }
-  | { type: 'cvSelfTest' }
-  | { type: 'open'; docId: string; name: string; bytes: ArrayBuffer; maxPixels?: number }
+  | { type: 'init' }
+  | { type: 'open'; docId: string; name: string; bytes: ArrayBuffer }
   | { type: 'close'; docId: string }
   | { type: 'detectBar'; docId: string }
   | { type: 'analyse'; docId: string; params: MeasureParams }
-  | { type: 'remeasure'; docId: string; params: MeasureParams; geometry?: GeometryOverride }
-  | { type: 'texture'; docId: string; feature: string; windowPx: number }
-  | { type: 'renderSample'; seed?: number };
+  | { type: 'recompute'; base: MeasureResult; params: MeasureParams; outline: PointPx[] | null }
+  | { type: 'texture'; docId: string; feature: FeatureName; windowPx: number }
+  | { type: 'overlay'; docId: string; result: MeasureResult };
 
 export interface EngineReplies {
-  status: { cvReady: boolean; capabilities: EngineCapabilities };
-  cvSelfTest: { output: number[]; cvVersion: string };
+  init: { selfTestPassed: boolean };
   open: OpenedImage;
   close: null;
-  detectBar: ScaleBarInfo | null;
-  analyse: AnalyseReply;
-  remeasure: AnalyseReply;
-  texture: { width: number; height: number; values: Uint8Array; min: number; max: number };
-  renderSample: { name: string; bytes: ArrayBuffer; truth: unknown };
+  detectBar: ScaleBar | null;
+  analyse: MeasureResult;
+  recompute: RecomputeReply;
+  texture: TextureMap;
+  /** PNG bytes of the overlay drawn from the result. */
+  overlay: Uint8Array;
 }
 
+export type RequestType = EngineRequest['type'];
+export type RequestOf<K extends RequestType> = Extract<EngineRequest, { type: K }>;
 export type RequestMessage = { id: number } & EngineRequest;
 
 export type ResponseMessage =
   | { type: 'progress'; id: number; stage: string; fraction: number }
-  | { type: 'reply'; id: number; ok: true; value: unknown }
+  | { type: 'reply'; id: number; ok: true; value: EngineReplies[RequestType] }
   | { type: 'reply'; id: number; ok: false; error: { code: string; message: string } };

@@ -82,7 +82,8 @@ function summaryRow(e: BatchEntry): string {
   return `<tr class="image-row">${cells.join('')}</tr>`;
 }
 
-function card(e: BatchEntry, thumb: string | undefined): string {
+/** One image's card: overlay, width histogram, polar profile, warnings, SHA-256 (also the body of the single-image report). */
+export function card(e: BatchEntry, thumb: string | undefined): string {
   const r = e.result;
   const prof = r?.band.profile ?? [];
   const widths = prof.filter((p) => p.valid && typeof p.widthUm === 'number').map((p) => p.widthUm as number);

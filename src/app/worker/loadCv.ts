@@ -11,6 +11,7 @@
  */
 import cvSource from 'opencv-wasm/opencv.js?raw';
 import wasmUrl from 'opencv-wasm/opencv.wasm?url';
+import type { OpenCv } from '../../core/index.js';
 
 export type ProgressFn = (stage: string, fraction: number) => void;
 
@@ -61,8 +62,35 @@ async function concatRest(
   return b.slice(0, n).buffer;
 }
 
-// eslint-disable-next-line @typescript-eslint/no-explicit-any
-type CvRuntime = any;
+/**
+ * The Emscripten module object we hand to opencv.js; once initialised it is the OpenCV runtime
+ * (its functions are added by opencv.js; core's cv.ts describes the ones the project calls).
+ */
+interface CvModule {
+  print(): void;
+  printErr(s: unknown): void;
+  locateFile(): string;
+  instantiateWasm(info: WebAssembly.Imports, receive: (i: WebAssembly.Instance, m: WebAssembly.Module) => void): WebAssembly.Exports;
+  onAbort(what: unknown): void;
+  onRuntimeInitialized?: () => void;
+  /** Emscripten makes the module thenable; removed before it is resolved. */
+  then?: unknown;
+}
+type CvRuntime = CvModule;
+
+/** Members core calls that an initialised runtime must have (checked once, at the JavaScript boundary). */
+const REQUIRED = ['Mat', 'MatVector', 'Size', 'Point', 'matFromArray', 'fitEllipse', 'findContours', 'boxFilter', 'GaussianBlur', 'resize', 'threshold', 'connectedComponentsWithStats'];
+
+/** True when the initialised module has what core's OpenCv interface describes. */
+function isOpenCv(m: object): m is OpenCv {
+  return REQUIRED.every((k) => typeof Reflect.get(m, k) === 'function');
+}
+
+/** The initialised runtime as core's typed OpenCv, or an error naming what is missing. */
+export function asOpenCv(m: object): OpenCv {
+  if (!isOpenCv(m)) throw new Error(`the OpenCV runtime lacks ${REQUIRED.filter((k) => typeof Reflect.get(m, k) !== 'function').join(', ')}`);
+  return m;
+}
 
 /** Loads and initialises OpenCV; resolves with the runtime object (wrapped, because it is thenable). */
 export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): Promise<{ cv: CvRuntime }> {
@@ -70,7 +98,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
   onProgress('compiling OpenCV', 1);
   const compiled = await WebAssembly.compile(wasm);
   return new Promise((resolve, reject) => {
-    const mod: Record<string, unknown> = {
+    const mod: CvModule = {
       print: () => undefined,
       printErr: (s: unknown) => console.warn('[opencv]', s),
       locateFile: () => wasmUrl,
@@ -92,7 +120,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
       reject(new Error('unexpected opencv.js layout (Module declaration not found)'));
       return;
     }
-    const root: Record<string, unknown> = {};
+    const root: { cv?: unknown } = {};
     try {
       // The UMD wrapper sees: no module/exports/define, an importScripts stub → "Web worker" branch,
       // which stores the factory on `root.cv`; calling it initialises the runtime with our Module.
@@ -100,7 +128,7 @@ export async function loadCvInWorker(onProgress: ProgressFn = () => undefined): 
       fn.call(root, mod, undefined, undefined, undefined, () => undefined);
       const factory = root.cv;
       if (typeof factory !== 'function') throw new Error('opencv.js did not expose its factory');
-      (factory as () => unknown)();
+      factory();
     } catch (e) {
       reject(e instanceof Error ? e : new Error(String(e)));
     }

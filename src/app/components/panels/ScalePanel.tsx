@@ -1,0 +1,70 @@
+/** Scale: the active source always shown; scale bar, typed pixel size, a drawn line, file metadata. */
+import { ApplyField } from '../fields.js';
+import { Messages } from '../Messages.js';
+import { scaleOf } from '../../state/scale.js';
+import { setTwoPointScale, setTypedScale, applyMetadataScale } from '../../state/actions/scale.js';
+import { num, type PanelProps } from './types.js';
+
+export interface ScalePanelProps extends PanelProps {
+  /** Length (µm) waiting for a line to be drawn with the scale-line tool. */
+  lineUm: number | null;
+  onDrawLine(lengthUm: number | null): void;
+}
+
+function barStatus(p: ScalePanelProps): string {
+  const b = p.doc.bar;
+  if (b === undefined) return 'Looking for a scale bar…';
+  if (b === null) return 'No scale bar found in this image.';
+  const used = p.doc.scale.source === 'scale-bar';
+  return `Scale bar found: ${num(b.lengthPx)} px long (${b.orientation})${used ? '' : ' — type its printed length to use it'}.`;
+}
+
+export function ScalePanel(p: ScalePanelProps) {
+  const { doc, act } = p;
+  const s = scaleOf(doc);
+  const sc = doc.scale;
+  const meta = doc.image.metadataScale;
+  return (
+    <section>
+      <h2>Scale</h2>
+      <p className={`scale-active${s.ok ? '' : ' missing'}`} data-testid="scale-source" data-um-per-px={s.ok ? String(s.scale.umPerPx) : ''}>
+        {s.ok ? (
+          <>
+            <strong>{num(s.scale.umPerPx, 5)} µm/px</strong> — {s.scale.detail}
+          </>
+        ) : (
+          s.problem
+        )}
+      </p>
+      <div className="sub">Scale bar, printed length</div>
+      <ApplyField
+        value={sc.source === 'scale-bar' ? sc.barLengthUm : null}
+        unit="µm"
+        placeholder="e.g. 1000"
+        testId="bar-um"
+        buttonTestId="find-bar"
+        button={sc.source === 'scale-bar' ? 'Apply' : doc.bar ? 'Use bar' : 'Find bar'}
+        onApply={(v) => p.flows.findBar(v)}
+      />
+      <p className="hint">{barStatus(p)}</p>
+      <div className="sub">Pixel size</div>
+      <ApplyField value={sc.source === 'typed' ? sc.umPerPx : null} unit="µm/px" placeholder="e.g. 4.5" testId="typed-um" buttonTestId="typed-um-apply" button="Apply" onApply={(v) => act('scale', (d) => setTypedScale(d, v))} />
+      <div className="sub">Line along a known length</div>
+      <ApplyField
+        value={sc.source === 'two-point' ? sc.distanceUm : p.lineUm}
+        unit="µm"
+        placeholder="e.g. 500"
+        testId="line-um"
+        button={sc.source === 'two-point' ? 'Apply' : 'Draw line'}
+        title="Type the real length, then drag along it on the image"
+        onApply={(v) => (sc.source === 'two-point' ? act('scale', () => setTwoPointScale(sc.p0, sc.p1, v)) : p.onDrawLine(v))}
+      />
+      {meta && sc.source !== 'metadata' && (
+        <button onClick={() => act('scale', (d) => applyMetadataScale(d))} data-testid="use-metadata">
+          Use the file’s pixel size ({num(Math.sqrt(meta.umPerPxX * meta.umPerPxY), 5)} µm/px)
+        </button>
+      )}
+      <Messages doc={doc} area="scale" />
+    </section>
+  );
+}

@@ -1,2 +1,0 @@
-/** Pure render helpers (shapes per Konva layer, view transforms). */
-export * from './layers.js';
