@@ -12,6 +12,7 @@ const steps = [
   ['texture features vs scikit-image / SciPy / OpenCV', ['bench-texture.mjs', ...(quick ? ['--quick'] : [])]],
   ['batch throughput, 1 vs 2 workers', ['bench-batch.mjs', ...(quick ? ['--images', '8'] : [])]],
   ['rendered fractograph generator', ['bench-render.mjs']],
+  ['pixel classifier: teach and measure --model, 12 MP', ['bench-learn.mjs', ...(quick ? ['--runs', '1'] : [])]],
 ];
 let failed = 0;
 for (const [title, [script, ...args]] of steps) {

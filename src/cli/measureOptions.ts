@@ -42,6 +42,7 @@ export interface MeasureCliOptions {
   strainRate?: string;
   reference?: string;
   tolerance?: string;
+  model?: string;
 }
 
 const collect = (v: string, prev: string[] = []): string[] => [...prev, v];
@@ -70,7 +71,8 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--strength-sd <sigma0>', 'standard deviation of σ0 (same unit)')
     .option('--strain-rate <1/s>', 'strain rate of the test in 1/s (selects L(ε̇) for dynamic materials)')
     .option('--reference <L|L/2|2L>', 'what the band width is compared with', 'L')
-    .option('--tolerance <percent>', 'agreement band ±X % around the reference (20 % is common practice)', '20');
+    .option('--tolerance <percent>', 'agreement band ±X % around the reference (20 % is common practice)', '20')
+    .option('--model <file.json>', 'segment with a pixel classifier made by `fractozone teach` (fractozone.model/1) instead of the fixed rules');
 }
 
 function num(text: string | undefined, what: string, integer = false): number | undefined {

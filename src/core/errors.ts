@@ -17,6 +17,10 @@ export type ErrorCode =
   | 'BAD_CURVE'
   | 'BAD_MANIFEST'
   | 'BAD_BOUNDARY'
+  /** a label image that does not fit its image or holds a value other than 0–3 (learn/labels.ts) */
+  | 'BAD_LABELS'
+  /** a pixel-classifier model file of another version, damaged, or made for another feature set (learn/model.ts) */
+  | 'BAD_MODEL'
   | 'NO_SPECIMEN'
   | 'PROCESSING_FAILED'
   | 'IMAGE_TIMEOUT'
@@ -34,6 +38,8 @@ const USAGE_CODES: ReadonlySet<ErrorCode> = new Set<ErrorCode>([
   'BAD_CURVE',
   'BAD_MANIFEST',
   'BAD_BOUNDARY',
+  'BAD_LABELS',
+  'BAD_MODEL',
 ]);
 
 export class FractozoneError extends Error {

@@ -175,3 +175,6 @@ export type { RgbaImage } from './draw/index.js';
 // Encoding, synthetic test images
 export { encodeGrayRaster, encodePng, type RasterFormat } from './encode/index.js';
 export { renderFractograph, type RenderOptions, type RenderTruth } from './render/index.js';
+
+// Teach by example (pixel classifier): label rasters, teaching, model files, class-map preview
+export * from './learn/index.js';

@@ -5,6 +5,7 @@
  * running ones finish (killed after {@link INTERRUPT_GRACE_S}); a failed write (disk full, no
  * permission) stops everything at once and is re-thrown after the workers are gone.
  */
+import { readModelFile } from '../model.js';
 import { availableParallelism } from 'node:os';
 import { existsSync, readdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
@@ -33,6 +34,8 @@ export interface JobOptions {
   manifest: Manifest | null;
   defaults: MeasureParams;
   defaultMaterial?: string;
+  /** Model file from the command line (`--model`), the default for every image. */
+  defaultModel?: string;
   resume: boolean;
   jobs?: number;
   workerMemoryMb?: number;
@@ -54,6 +57,7 @@ interface Prepared {
   bytes: Uint8Array;
   params: MeasureParams;
   block: BatchBlock;
+  model?: { path: string; sha256: string };
 }
 
 /** Temp files of writes cut short by a kill (`.<name>.<pid>.<n>.tmp`, see io.ts writeFileAtomic). */
@@ -172,7 +176,7 @@ export class BatchJobs {
         this.finish('skipped');
         return;
       }
-      const outcome = await this.getPool().run({ bytes: prepared.bytes, input: { file: item.inp.rel, sha256: prepared.block.sha256 }, params: prepared.params });
+      const outcome = await this.getPool().run({ bytes: prepared.bytes, input: { file: item.inp.rel, sha256: prepared.block.sha256, ...(prepared.model ? { model: prepared.model } : {}) }, params: prepared.params });
       this.record(item, prepared.block, outcome);
     } catch (e) {
       if (!isWriteFailure(e)) throw e;
@@ -207,10 +211,14 @@ export class BatchJobs {
       block.metadata = settings.metadata;
       block.settingsSource = settings.source;
       const params = applySettings(o.defaults, settings, o.defaultMaterial, this.materials);
+      const modelPath = settings.model ?? o.defaultModel;
+      const model = modelPath ? { path: modelPath, sha256: readModelFile(modelPath).sha256 } : undefined;
+      if (model) params.modelSha256 = model.sha256;
+      else delete params.modelSha256;
       block.strainRatePerS = params.strainRatePerS;
       block.material = materialName(params.material);
       block.paramsSha256 = sha256Hex(new TextEncoder().encode(canonicalJson({ params, tool: TOOL_VERSION })));
-      return { bytes, params, block };
+      return { bytes, params, block, model };
     } catch (e) {
       if (!isFractozoneError(e) || isWriteFailure(e)) throw e;
       this.recordFailure(safe, block, e.code, e.message);

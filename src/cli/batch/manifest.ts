@@ -1,6 +1,6 @@
 /**
  * Per-image settings for `batch`: from a manifest CSV (header
- * `file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material`,
+ * `file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material,model`,
  * `file` relative to the manifest's folder, unknown columns kept as metadata) or from a sidecar
  * `IMAGE.json` next to the image (`img.png.json`, else `img.json`; same keys). A manifest row wins
  * over a sidecar, both win over the command-line defaults.
@@ -19,6 +19,7 @@ export const MANIFEST_COLUMNS = [
   'pixel_size_um',
   'bar_length_um',
   'material',
+  'model',
 ] as const;
 
 const NUMERIC = new Set(['notch_root_radius_mm', 'strain_rate_per_s', 'pixel_size_um', 'bar_length_um']);
@@ -30,6 +31,8 @@ export interface ImageSettings {
   strainRatePerS?: number;
   /** Material reference `SHEET:NAME` (sheet path already resolved against the manifest folder). */
   material?: string;
+  /** Pixel-classifier model file (`measure --model`), path already resolved against the manifest folder. */
+  model?: string;
   /** specimen_id, notch, notch_root_radius_mm and any unknown column, verbatim. */
   metadata: Record<string, string>;
   /** Where the settings came from (for messages). */
@@ -73,6 +76,7 @@ function settingsFrom(values: Record<string, string>, where: (col: string) => st
       else if (col === 'bar_length_um') s.barLengthUm = x;
       else s.metadata[col] = v;
     } else if (col === 'material') s.material = resolveMaterialRef(v, baseDir);
+    else if (col === 'model') s.model = resolve(baseDir, v);
     else s.metadata[col] = v;
   }
   return s;

@@ -12,6 +12,8 @@ export interface ProcessInput {
   /** Path relative to the input root (what the result records as input.file). */
   file: string;
   sha256: string;
+  /** The pixel-classifier model file to segment with (`--model`, manifest column `model`) and its SHA-256. */
+  model?: { path: string; sha256: string };
 }
 
 export interface ProcessOutput {

@@ -7,6 +7,7 @@
  * the discovery. One run at a time per OUT (lock.ts). SIGINT/SIGTERM stop gracefully (interrupt.ts):
  * the summary says `interrupted` and the command exits 130; a second signal aborts at once.
  */
+import { readModelFile } from '../model.js';
 import { existsSync, realpathSync, statSync } from 'node:fs';
 import { dirname, relative, resolve, sep } from 'node:path';
 import { FractozoneError } from '../../core/errors.js';
@@ -33,6 +34,8 @@ export interface BatchOptions {
   defaults: MeasureParams;
   /** Material reference from the command line (`SHEET:NAME`), the default for every image. */
   defaultMaterial?: string;
+  /** Model file from the command line (`--model`), the default for every image. */
+  defaultModel?: string;
   workerMemoryMb?: number;
   /** Longest time one image may take, s (undefined: no limit). */
   imageTimeoutS?: number;
@@ -147,6 +150,8 @@ export async function runBatch(o: BatchOptions): Promise<BatchSummary> {
     throw new FractozoneError('EMPTY_INPUT', 'give at least one folder, pattern or image file, or a --manifest listing the files', 'usage');
   }
   checkOut(out, o.inputs);
+  // every model the run names is read and checked before anything is written (BAD_MODEL, exit 2)
+  for (const m of [o.defaultModel, ...[...(manifest?.rows.values() ?? [])].map((r) => r.model)]) if (m) readModelFile(m);
   const state: { jobs: BatchJobs | null; lock: OutputLock | null } = { jobs: null, lock: null };
   const watch = watchInterrupts(o, out, state).install();
   try {

@@ -34,7 +34,7 @@ export function register(program: Command): void {
     )
     .argument('[inputs...]', 'folders, glob patterns (quote them) or image files')
     .requiredOption('--out <folder>', 'output folder (must not be, or contain, an input folder)')
-    .option('--manifest <file.csv>', 'per-image settings: file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material (file relative to the manifest); alone it also lists the images')
+    .option('--manifest <file.csv>', 'per-image settings: file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material,model (file relative to the manifest); alone it also lists the images')
     .option('--jobs <n>', 'worker processes, each using one core (default: one per core)')
     .option('--resume', 'skip images whose result exists for the same image content and parameters')
     .option('--shard <i/n>', 'process only shard i of n (image k of the sorted list goes to shard (k mod n) + 1)')
@@ -54,6 +54,7 @@ export function register(program: Command): void {
       shard: opts.shard ? parseShard(opts.shard) : null,
       defaults,
       defaultMaterial: opts.material,
+      defaultModel: opts.model,
       workerMemoryMb: intOption(opts.workerMemory, '--worker-memory', 16),
       imageTimeoutS: intOption(opts.imageTimeout, '--image-timeout', 1),
       progress: opts.progress !== false,

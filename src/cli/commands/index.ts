@@ -9,7 +9,8 @@ import { register as report } from './report.js';
 import { register as info } from './info.js';
 import { register as render } from './render.js';
 import { register as measure } from './measure.js';
+import { register as teach } from './teach.js';
 
 export type RegisterCommand = (program: Command) => void;
 
-export const commands: RegisterCommand[] = [measure, batch, merge, report, criticalDistance, fitNotches, fitRate, info, render];
+export const commands: RegisterCommand[] = [measure, teach, batch, merge, report, criticalDistance, fitNotches, fitRate, info, render];

@@ -10,6 +10,7 @@ import { safeFileName } from '../../core/text/safeName.js';
 import { loadCvNode } from '../cvNode.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
+import { readModelFile } from '../model.js';
 
 interface Options extends MeasureCliOptions {
   json?: boolean;
@@ -60,6 +61,10 @@ export function summaryText(r: MeasureResult): string {
   for (const w of s.quality.reasons) lines.push(`                 - ${w.message} [${w.code}]`);
   lines.push(`  scale          ${(s.scale.umPerPx.value ?? NaN).toPrecision(5)} µm/px  [${s.scale.source}: ${s.scale.detail}]`);
   lines.push(`  specimen       centre (${f1(s.specimen.centerPx.x)}, ${f1(s.specimen.centerPx.y)}) px, radius ${f1(s.specimen.radius)} µm` + (s.specimen.cutByFrame ? ' (cut by the frame)' : ''));
+  if (r.model) {
+    const c = r.model.confidence;
+    lines.push(`  model          ${r.model.sha256.slice(0, 12)}… (pixel classifier, out-of-bag accuracy ${(r.model.oobAccuracy * 100).toFixed(1)} %); confidence along the boundary ${c.boundary === null ? '—' : c.boundary.toFixed(2)}, outer edge ${c.outerEdge.toFixed(2)}`);
+  }
   lines.push(...bandLines(s), ...criticalDistanceLines(s));
   for (const w of s.notes) lines.push(`  note           ${w.message} [${w.code}]`);
   lines.push(`  ${s.caution}`);
@@ -83,10 +88,12 @@ export function register(program: Command): void {
     .option('-q, --quiet', 'no progress messages on stderr')
     .action(async (image: string, o: Options) => {
       const params = paramsFromOptions(o);
+      const model = o.model !== undefined ? readModelFile(o.model) : undefined;
+      if (model) params.modelSha256 = model.sha256;
       const bytes = readInputFile(image);
       loadCvNode();
       const progress = o.quiet || o.json || !process.stderr.isTTY ? undefined : (stage: string) => process.stderr.write(`\r  ${stage}…`.padEnd(40));
-      const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress);
+      const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress, { model });
       if (progress) process.stderr.write('\r'.padEnd(41) + '\r');
       if (o.json) process.stdout.write(toJsonText(result));
       else process.stdout.write(printableLines(summaryText(result)));

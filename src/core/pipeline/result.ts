@@ -186,6 +186,26 @@ export interface ResultBand {
   separability: SeparabilitySummary | null;
 }
 
+/** The pixel classifier a result was segmented with (`measure --model`; learn/). */
+export interface ResultModel {
+  /** SHA-256 of the model file's bytes, hex. */
+  sha256: string;
+  /** Schema and feature set of the model file. */
+  schema: string;
+  featureSet: string;
+  /** Feature windows, µm. */
+  windowsUm: number[];
+  /** Out-of-bag accuracy on the model's own training pixels. */
+  oobAccuracy: number;
+  /** SHA-256 of the images it was trained on. */
+  trainingImages: string[];
+  /**
+   * Mean probability of the expected class beside the boundary (P(rim) outside it, P(core)
+   * inside it, half a window away) and beside the outer edge; 0..1, null without a boundary.
+   */
+  confidence: { boundary: number | null; outerEdge: number };
+}
+
 /** The width held against L, L/2 or 2L, and the toughness the width implies. */
 export interface Comparison extends CompareResult {
   impliedToughness_MPa_sqrtm: ImpliedToughness | null;
@@ -219,6 +239,8 @@ export interface MeasureResult {
   scale: ResultScale;
   specimen: ResultSpecimen;
   band: ResultBand;
+  /** Present when the image was segmented with a pixel classifier (`--model`). */
+  model?: ResultModel;
   /** Present when a material or typed toughness and strength were given. */
   criticalDistance?: ResolvedDistance;
   /** Present when a critical distance and a band width are both known. */
@@ -241,6 +263,7 @@ export function inResultOrder(r: MeasureResult): MeasureResult {
     scale: r.scale,
     specimen: r.specimen,
     band: r.band,
+    ...(r.model ? { model: r.model } : {}),
     ...(r.criticalDistance ? { criticalDistance: r.criticalDistance } : {}),
     ...(r.comparison ? { comparison: r.comparison } : {}),
     warnings: r.warnings,

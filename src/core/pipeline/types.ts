@@ -49,6 +49,11 @@ export interface MeasureParams {
   /** Bootstrap resamples for the CI of the median, and the seed. */
   bootstrap: number;
   seed: number;
+  /**
+   * SHA-256 of the pixel-classifier model file the image is segmented with (`--model`; the model
+   * itself is passed to `analyseDecoded` beside the parameters). Absent: the fixed rules.
+   */
+  modelSha256?: string;
   /** Manual boundary polygon (px) in place of the automatic one: re-measured without re-segmenting. */
   boundaryPolygon: PointPx[] | null;
   /** Pixel budget for decoding. */

@@ -18,6 +18,7 @@ import {
   type Quality,
   type RayResult,
   type ResultBand,
+  type ResultModel,
   type ResultScale,
   type ResultSpecimen,
   type SeparabilitySummary,
@@ -201,6 +202,8 @@ export interface AssembleInput {
   scale: ResultScale;
   band: ResultBand;
   criticalDistance: CriticalDistanceBlocks;
+  /** The pixel classifier used (`--model`), when one was. */
+  model?: ResultModel;
   /** All warnings and the verdict (stages/quality.ts). */
   warnings: Warning[];
   quality: Quality;
@@ -237,6 +240,7 @@ export function assembleResult(a: AssembleInput): MeasureResult {
     scale: a.scale,
     specimen: assembleSpecimen(a.frame, a.location, a.calibration, a.geometry),
     band: a.band,
+    ...(a.model ? { model: a.model } : {}),
     ...(a.criticalDistance.criticalDistance ? { criticalDistance: a.criticalDistance.criticalDistance } : {}),
     ...(a.criticalDistance.comparison ? { comparison: a.criticalDistance.comparison } : {}),
     warnings: a.warnings,

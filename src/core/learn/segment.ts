@@ -1,0 +1,373 @@
+/**
+ * The model-driven branch of the measurement: a pixel classifier's probability maps take the place
+ * of the fixed rules in the locate, classify and refine stages, and the same topology and the same
+ * ray geometry follow.
+ *
+ * 1. Probabilities of outside, rim band and core on the working copy (learn/predict.ts).
+ * 2. The fracture surface is where P(outside) < ½, cleaned by a closing and an opening (0.35 window),
+ *    the component at the centre kept and its holes filled (the rule of segment/specimen.ts); a
+ *    circle and an ellipse are fitted to its outline (points on the frame or on scale marks left
+ *    out). The outer edge along each ray is where P(outside) crosses ½ nearest that outline,
+ *    interpolated to sub-pixel precision.
+ * 3. The core probability q = P(core) / (P(core) + P(rim)) is the roughness signal of the existing
+ *    rim/core classification (segment/rimCore.ts: Otsu split, morphology, the core as the component
+ *    at the centre with its holes filled, the separability report and the refusals).
+ * 4. Along each ray the boundary is where q crosses ½ nearest the classified core outline; a 5-ray
+ *    running median rejects outliers.
+ * 5. Confidence: along the boundary (and the outer edge), the mean probability of the class each
+ *    side should have, half a window from the line.
+ */
+import type { Scale } from '../calibrate/index.js';
+import { FractozoneError } from '../errors.js';
+import type { PointPx } from '../image/geometry.js';
+import { createMask, createRaster, type Mask } from '../image/raster.js';
+import { buildRayIndex, castRay, inBoxes, rayDirection } from '../measure/geometry.js';
+import { medianOf } from '../measure/statistics.js';
+import type { WorkingFrame } from '../pipeline/frame.js';
+import type { Classification } from '../pipeline/stages/classify.js';
+import type { SpecimenLocation } from '../pipeline/stages/locateSpecimen.js';
+import type { RimBoundary } from '../pipeline/stages/refineBoundary.js';
+import { classifyRimCore } from '../segment/rimCore.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, outerContour } from '../segment/cvutil.js';
+import { fitCircle, fitEllipseToPoints } from '../segment/fit.js';
+import { ellipseOutline, robustEllipse } from './outline.js';
+import { refineBoundary } from '../segment/refine.js';
+import { refineOuterEdge } from '../segment/outerEdge.js';
+import type { Specimen } from '../segment/specimen.js';
+import type { ResultModel } from '../pipeline/result.js';
+import { warn, type Warning } from '../warnings.js';
+import { featureCentre, windowPxAt } from './features.js';
+import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
+
+/** Boundary or outer-edge confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
+export const MIN_MODEL_CONFIDENCE = 0.75;
+
+/** Input of {@link segmentWithModel}. */
+export interface ModelSegmentInput {
+  frame: WorkingFrame;
+  scale: Scale;
+  loaded: LoadedModel;
+  /** Rays of the measurement; edges are found on at least 360. */
+  nRays: number;
+}
+
+/** How sure the model is along the lines it gave (mean class probability beside them, 0..1). */
+export interface ModelConfidence {
+  /** Along the rim/core boundary: P(rim) outside it and P(core) inside it; null without a boundary. */
+  boundary: number | null;
+  /** Along the outer edge: P(outside) beyond it and P(rim) + P(core) within it. */
+  outerEdge: number;
+}
+
+/** What the model branch gives the rest of the pipeline. */
+export interface ModelSegmentation {
+  location: SpecimenLocation;
+  classification: Classification;
+  boundary: RimBoundary;
+  probabilities: ClassProbabilities;
+  /** The middle feature window, working px (morphology, search ranges) and µm (the result's window). */
+  windowPxWork: number;
+  windowUm: number;
+  confidence: ModelConfidence;
+  warnings: Warning[];
+}
+
+/** Bilinear sample of a plane (W × H) at (x, y), clamped to the image. */
+function sampleAt(v: Float32Array, W: number, H: number, x: number, y: number): number {
+  const xc = Math.min(W - 1, Math.max(0, x));
+  const yc = Math.min(H - 1, Math.max(0, y));
+  const x0 = Math.min(W - 2, Math.floor(xc));
+  const y0 = Math.min(H - 2, Math.floor(yc));
+  const fx = xc - x0;
+  const fy = yc - y0;
+  const i = y0 * W + x0;
+  return (v[i] * (1 - fx) + v[i + 1] * fx) * (1 - fy) + (v[i + W] * (1 - fx) + v[i + W + 1] * fx) * fy;
+}
+
+/** The fracture surface: P(outside) < ½, specks removed (opening), the component at `centre`, holes filled. */
+function surfaceMask(p: ClassProbabilities, windowPx: number, centre: PointPx): Mask {
+  const m = createMask(p.width, p.height);
+  for (let i = 0; i < m.data.length; i++) m.data[i] = p.outside[i] < 0.5 ? 1 : 0;
+  const r = Math.max(1, Math.round(0.2 * windowPx));
+  const mm = maskToMat(m);
+  let cleaned: Mask;
+  try {
+    morphDisc(mm, 'open', r);
+    cleaned = matToMask(mm);
+  } finally {
+    mm.delete();
+  }
+  const kept = keepComponent(cleaned, centre, 0.25);
+  if (!kept) throw new FractozoneError('NO_SPECIMEN', 'the model finds no fracture surface in this image (every pixel looks like outside)');
+  fillHoles(kept);
+  return kept;
+}
+
+/** Specimen record (as segment/specimen.ts gives it) of a surface mask, working px. */
+function specimenOf(mask: Mask, frame: WorkingFrame): Specimen {
+  const W = mask.width;
+  const H = mask.height;
+  let area = 0;
+  for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
+  const contour = outerContour(mask);
+  const onFrame = (q: PointPx): boolean => q.x <= 0 || q.y <= 0 || q.x >= W - 1 || q.y >= H - 1;
+  const inner = contour.filter((q) => !onFrame(q));
+  const fitPts = frame.workMarks.length ? inner.filter((q) => !inBoxes(frame.workMarks, q.x, q.y, 2)) : inner;
+  const use = fitPts.length >= Math.max(16, 0.5 * inner.length) ? fitPts : inner;
+  const circle = fitCircle(use);
+  const ellipse = fitEllipseToPoints(use);
+  if (!circle || !ellipse) throw new FractozoneError('NO_SPECIMEN', 'the outline the model finds is too short to fit a circle or ellipse');
+  const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
+  // background brightness against the surface's, from the working copy
+  let sIn = 0;
+  let nIn = 0;
+  let sOut = 0;
+  let nOut = 0;
+  for (let i = 0; i < mask.data.length; i += 7) {
+    if (mask.data[i]) {
+      sIn += frame.work.data[i];
+      nIn++;
+    } else {
+      sOut += frame.work.data[i];
+      nOut++;
+    }
+  }
+  const bright = nOut > 0 && nIn > 0 && sOut / nOut > sIn / nIn;
+  return {
+    mask, contour, circle, ellipse, areaPx: area, equivalentRadiusPx: Math.sqrt(area / Math.PI),
+    background: bright ? 'bright' : 'dark', touchesFrame: frameContactFraction > 0, frameContactFraction, thresholdLevel: 0.5,
+  };
+}
+
+/**
+ * Along rays from `centre`: where `v` crosses ½ nearest the radius of `line` on the ray, within
+ * ±search px, going from below ½ (inside) to above (outside) when `rising`, else the reverse.
+ * Null where the line misses the ray or no crossing lies in range (the line's radius is used then
+ * when `fallback`).
+ */
+function crossings(v: Float32Array, W: number, H: number, centre: PointPx, line: readonly PointPx[], nRays: number, search: number, rising: boolean): (number | null)[] {
+  const idx = buildRayIndex(line, centre);
+  const out: (number | null)[] = [];
+  const step = 0.25;
+  for (let i = 0; i < nRays; i++) {
+    const th = (360 * i) / nRays;
+    const hits = castRay(idx, th);
+    if (!hits.length) {
+      out.push(null);
+      continue;
+    }
+    const c = hits[hits.length - 1];
+    const d = rayDirection(th);
+    const at = (t: number): number => sampleAt(v, W, H, centre.x + t * d.x, centre.y + t * d.y) - 0.5;
+    let best: number | null = null;
+    let prev = at(Math.max(0, c - search));
+    for (let t = Math.max(0, c - search) + step; t <= c + search + 1e-9; t += step) {
+      const cur = at(t);
+      if (rising ? prev < 0 && cur >= 0 : prev >= 0 && cur < 0) {
+        const tc = t - step + step * (prev / (prev - cur));
+        if (best === null || Math.abs(tc - c) < Math.abs(best - c)) best = tc;
+      }
+      prev = cur;
+    }
+    out.push(best ?? c);
+  }
+  return out;
+}
+
+/** Circular running median (null entries skipped and kept). */
+function runningMedian(v: (number | null)[], k: number): (number | null)[] {
+  const n = v.length;
+  const h = Math.floor(k / 2);
+  return v.map((x, i) => {
+    if (x === null) return null;
+    const w: number[] = [];
+    for (let j = -h; j <= h; j++) {
+      const y = v[(i + j + n) % n];
+      if (y !== null) w.push(y);
+    }
+    return medianOf(w);
+  });
+}
+
+function polygonOf(radii: (number | null)[], centre: PointPx, nRays: number): PointPx[] {
+  const out: PointPx[] = [];
+  radii.forEach((r, i) => {
+    if (r === null) return;
+    const d = rayDirection((360 * i) / nRays);
+    out.push({ x: centre.x + r * d.x, y: centre.y + r * d.y });
+  });
+  return out;
+}
+
+/** q = P(core) / (P(core) + P(rim)): the core probability within the fracture surface. */
+function coreShare(p: ClassProbabilities): Float32Array {
+  const q = new Float32Array(p.core.length);
+  for (let i = 0; i < q.length; i++) {
+    const s = p.core[i] + p.rim[i];
+    q[i] = s > 1e-6 ? p.core[i] / s : 0.5;
+  }
+  return q;
+}
+
+/** Mean over rays of the probability of the class expected on each side of a line, `d` px from it. */
+function sideConfidence(inside: Float32Array, outside: Float32Array, W: number, H: number, centre: PointPx, radii: (number | null)[], dIn: (i: number) => number, dOut: (i: number) => number): number | null {
+  let s = 0;
+  let n = 0;
+  radii.forEach((r, i) => {
+    if (r === null) return;
+    const d = rayDirection((360 * i) / radii.length);
+    const a = r - dIn(i);
+    const b = r + dOut(i);
+    s += 0.5 * (sampleAt(inside, W, H, centre.x + a * d.x, centre.y + a * d.y) + sampleAt(outside, W, H, centre.x + b * d.x, centre.y + b * d.y));
+    n++;
+  });
+  return n ? s / n : null;
+}
+
+/**
+ * Where each ray from `centre` first enters the outside class for good: P(outside) ≥ ½ over a run of
+ * `run` px (px, null when it never does inside the image). On the probabilities themselves, not
+ * on a hole-filled mask: a ring of the surroundings classified as surface (the outer part of a
+ * notch flank) would otherwise close around the true edge.
+ */
+function firstExits(outside: Float32Array, W: number, H: number, centre: PointPx, nRays: number, run: number): (number | null)[] {
+  const out: (number | null)[] = [];
+  for (let i = 0; i < nRays; i++) {
+    const d = rayDirection((360 * i) / nRays);
+    let exit: number | null = null;
+    let start = -1;
+    for (let t = 0; ; t += 0.5) {
+      const x = centre.x + t * d.x;
+      const y = centre.y + t * d.y;
+      if (x < 0 || y < 0 || x > W - 1 || y > H - 1) break;
+      if (sampleAt(outside, W, H, x, y) >= 0.5) {
+        if (start < 0) start = t;
+        if (t - start >= run) {
+          exit = start;
+          break;
+        }
+      } else start = -1;
+    }
+    out.push(exit);
+  }
+  return out;
+}
+
+/** Locate stage of the model branch: the surface, its fits and the sub-pixel outer edge. */
+function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: number, centre0: PointPx, nRays: number): { location: SpecimenLocation; outerWork: (number | null)[] } {
+  const mask = surfaceMask(p, w, centre0);
+  const base = specimenOf(mask, frame);
+  const c0 = { x: base.circle.cx, y: base.circle.cy };
+  const W = mask.width;
+  const H = mask.height;
+  const exits = firstExits(p.outside, W, H, c0, nRays, w);
+  const pts: PointPx[] = [];
+  exits.forEach((t, i) => {
+    if (t === null) return;
+    const d = rayDirection((360 * i) / nRays);
+    const q = { x: c0.x + t * d.x, y: c0.y + t * d.y };
+    if (q.x > 1 && q.y > 1 && q.x < W - 2 && q.y < H - 2 && !inBoxes(frame.workMarks, q.x, q.y, 2)) pts.push(q);
+  });
+  const ellipse = robustEllipse(pts, Math.max(1.5, 0.15 * w));
+  const circle = ellipse ? fitCircle(ellipseOutline(ellipse, 360)) : null;
+  if (!ellipse || !circle) throw new FractozoneError('NO_SPECIMEN', 'the outline the model finds is too short to fit an ellipse');
+  const specimen: Specimen = { ...base, circle, ellipse };
+  const centerWork = { x: circle.cx, y: circle.cy };
+  const guide = ellipseOutline(ellipse, nRays);
+  const outerWork = crossings(p.outside, W, H, centerWork, guide, nRays, 0.5 * w, true).map((r, i) => {
+    const d = rayDirection((360 * i) / nRays);
+    return r !== null && inFrame(centerWork, d, r, W, H) ? r : null;
+  });
+  const warnings: Warning[] = [];
+  if (specimen.touchesFrame) {
+    warnings.push(warn('SPECIMEN_CUT_BY_FRAME', `the specimen is cut by the image frame (${(specimen.frameContactFraction * 100).toFixed(0)} % of its outline): rays that reach the frame are not measured`));
+  }
+  const radiusPx = frame.lengthToFull(circle.radiusPx);
+  const location: SpecimenLocation = {
+    specimen,
+    centerWork,
+    center: frame.toFull(centerWork),
+    outer: outerEdgeOnImage(frame, polygonOf(outerWork, centerWork, nRays), centerWork, nRays),
+    radiusPx,
+    radiusUm: radiusPx * scale.umPerPx,
+    warnings,
+  };
+  return { location, outerWork };
+}
+
+/**
+ * The outer edge on the full-resolution intensity (segment/outerEdge.ts: midpoint crossing of the
+ * lightly smoothed intensity nearest the guide), twice: the second pass starts from the first one's
+ * edge after a 5-ray running median, so a guide a few px off (the classifier's edge shifts with the
+ * light on a flank) still ends on the step of the notch root.
+ */
+function outerEdgeOnImage(frame: WorkingFrame, guideWork: PointPx[], centerWork: PointPx, nRays: number): PointPx[] {
+  const c = frame.toFull(centerWork);
+  let guide = guideWork.map((q) => frame.toFull(q));
+  for (let pass = 0; pass < 2; pass++) {
+    const r = refineOuterEdge(frame.full, guide, c, { nRays });
+    if (pass === 1) return r.polygon;
+    guide = polygonOf(runningMedian(r.radiiPx, 5), c, nRays);
+  }
+  return guide;
+}
+
+function inFrame(c: PointPx, d: PointPx, r: number, W: number, H: number): boolean {
+  const x = c.x + r * d.x;
+  const y = c.y + r * d.y;
+  return x >= 0 && y >= 0 && x <= W - 1 && y <= H - 1;
+}
+
+/**
+ * Runs the model branch (see the module comment).
+ * @throws FractozoneError NO_SPECIMEN when the model finds no fracture surface
+ */
+export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
+  const { frame, scale, loaded } = input;
+  const nRays = Math.max(input.nRays, 360);
+  const umPerWorkPx = scale.umPerPx * frame.lengthScale;
+  const ws = loaded.model.windowsUm;
+  const w = windowPxAt(ws[Math.floor(ws.length / 2)], umPerWorkPx, frame.work.width, frame.work.height);
+  const centre0 = featureCentre(frame);
+  const p = predictProbabilities(frame.work, umPerWorkPx, loaded, centre0);
+  const { location, outerWork } = locate(frame, scale, p, w, centre0, nRays);
+  const centre = location.centerWork;
+  const q = coreShare(p);
+  const rimCore = classifyRimCore(location.specimen, [createRaster(p.width, p.height, q)], { windowPx: w, featureScale: 1, center: centre, transforms: ['identity'] });
+  const classification: Classification = { rimCore, warnings: [...rimCore.warnings] };
+  const surfaceP = new Float32Array(p.outside.length);
+  for (let i = 0; i < surfaceP.length; i++) surfaceP[i] = 1 - p.outside[i];
+  const edgeConf = sideConfidence(surfaceP, p.outside, p.width, p.height, centre, outerWork, () => w / 2, () => w / 2) ?? 0;
+  const warnings: Warning[] = [];
+  if (!rimCore.detected || !rimCore.boundary) {
+    const boundary: RimBoundary = { source: 'auto', polygon: null, detected: false, reason: rimCore.reason ?? 'no smooth rim band was found', separability: rimCore.separability };
+    return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: null, outerEdge: edgeConf }, warnings };
+  }
+  const outerPoly = polygonOf(outerWork, centre, nRays);
+  const bRadii = refineBoundary(frame.work, outerPoly, rimCore.boundary, centre, { windowPx: w, nRays }).radiiPx;
+  // a boundary crossing beyond the outer edge is no boundary there
+  const b = bRadii.map((r, i) => (r !== null && outerWork[i] !== null && r >= (outerWork[i] as number) ? null : r));
+  const halfBand = (i: number): number => Math.max(0.5, Math.min(w / 2, ((outerWork[i] ?? 0) - (b[i] ?? 0)) / 2));
+  const boundaryConf = sideConfidence(p.core, p.rim, p.width, p.height, centre, b, () => w / 2, halfBand);
+  if (boundaryConf !== null && boundaryConf < MIN_MODEL_CONFIDENCE) {
+    warnings.push(warn('LOW_MODEL_CONFIDENCE', `the model is unsure along the boundary it gives: mean class probability ${boundaryConf.toFixed(2)} < ${MIN_MODEL_CONFIDENCE}`));
+  } else if (edgeConf < MIN_MODEL_CONFIDENCE) {
+    warnings.push(warn('LOW_MODEL_CONFIDENCE', `the model is unsure along the outer edge it gives: mean class probability ${edgeConf.toFixed(2)} < ${MIN_MODEL_CONFIDENCE}`));
+  }
+  const boundary: RimBoundary = { source: 'auto', polygon: polygonOf(b, centre, nRays).map((pt) => frame.toFull(pt)), detected: true, separability: rimCore.separability };
+  return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: boundaryConf, outerEdge: edgeConf }, warnings };
+}
+
+/** The result's record of the model and its confidence. */
+export function modelResult(loaded: LoadedModel, seg: ModelSegmentation): ResultModel {
+  const r4 = (v: number): number => Math.round(v * 1e4) / 1e4;
+  return {
+    sha256: loaded.sha256,
+    schema: loaded.model.schema,
+    featureSet: loaded.model.featureSet,
+    windowsUm: [...loaded.model.windowsUm],
+    oobAccuracy: loaded.model.training.oobAccuracy,
+    trainingImages: loaded.model.training.images.map((i) => i.sha256),
+    confidence: { boundary: seg.confidence.boundary === null ? null : r4(seg.confidence.boundary), outerEdge: r4(seg.confidence.outerEdge) },
+  };
+}
