@@ -58,8 +58,9 @@ function machined(a: Ring['outer']): boolean {
   return a.radialShare >= MACHINED_RADIAL || a.concentricity >= MACHINED_CONCENTRIC;
 }
 
-function isCoreEdge(r: Ring): boolean {
-  return r.coverage >= 0.5 && r.roughnessStep <= -0.8;
+/** Roughness drops outward across it, from about the core's own level (not from a smooth band). */
+function isCoreEdge(r: Ring, coreRoughness: number): boolean {
+  return r.coverage >= 0.5 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.8 && !(r.inner.roughness < coreRoughness - 0.6);
 }
 
 /** Options of {@link findFractureEdge}. */
@@ -84,18 +85,22 @@ export function findFractureEdge(work: GrayRaster, o: FractureEdgeOptions): Frac
   // for the part) says nothing of the centre or size
   const silUsable = sil.circle.cx >= 0 && sil.circle.cy >= 0 && sil.circle.cx < W && sil.circle.cy < H && sil.circle.radiusPx < 0.75 * Math.max(W, H);
   const near = silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
-  const center = voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, 0.45 * Math.max(W, H));
+  // a clean elliptic silhouette (a tidy picture, or the bar edge around a flank: concentric with the
+  // notch root) gives the centre; otherwise the vote of the concentric edges (normals of a tilted,
+  // elliptic outline do not meet at its centre, so the vote is the second choice)
+  const silGood = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
+  const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, 0.45 * Math.max(W, H));
   const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
   // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
-  const offCentre = !silUsable || Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx;
+  const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
   const shape = { center, ratio: offCentre || !(ratio > 0.3) ? 1 : ratio, angleDeg: offCentre ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
   const rMax = Math.max(1.3 * R, 0.5 * Math.max(W, H));
   const search = findRings(cues, shape, { rMin: 0.15 * Math.min(R, minSide / 2), rMax, silhouette: offCentre ? null : sil.mask });
-  return choose(search.rings, center, o.sectionRadiusPx);
+  return choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
 }
 
-function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null): FractureEdge {
+function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, coreRoughness: number): FractureEdge {
   const verdicts: RingVerdict[] = rings.map((ring) => ({ ring, role: counts(ring) ? 'candidate' : 'rejected', note: counts(ring) ? 'closed round edge' : `weak or partial edge (found on ${Math.round(ring.coverage * 100)} % of the rays)` }));
   let chosen = -1;
   let rule = 'none';
@@ -111,7 +116,7 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null):
       rule = 'section-diameter';
     } else sectionNotFound = true;
   }
-  const core = rings.findIndex(isCoreEdge);
+  const core = rings.findIndex((r) => isCoreEdge(r, coreRoughness));
   if (core >= 0) verdicts[core].note = 'roughness drops outward across it: the rim/core boundary, or the edge of a surface without a band';
   let confirmed = rule === 'section-diameter';
   let stepped = false;

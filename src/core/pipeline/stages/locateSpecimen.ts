@@ -96,8 +96,10 @@ function edgeSearchResult(fe: FractureEdge, frame: WorkingFrame, umPerPx: number
       outline.push({ x: round(q.x, 2), y: round(q.y, 2) });
     }
     const c = frame.toFull(fe.center);
+    const diameterPx = round(2 * mean * k, 2);
     return {
-      diameterUm: round(2 * mean * k * umPerPx, 1),
+      diameterPx,
+      diameterUm: round(diameterPx * umPerPx, 1),
       center: { x: round(c.x, 2), y: round(c.y, 2) },
       prominence: round(v.ring.prominence, 3),
       coverage: round(v.ring.coverage, 3),
