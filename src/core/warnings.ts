@@ -29,6 +29,10 @@ export const WARNINGS = {
   // specimen
   SPECIMEN_CUT_BY_FRAME: { severity: 'check', description: 'the specimen is cut by the image frame; rays reaching the frame are not measured' },
   SCALE_MARK_ON_OUTLINE: { severity: 'check', description: 'the scale bar or its plate touches the specimen outline; rays ending there are not measured' },
+  HALVES_DISAGREE: { severity: 'check', description: 'both halves were measured and their mean band widths differ by more than 10 % of their average' },
+  OTHER_SPECIMEN_UNSURE: { severity: 'check', description: 'another specimen in the frame (e.g. half B) has a quality verdict other than ok: the comparison of the halves is uncertain' },
+  SEVERAL_SPECIMENS: { severity: 'info', description: 'more than two specimens were found in the frame: each is measured, the halves are not compared' },
+  SPECIMEN_SKIPPED: { severity: 'check', description: 'a specimen found in the frame could not be outlined and is not measured' },
   OUTLINE_CORRECTED: { severity: 'info', description: 'the specimen outline was corrected by hand; centre, radius, ellipse and area are fitted to the corrected outline' },
   // rim/core classification
   WEAK_TEXTURE_CONTRAST: { severity: 'check', description: 'rim and core textures differ weakly (Fisher ratio below 4)' },

@@ -24,6 +24,12 @@ export interface SpecimenOptions {
    * specimen's (default none).
    */
   excludeBoxes?: readonly BoxPx[];
+  /**
+   * The specimen to outline when the image holds several (a box from {@link listSpecimens}, px of
+   * `r`): the component at the box centre is kept instead of the one at the image centre, however
+   * small it is beside the largest.
+   */
+  target?: BoxPx;
 }
 
 /** Result of {@link findSpecimen}; all coordinates px at full resolution. */
@@ -65,72 +71,19 @@ export interface Specimen {
  * @throws FractozoneError NO_SPECIMEN when no surface is found
  */
 export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specimen {
-  const cv = getCv();
   const W = r.width;
   const H = r.height;
-  if (W < 16 || H < 16) throw new FractozoneError('NO_SPECIMEN', `The image (${W}×${H} px) is too small to hold a specimen.`);
-  const work = opts.workSizePx ?? 1024;
-  const f = Math.max(1, Math.max(W, H) / work);
-  const w = Math.max(8, Math.round(W / f));
-  const h = Math.max(8, Math.round(H / f));
-  const sx = W / w;
-  const sy = H / h;
-
-  const full = rasterToMat(r);
-  const small = new cv.Mat();
-  let coarse: Mask;
-  let level = 0.5;
-  let bright = false;
-  try {
-    if (w !== W || h !== H) cv.resize(full, small, new cv.Size(w, h), 0, 0, cv.INTER_AREA);
-    else full.copyTo(small);
-    cv.GaussianBlur(small, small, new cv.Size(0, 0), 1.5, 1.5, cv.BORDER_REFLECT_101);
-    const sd = small.data32F as Float32Array;
-    const [lo, hi] = quantiles(sd, [0.001, 0.999]);
-    if (!(hi - lo > 1e-4)) throw new FractozoneError('NO_SPECIMEN', 'The image has no contrast: no specimen can be separated from the background.');
-    level = otsuThreshold(sd, lo, hi);
-    // border polarity
-    let nb = 0;
-    let nBright = 0;
-    const border: number[] = [];
-    for (let x = 0; x < w; x++) for (const y of [0, h - 1]) { border.push(sd[y * w + x]); }
-    for (let y = 1; y < h - 1; y++) for (const x of [0, w - 1]) { border.push(sd[y * w + x]); }
-    for (const v of border) {
-      nb++;
-      if (v > level) nBright++;
-    }
-    bright = nBright > nb / 2;
-    // move the level halfway towards the background median: a surface part that is shaded
-    // darker (or brighter) than most of the surface but still differs from the background is kept
-    const bgMed = quantile(border, 0.5);
-    level = 0.5 * (level + bgMed);
-    const m = createMask(w, h);
-    for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
-    if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
-    const mm = maskToMat(m);
-    try {
-      const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
-      morphDisc(mm, 'close', rad * 2);
-      const tmp = matToMask(mm);
-      fillHoles(tmp);
-      const mm2 = maskToMat(tmp);
-      try {
-        morphDisc(mm2, 'open', rad * 2);
-        coarse = matToMask(mm2);
-      } finally {
-        mm2.delete();
-      }
-    } finally {
-      mm.delete();
-    }
-    const kept = keepComponent(coarse, { x: (w - 1) / 2, y: (h - 1) / 2 }, opts.minComponentFraction ?? 0.25);
-    if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
-    coarse = kept;
-    fillHoles(coarse);
-  } finally {
-    full.delete();
-    small.delete();
-  }
+  const fg = coarseForeground(r, opts);
+  const { w, h, sx, sy, level, bright } = fg;
+  // the component at the image centre, or at the centre of the target box (in coarse px)
+  const t = opts.target;
+  const aim = t ? { x: (t.x + t.w / 2 + 0.5) / sx - 0.5, y: (t.y + t.h / 2 + 0.5) / sy - 0.5 } : { x: (w - 1) / 2, y: (h - 1) / 2 };
+  // a target was vetted as a specimen by listSpecimens: kept whatever the size of other objects
+  // (a rule along the frame can be several times larger)
+  const kept = keepComponent(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
+  if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
+  const coarse = kept;
+  fillHoles(coarse);
   // band: the texture window (7 px) + smoothing can push the coarse edge ~6 work px outwards
   const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2);
   let area = 0;
@@ -152,6 +105,145 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
     background: bright ? 'bright' : 'dark', touchesFrame: frameContactFraction > 0, frameContactFraction,
     thresholdLevel: level,
   };
+}
+
+/** The coarse foreground of {@link findSpecimen}: every region that differs from the background. */
+export interface CoarseForeground {
+  /** Foreground on the coarse grid (closed, holes filled, opened), all components. */
+  mask: Mask;
+  /** Size of the coarse grid and px of the input per coarse px. */
+  w: number;
+  h: number;
+  sx: number;
+  sy: number;
+  /** Intensity level (0..1) separating background and surface. */
+  level: number;
+  /** The background is the bright class. */
+  bright: boolean;
+}
+
+/**
+ * Steps (1)–(4) of {@link findSpecimen}: the foreground of every object on a coarse grid.
+ * @throws FractozoneError NO_SPECIMEN when the image is too small or has no contrast
+ */
+export function coarseForeground(r: GrayRaster, opts: Pick<SpecimenOptions, 'workSizePx' | 'useTexture'> = {}): CoarseForeground {
+  const cv = getCv();
+  const W = r.width;
+  const H = r.height;
+  if (W < 16 || H < 16) throw new FractozoneError('NO_SPECIMEN', `The image (${W}×${H} px) is too small to hold a specimen.`);
+  const work = opts.workSizePx ?? 1024;
+  const f = Math.max(1, Math.max(W, H) / work);
+  const w = Math.max(8, Math.round(W / f));
+  const h = Math.max(8, Math.round(H / f));
+  const sx = W / w;
+  const sy = H / h;
+
+  const full = rasterToMat(r);
+  const small = new cv.Mat();
+  try {
+    if (w !== W || h !== H) cv.resize(full, small, new cv.Size(w, h), 0, 0, cv.INTER_AREA);
+    else full.copyTo(small);
+    cv.GaussianBlur(small, small, new cv.Size(0, 0), 1.5, 1.5, cv.BORDER_REFLECT_101);
+    const sd = small.data32F as Float32Array;
+    const [lo, hi] = quantiles(sd, [0.001, 0.999]);
+    if (!(hi - lo > 1e-4)) throw new FractozoneError('NO_SPECIMEN', 'The image has no contrast: no specimen can be separated from the background.');
+    let level = otsuThreshold(sd, lo, hi);
+    // border polarity
+    let nb = 0;
+    let nBright = 0;
+    const border: number[] = [];
+    for (let x = 0; x < w; x++) for (const y of [0, h - 1]) { border.push(sd[y * w + x]); }
+    for (let y = 1; y < h - 1; y++) for (const x of [0, w - 1]) { border.push(sd[y * w + x]); }
+    for (const v of border) {
+      nb++;
+      if (v > level) nBright++;
+    }
+    const bright = nBright > nb / 2;
+    // move the level halfway towards the background median: a surface part that is shaded
+    // darker (or brighter) than most of the surface but still differs from the background is kept
+    const bgMed = quantile(border, 0.5);
+    level = 0.5 * (level + bgMed);
+    const m = createMask(w, h);
+    for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
+    if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
+    let mask: Mask;
+    const mm = maskToMat(m);
+    try {
+      const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
+      morphDisc(mm, 'close', rad * 2);
+      const tmp = matToMask(mm);
+      fillHoles(tmp);
+      const mm2 = maskToMat(tmp);
+      try {
+        morphDisc(mm2, 'open', rad * 2);
+        mask = matToMask(mm2);
+      } finally {
+        mm2.delete();
+      }
+    } finally {
+      mm.delete();
+    }
+    return { mask, w, h, sx, sy, level, bright };
+  } finally {
+    full.delete();
+    small.delete();
+  }
+}
+
+/** Options of {@link listSpecimens}. */
+export interface ListSpecimenOptions extends Pick<SpecimenOptions, 'workSizePx' | 'useTexture'> {
+  /** Smallest area of a candidate as a fraction of the largest candidate (default 0.5). */
+  minAreaRatio?: number;
+}
+
+/**
+ * The specimens of an image when it holds several (both mating halves side by side, or a row of
+ * specimens): boxes (px of `r`) of the components of the coarse foreground ({@link coarseForeground})
+ * that look like a fracture surface seen end-on — compact (area / bounding box 0.6–0.9; a disc
+ * fills π/4 ≈ 0.785, a rectangle such as a rule or a label ≈ 1), roughly round (bounding box sides
+ * within 1 : 1.5), at least 0.2 % of the image — and of similar size (area ≥ `minAreaRatio` × the
+ * largest such). Separate components never touch each other. Ordered left to right, or top to
+ * bottom when they lie more above each other than side by side. Thresholds are our own first
+ * choice (common practice, no source).
+ *
+ * @returns two or more boxes, or an empty list when the image holds one specimen (or none): then
+ *   {@link findSpecimen} without a target gives the outline, as for any single specimen
+ */
+export function listSpecimens(r: GrayRaster, opts: ListSpecimenOptions = {}): BoxPx[] {
+  const cv = getCv();
+  const fg = coarseForeground(r, opts);
+  const { w, h, sx, sy } = fg;
+  const m = maskToMat(fg.mask);
+  const labels = new cv.Mat();
+  const stats = new cv.Mat();
+  const cents = new cv.Mat();
+  const found: { box: BoxPx; area: number; cx: number; cy: number }[] = [];
+  try {
+    const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
+    for (let l = 1; l < n; l++) {
+      const area = stats.intAt(l, cv.CC_STAT_AREA);
+      const bw = stats.intAt(l, cv.CC_STAT_WIDTH);
+      const bh = stats.intAt(l, cv.CC_STAT_HEIGHT);
+      if (area < 0.002 * w * h || Math.max(bw, bh) > 1.5 * Math.min(bw, bh)) continue;
+      const fill = area / (bw * bh);
+      if (fill < 0.6 || fill > 0.9) continue;
+      const bx = stats.intAt(l, cv.CC_STAT_LEFT);
+      const by = stats.intAt(l, cv.CC_STAT_TOP);
+      found.push({ box: { x: bx * sx, y: by * sy, w: bw * sx, h: bh * sy }, area, cx: (bx + bw / 2) * sx, cy: (by + bh / 2) * sy });
+    }
+  } finally {
+    m.delete();
+    labels.delete();
+    stats.delete();
+    cents.delete();
+  }
+  const maxA = Math.max(0, ...found.map((c) => c.area));
+  const similar = found.filter((c) => c.area >= (opts.minAreaRatio ?? 0.5) * maxA);
+  if (similar.length < 2) return [];
+  const spread = (v: number[]): number => Math.max(...v) - Math.min(...v);
+  const byX = spread(similar.map((c) => c.cx)) >= spread(similar.map((c) => c.cy));
+  similar.sort((a, b) => (byX ? a.cx - b.cx || a.cy - b.cy : a.cy - b.cy || a.cx - b.cx));
+  return similar.map((c) => c.box);
 }
 
 function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number): void {

@@ -5,7 +5,7 @@
  */
 import { warn, type Warning } from '../../warnings.js';
 import type { Scale } from '../../calibrate/index.js';
-import type { PointPx } from '../../image/geometry.js';
+import type { BoxPx, PointPx } from '../../image/geometry.js';
 import { findSpecimen, refineOuterEdge, type Specimen } from '../../segment/index.js';
 import type { WorkingFrame } from '../frame.js';
 
@@ -15,6 +15,8 @@ export interface LocateInput {
   scale: Scale;
   /** Rays of the measurement; the outer edge is refined on at least 360. */
   nRays: number;
+  /** The specimen to outline when the image holds several (working px; segment/specimen.ts `listSpecimens`). */
+  target?: BoxPx;
 }
 
 /** Output of {@link locateSpecimen}. */
@@ -38,7 +40,7 @@ export interface SpecimenLocation {
  */
 export function locateSpecimen(input: LocateInput): SpecimenLocation {
   const { frame, scale } = input;
-  const specimen = findSpecimen(frame.work, { excludeBoxes: frame.workMarks });
+  const specimen = findSpecimen(frame.work, { excludeBoxes: frame.workMarks, ...(input.target ? { target: input.target } : {}) });
   const centerWork = { x: specimen.circle.cx, y: specimen.circle.cy };
   const center = frame.toFull(centerWork);
   const edge = refineOuterEdge(frame.full, specimen.contour.map((q) => frame.toFull(q)), center, { nRays: Math.max(input.nRays, 360) });
