@@ -123,10 +123,29 @@ export interface CoarseForeground {
 }
 
 /**
- * Steps (1)–(4) of {@link findSpecimen}: the foreground of every object on a coarse grid.
+ * The foregrounds computed, per raster and options: `listSpecimens` and then `findSpecimen` (once
+ * per specimen) on the same working copy compute it once. Rasters are not changed in place in core;
+ * the cached mask is never written to (callers copy it).
+ */
+const FOREGROUNDS = new WeakMap<GrayRaster, Map<string, CoarseForeground>>();
+
+/**
+ * Steps (1)–(4) of {@link findSpecimen}: the foreground of every object on a coarse grid (computed
+ * once per raster and options; do not write to the returned mask).
  * @throws FractozoneError NO_SPECIMEN when the image is too small or has no contrast
  */
 export function coarseForeground(r: GrayRaster, opts: Pick<SpecimenOptions, 'workSizePx' | 'useTexture'> = {}): CoarseForeground {
+  const key = `${opts.workSizePx ?? 1024}|${opts.useTexture ?? true}`;
+  const known = FOREGROUNDS.get(r);
+  const hit = known?.get(key);
+  if (hit) return hit;
+  const fg = computeForeground(r, opts);
+  if (known) known.set(key, fg);
+  else FOREGROUNDS.set(r, new Map([[key, fg]]));
+  return fg;
+}
+
+function computeForeground(r: GrayRaster, opts: Pick<SpecimenOptions, 'workSizePx' | 'useTexture'>): CoarseForeground {
   const cv = getCv();
   const W = r.width;
   const H = r.height;
