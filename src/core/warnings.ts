@@ -29,6 +29,11 @@ export const WARNINGS = {
   // specimen
   SPECIMEN_CUT_BY_FRAME: { severity: 'check', description: 'the specimen is cut by the image frame; rays reaching the frame are not measured' },
   SCALE_MARK_ON_OUTLINE: { severity: 'check', description: 'the scale bar or its plate touches the specimen outline; rays ending there are not measured' },
+  OUTLINE_FROM_SILHOUETTE: { severity: 'check', description: 'no closed edge was found around the rough core; the outline is the silhouette of the part, which may include a notch flank or a shadow' },
+  OUTLINE_AMBIGUOUS: { severity: 'check', description: 'two or more closed edges could bound the fracture surface and the cues do not single one out; the outline may be the wrong one (the candidates are listed in specimen.edgeSearch)' },
+  OUTLINE_INNER_ROUND_EDGE: { severity: 'check', description: 'a strong round edge lies inside the outline taken; if it is the notch root, the band width is too large' },
+  SECTION_DIAMETER_NOT_FOUND: { severity: 'check', description: 'no closed edge lies within 12 % of the given section diameter; the outline was chosen without it' },
+  SECTION_DIAMETER_MISMATCH: { severity: 'check', description: 'the measured diameter of the fracture surface differs from the given section diameter by more than 3 %: check the pixel size' },
   HALVES_DISAGREE: { severity: 'check', description: 'both halves were measured and their mean band widths differ by more than 10 % of their average' },
   OTHER_SPECIMEN_UNSURE: { severity: 'check', description: 'another specimen in the frame (e.g. half B) has a quality verdict other than ok: the comparison of the halves is uncertain' },
   SEVERAL_SPECIMENS: { severity: 'info', description: 'more than two specimens were found in the frame: each is measured, the halves are not compared' },

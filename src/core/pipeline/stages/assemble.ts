@@ -185,6 +185,7 @@ export function assembleSpecimen(frame: WorkingFrame, location: SpecimenLocation
     frameContactFraction: round(sp.frameContactFraction, 4),
     ...(geometry.marks.length ? { scaleMarksPx: geometry.marks } : {}),
     outline: geometry.outline,
+    edgeSearch: location.edgeSearch ?? null,
   };
 }
 
