@@ -1,8 +1,11 @@
 /**
  * Both halves in one frame: each specimen found and measured on its own, the halves compared, and
  * the result blocks (top level = A, specimens[], halves, CSV row) kept consistent by the re-measure
- * paths the app uses. Truth: our own renderer (src/core/render), invented specimens.
+ * paths the app uses. Truth: our own renderer (src/core/render), invented specimens, and the
+ * independent generator's scenes (scripts/fixtures/make_external_scenes.py, sharing no code with ours).
  */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { findScene, renderFractograph } from '../../../src/core/render/index.js';
 import { encodeGrayRaster } from '../../../src/core/encode/index.js';
@@ -216,5 +219,43 @@ describe('compareHalves', () => {
     expect(h.meanWidthsUm).toEqual([300, null]);
     expect(h.differenceUm).toBeNull();
     expect(h.relativeDifferencePct).toBeNull();
+  });
+});
+
+describe('both halves on images of the independent generator (tests/fixtures/external/scenes)', () => {
+  const DIR = fileURLToPath(new URL('../../fixtures/external/scenes/', import.meta.url));
+  interface SceneTruth {
+    file: string;
+    umPerPx: number;
+    specimens: { center: { x: number; y: number }; band: { meanWidthUm: number } }[];
+  }
+
+  async function each(name: string): Promise<{ truth: SceneTruth; result: MeasureResult }> {
+    const truth = JSON.parse(readFileSync(`${DIR}${name}.truth.json`, 'utf8')) as SceneTruth;
+    const bytes = new Uint8Array(readFileSync(`${DIR}${truth.file}`));
+    const result = (await analyseImage(bytes, { file: truth.file, sha256: 'test' }, params(truth.umPerPx))).result;
+    return { truth, result };
+  }
+
+  /** Each measured specimen against the truth half nearest its centre (whole-circumference truth mean). */
+  function errors(truth: SceneTruth, result: MeasureResult): number[] {
+    return result.specimens!.map((s) => {
+      const c = s.specimen.center;
+      const t = truth.specimens.reduce((a, b) => (Math.hypot(b.center.x - c.x, b.center.y - c.y) < Math.hypot(a.center.x - c.x, a.center.y - c.y) ? b : a));
+      return rel(s.band.widthUm!.mean, t.band.meanWidthUm);
+    });
+  }
+
+  it('halves alone: both measured, each within 2 %, A the left one', async () => {
+    const { truth, result } = await each('halves');
+    expect(result.specimens!.length).toBe(2);
+    expect(result.specimens![0].specimen.center.x).toBeLessThan(result.specimens![1].specimen.center.x);
+    for (const e of errors(truth, result)) expect(e).toBeLessThan(0.02);
+  });
+
+  it('halves with a steel rule along the frame (larger than either half): both measured, each within 4 %', async () => {
+    const { truth, result } = await each('halves_rule');
+    expect(result.specimens!.length).toBe(2);
+    for (const e of errors(truth, result)) expect(e).toBeLessThan(0.04);
   });
 });
