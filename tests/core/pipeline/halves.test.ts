@@ -15,6 +15,7 @@ import { recompute } from '../../../src/core/pipeline/recompute.js';
 import { listSpecimens } from '../../../src/core/segment/index.js';
 import { entryRow } from '../../../src/core/report/csv.js';
 import { imageEntry } from '../../../src/core/report/imageReport.js';
+import { card } from '../../../src/core/report/html.js';
 import { resultOverlay } from '../../../src/core/report/resultOverlay.js';
 import { specimenLines } from '../../../src/core/report/summary.js';
 
@@ -96,6 +97,8 @@ describe('the rendered halves scene', () => {
     expect(row.halves_width_mean_b_um).toBe(result.specimens![1].band.widthUm!.mean);
     expect(row.halves_difference_um).toBe(result.halves!.differenceUm);
     expect(row.halves_difference_pct).toBe(result.halves!.relativeDifferencePct);
+    // the report card names both halves
+    expect(card(imageEntry(result), undefined)).toContain(`halves A - B: ${result.halves!.differenceUm! >= 0 ? '+' : ''}${result.halves!.differenceUm!.toFixed(1)} µm`);
   });
 
   it('re-measuring with other rays applies them to every specimen and keeps A in step with the top level', () => {
@@ -113,6 +116,22 @@ describe('the rendered halves scene', () => {
     expect(e.specimens![0].band.widthUm!.mean).toBeGreaterThan(result.band.widthUm!.mean * 1.1);
     expect(e.specimens![1].band).toEqual(result.specimens![1].band);
     expect(e.halves!.differenceUm!).toBeGreaterThan(result.halves!.differenceUm! + 10);
+  });
+
+  it('an edited boundary of A re-measured equals a full run given that boundary (B found again)', async () => {
+    const poly = result.band.boundary!.polygon;
+    const c = result.specimen.center;
+    const shrunk = poly.map((q) => ({ x: c.x + 0.92 * (q.x - c.x), y: c.y + 0.92 * (q.y - c.y) }));
+    const edited = remeasure(result, { boundaryPolygon: shrunk });
+    const { raster } = renderFractograph(findScene('halves')!.options);
+    const full = await measure(raster, params(umPerPx, { boundaryPolygon: shrunk }), 'invented-halves.png');
+    // A: the same widths (a re-measure keeps the separability of the automatic run, as for one specimen)
+    const [ea, eb] = edited.specimens!;
+    const [fa, fb] = full.specimens!;
+    expect({ ...ea.band, separability: null }).toEqual({ ...fa.band, separability: null });
+    expect(eb.band).toEqual(fb.band);
+    expect(eb.quality).toEqual(fb.quality);
+    expect(edited.halves).toEqual(full.halves);
   });
 
   it('recompute at another pixel size scales both halves (as a full run would)', () => {
