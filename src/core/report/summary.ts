@@ -200,7 +200,7 @@ export function specimenLines(r: MeasureResult): string[] {
     mean: fig('mean width', x.band.detected ? x.band.widthUm?.mean : null, 'µm'),
     verdict: x.quality.verdict,
   }));
-  const lines = [`${list.length} specimens, figures above are A's: ${list.map((x) => `${x.id} ${x.mean.value === null ? 'no band' : `${x.mean.value.toFixed(1)} µm`} (${x.verdict})`).join(', ')}`];
+  const lines = [`${list.length} specimens (figures above: A): ${list.map((x) => `${x.id} ${x.mean.value === null ? 'no band' : `${x.mean.value.toFixed(1)} µm`} (${x.verdict})`).join(', ')}`];
   const h = r.halves;
   if (h) {
     const d = h.differenceUm;

@@ -146,7 +146,7 @@ describe('the rendered halves scene', () => {
 
   it('draws both specimens on the overlay and names the halves in the summary lines', () => {
     const lines = specimenLines(result);
-    expect(lines[0]).toMatch(/^2 specimens, figures above are A's: A \d+\.\d µm \(\w+\), B \d+\.\d µm/);
+    expect(lines[0]).toMatch(/^2 specimens \(figures above: A\): A \d+\.\d µm \(\w+\), B \d+\.\d µm/);
     expect(lines[1]).toMatch(/^halves A - B: [+-]\d+\.\d µm \([+-]\d+\.\d %\)$/);
     const { raster } = renderFractograph(findScene('halves')!.options);
     const img = resultOverlay(raster, result, 800);
