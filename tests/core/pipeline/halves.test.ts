@@ -188,6 +188,22 @@ describe('halves of different band widths', () => {
   });
 });
 
+describe('three specimens in a row', () => {
+  it('measures each (A, B, C left to right), compares no halves and says so', async () => {
+    const base = { widthPx: 420, heightPx: 420, umPerPx: 16, scaleBar: null, noiseSigma: 0.01, blurSigmaPx: 0.8 } as const;
+    const widths = [300, 380, 340];
+    const r = widths.map((w, i) => renderFractograph({ ...base, seed: 90 + i, rim: { widthUm: w, transitionUm: 30 } }).raster);
+    const result = await measure(sideBySide(sideBySide(r[0], r[1]), r[2]), params(16), 'invented-three.png');
+    const s = result.specimens!;
+    expect(s.map((x) => x.id)).toEqual(['A', 'B', 'C']);
+    s.forEach((x, i) => expect(rel(x.band.widthUm!.mean, widths[i])).toBeLessThan(0.04));
+    expect(result.halves).toBeUndefined();
+    expect(result.warnings.map((w) => w.code)).toContain('SEVERAL_SPECIMENS');
+    expect(entryRow(imageEntry(result)).n_specimens).toBe(3);
+    expect(entryRow(imageEntry(result)).halves_difference_um).toBeNull();
+  });
+});
+
 describe('listing the specimens', () => {
   /** Bright discs / boxes on a dark ground. */
   function scene(shapes: { kind: 'disc' | 'box'; x: number; y: number; r: number }[]): GrayRaster {
