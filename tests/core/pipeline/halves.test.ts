@@ -188,6 +188,24 @@ describe('halves of different band widths', () => {
   });
 });
 
+describe('halves laid touching each other', () => {
+  it('are cut apart and each measured within 2 %', async () => {
+    const scene = findScene('halves')!;
+    const { raster, truth } = renderFractograph({ ...scene.options, halves: { gapUm: 0 } });
+    const result = await measure(raster, params(truth.umPerPxX), 'invented-touching-halves.png');
+    const s = result.specimens!;
+    expect(s.length).toBe(2);
+    s.forEach((x, i) => {
+      expect(rel(x.band.widthUm!.mean, truth.specimens![i].band.meanWidthUm!)).toBeLessThan(0.02);
+      // each outline is its own disc, not the pair: its radius is the half's (truth mean outer radius)
+      const rays = truth.specimens![i].outerRadiusPxByAngle;
+      expect(rel(x.specimen.radiusPx, rays.reduce((a, v) => a + v, 0) / rays.length)).toBeLessThan(0.01);
+    });
+    expect(rel(s[0].specimen.radiusUm, s[1].specimen.radiusUm)).toBeLessThan(0.01);
+    expect(s[1].specimen.center.x - s[0].specimen.center.x).toBeGreaterThan(1.9 * s[0].specimen.radiusPx);
+  });
+});
+
 describe('three specimens in a row', () => {
   it('measures each (A, B, C left to right), compares no halves and says so', async () => {
     const base = { widthPx: 420, heightPx: 420, umPerPx: 16, scaleBar: null, noiseSigma: 0.01, blurSigmaPx: 0.8 } as const;
