@@ -31,7 +31,7 @@ export interface ListSpecimenOptions extends ForegroundOptions {
 export function listSpecimens(r: GrayRaster, opts: ListSpecimenOptions = {}): BoxPx[] {
   const fg = separatedForeground(r, opts);
   const { sx, sy } = fg;
-  const found = roundComponents(fg).map((c) => ({ box: { x: c.bx * sx, y: c.by * sy, w: c.bw * sx, h: c.bh * sy }, area: c.area, cx: (c.bx + c.bw / 2) * sx, cy: (c.by + c.bh / 2) * sy }));
+  const found = components(fg).round.map((c) => ({ box: { x: c.bx * sx, y: c.by * sy, w: c.bw * sx, h: c.bh * sy }, area: c.area, cx: (c.bx + c.bw / 2) * sx, cy: (c.by + c.bh / 2) * sy }));
   const maxA = Math.max(0, ...found.map((c) => c.area));
   const similar = found.filter((c) => c.area >= (opts.minAreaRatio ?? 0.5) * maxA);
   if (similar.length < 2) return [];
@@ -51,25 +51,41 @@ interface RoundComponent {
   bh: number;
 }
 
-/** The components that look like a fracture surface seen end-on (see {@link listSpecimens}). */
-function roundComponents(fg: CoarseForeground): RoundComponent[] {
+/** The components of a coarse mask: round ones (possible specimens) and elongated ones (possibly two touching). */
+interface Components {
+  round: RoundComponent[];
+  /** Large components with bounding-box sides 1 : 1.5 to 1 : 3.5 (two touching discs: 1 : 2). */
+  elongated: number;
+}
+
+const COMPONENTS = new WeakMap<Mask, Components>();
+
+/** The components that look like a fracture surface seen end-on (see {@link listSpecimens}); once per mask. */
+function components(fg: CoarseForeground): Components {
+  const hit = COMPONENTS.get(fg.mask);
+  if (hit) return hit;
   const cv = getCv();
   const { w, h } = fg;
   const m = maskToMat(fg.mask);
   const labels = new cv.Mat();
   const stats = new cv.Mat();
   const cents = new cv.Mat();
-  const found: RoundComponent[] = [];
+  const out: Components = { round: [], elongated: 0 };
   try {
     const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
     for (let l = 1; l < n; l++) {
       const area = stats.intAt(l, cv.CC_STAT_AREA);
       const bw = stats.intAt(l, cv.CC_STAT_WIDTH);
       const bh = stats.intAt(l, cv.CC_STAT_HEIGHT);
-      if (area < 0.002 * w * h || Math.max(bw, bh) > 1.5 * Math.min(bw, bh)) continue;
+      if (area < 0.002 * w * h) continue;
+      const aspect = Math.max(bw, bh) / Math.min(bw, bh);
+      if (aspect > 1.5) {
+        if (aspect <= 3.5) out.elongated++;
+        continue;
+      }
       const fill = area / (bw * bh);
       if (fill < 0.6 || fill > 0.9) continue;
-      found.push({ area, bx: stats.intAt(l, cv.CC_STAT_LEFT), by: stats.intAt(l, cv.CC_STAT_TOP), bw, bh });
+      out.round.push({ area, bx: stats.intAt(l, cv.CC_STAT_LEFT), by: stats.intAt(l, cv.CC_STAT_TOP), bw, bh });
     }
   } finally {
     m.delete();
@@ -77,7 +93,8 @@ function roundComponents(fg: CoarseForeground): RoundComponent[] {
     stats.delete();
     cents.delete();
   }
-  return found;
+  COMPONENTS.set(fg.mask, out);
+  return out;
 }
 
 const SEPARATED = new WeakMap<GrayRaster, Map<string, CoarseForeground>>();
@@ -87,7 +104,8 @@ const SEPARATED = new WeakMap<GrayRaster, Map<string, CoarseForeground>>();
  * touching, or closer than the smoothing joins): unchanged when two or more similar round
  * components are already separate, or when no component holds two round cores. Method: the
  * Euclidean distance to the background (cv.distanceTransform) of each component; its cores above
- * half the largest distance in the image are the bodies of the discs, and a narrow neck between two
+ * half the largest distance in the image are the bodies of the discs (looked for only when a
+ * component is 1.5–3.5 times as long as wide), and a narrow neck between two
  * discs falls below; with two or more cores of similar depth (≥ 0.7 × the deepest) in one
  * component, each pixel of it goes to the core with the smallest distance to its centre minus its
  * depth (≈ the nearest disc), and pixels within 1.5 px of a tie are cleared so the pieces are
@@ -99,10 +117,11 @@ export function separatedForeground(r: GrayRaster, opts: ForegroundOptions = {})
   const hit = known?.get(key);
   if (hit) return hit;
   const fg = coarseForeground(r, opts);
-  const round = roundComponents(fg);
+  const { round, elongated } = components(fg);
   const maxA = Math.max(0, ...round.map((c) => c.area));
   const separate = round.filter((c) => c.area >= 0.5 * maxA).length >= 2;
-  const split = separate ? null : splitTouching(fg);
+  // only a component as long as two touching discs can hold two (the usual single round specimen: none)
+  const split = separate || elongated === 0 ? null : splitTouching(fg);
   const out = split ? { ...fg, mask: split } : fg;
   if (known) known.set(key, out);
   else SEPARATED.set(r, new Map([[key, out]]));
