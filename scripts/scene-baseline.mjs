@@ -13,7 +13,8 @@
  *
  * The truth mean is truth.band.meanWidthUm: the mean over every ray where the band is defined (not
  * absent, not cut by the frame), whatever rays the tool kept. With both halves in the frame the tool's
- * specimen is matched to the nearer half (A or B) and compared with that half's truth.
+ * specimen is matched to the nearer half (A or B) and compared with that half's truth; when the tool
+ * measured several specimens (result `specimens[]`), each gets its own row against its own half.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -64,27 +65,33 @@ function measureScene(dir, s) {
   const row = { scene: s.name, elements: s.elements.join('+') || '-', umPerPx: px };
   if (r.code !== 0) {
     const t = matchTruth(truth, null);
-    return { ...row, half: truth.specimens ? t.id : '', truthMeanUm: t.band.meanWidthUm, measuredMeanUm: null, errorPct: null, raysKept: null, radiusErrorPct: null, ciCovers: null, warnings: [(r.stderr.trim().split('\n').pop() ?? `exit ${r.code}`)] };
+    return [{ ...row, half: truth.specimens ? t.id : '', truthMeanUm: t.band.meanWidthUm, measuredMeanUm: null, errorPct: null, raysKept: null, radiusErrorPct: null, ciCovers: null, warnings: [(r.stderr.trim().split('\n').pop() ?? `exit ${r.code}`)] }];
   }
   const res = JSON.parse(r.stdout);
-  const t = matchTruth(truth, res);
-  const tMean = t.band.meanWidthUm;
-  const b = res.band;
-  const mean = b.detected ? b.widthUm.mean : null;
-  const outer = t.outerRadiusPxByAngle.reduce((a, v) => a + v, 0) / 360;
-  const tRadiusUm = outer * Math.sqrt(truth.umPerPxX * truth.umPerPxY);
-  const ci = b.detected ? b.widthUm.ci95 : null;
-  return {
-    ...row,
-    half: truth.specimens ? t.id : '',
-    truthMeanUm: tMean,
-    measuredMeanUm: mean,
-    errorPct: mean !== null && tMean ? (100 * (mean - tMean)) / tMean : null,
-    raysKept: b.nRays ? b.nValid / b.nRays : null,
-    radiusErrorPct: (100 * (res.specimen.radiusUm - tRadiusUm)) / tRadiusUm,
-    ciCovers: ci && tMean !== null ? ci[0] <= tMean && tMean <= ci[1] : null,
-    warnings: [...(b.detected ? [] : [`band not detected${b.reason ? `: ${b.reason}` : ''}`]), ...res.warnings.map(warningText)],
-  };
+  // several specimens (both halves): one row per measured specimen, each against its own half's truth
+  const measured = res.specimens ?? [{ id: '', specimen: res.specimen, band: res.band, warnings: res.warnings }];
+  return measured.map((m, i) => {
+    const t = matchTruth(truth, { specimen: m.specimen });
+    const tMean = t.band.meanWidthUm;
+    const b = m.band;
+    const mean = b.detected ? b.widthUm.mean : null;
+    const outer = t.outerRadiusPxByAngle.reduce((a, v) => a + v, 0) / 360;
+    const tRadiusUm = outer * Math.sqrt(truth.umPerPxX * truth.umPerPxY);
+    const ci = b.detected ? b.widthUm.ci95 : null;
+    // the top-level warnings (scale, comparison of the halves) on the first row, each specimen's own on its row
+    const ws = i === 0 ? res.warnings : m.warnings;
+    return {
+      ...row,
+      half: truth.specimens ? `${t.id}${m.id ? `, measured ${m.id}` : ''}` : '',
+      truthMeanUm: tMean,
+      measuredMeanUm: mean,
+      errorPct: mean !== null && tMean ? (100 * (mean - tMean)) / tMean : null,
+      raysKept: b.nRays ? b.nValid / b.nRays : null,
+      radiusErrorPct: (100 * (m.specimen.radiusUm - tRadiusUm)) / tRadiusUm,
+      ciCovers: ci && tMean !== null ? ci[0] <= tMean && tMean <= ci[1] : null,
+      warnings: [...(b.detected ? [] : [`band not detected${b.reason ? `: ${b.reason}` : ''}`]), ...ws.map(warningText)],
+    };
+  });
 }
 
 const f = (v, d = 1) => (v === null || v === undefined ? '–' : v.toFixed(d));
@@ -119,13 +126,13 @@ function main() {
   const rows = [];
   for (const s of index.scenes) {
     if (a.only && !a.only.test(s.name)) continue;
-    const row = measureScene(dir, s);
-    rows.push(row);
-    process.stderr.write(`${s.name}: ${signed(row.errorPct)} %\n`);
+    const got = measureScene(dir, s);
+    rows.push(...got);
+    process.stderr.write(`${s.name}: ${got.map((row) => `${signed(row.errorPct)} %`).join(', ')}\n`);
   }
   process.stdout.write(table(rows) + '\n');
   const errs = rows.filter((r) => r.errorPct !== null).map((r) => Math.abs(r.errorPct)).sort((x, y) => x - y);
-  if (errs.length) process.stdout.write(`\n${rows.length} scenes; |error| median ${f(errs[Math.floor(errs.length / 2)])} %, max ${f(errs[errs.length - 1])} %; ${rows.length - errs.length} without a measured width.\n`);
+  if (errs.length) process.stdout.write(`\n${rows.length} rows (one per measured specimen); |error| median ${f(errs[Math.floor(errs.length / 2)])} %, max ${f(errs[errs.length - 1])} %; ${rows.length - errs.length} without a measured width.\n`);
   if (a.json) writeFileSync(a.json, JSON.stringify(rows, null, 2) + '\n');
   if (tmp) rmSync(tmp, { recursive: true, force: true });
 }

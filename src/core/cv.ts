@@ -80,6 +80,10 @@ export interface OpenCv {
   CHAIN_APPROX_NONE: number;
   DIST_L2: number;
   CC_STAT_AREA: number;
+  CC_STAT_LEFT: number;
+  CC_STAT_TOP: number;
+  CC_STAT_WIDTH: number;
+  CC_STAT_HEIGHT: number;
 
   blur(src: Mat, dst: Mat, ksize: Size, anchor: Point, borderType: number): void;
   boxFilter(src: Mat, dst: Mat, ddepth: number, ksize: Size, anchor: Point, normalize: boolean, borderType: number): void;

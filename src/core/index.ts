@@ -44,6 +44,8 @@ export type {
   ResultScale,
   DetectedBar,
   ResultSpecimen,
+  ResultSpecimenRecord,
+  ResultHalves,
   CircleSummary,
   EllipseSummary,
   ResultBand,
@@ -150,7 +152,7 @@ export {
 } from './tcd/index.js';
 
 // Reports and views
-export { summarise, formatFigure, formatValue, VERDICT_HEADLINES, type ResultSummary, type QualitySummary, type Figure, type IntervalFigure } from './report/summary.js';
+export { summarise, specimenLines, type SpecimenLine, formatFigure, formatValue, VERDICT_HEADLINES, type ResultSummary, type QualitySummary, type Figure, type IntervalFigure } from './report/summary.js';
 export {
   RESULT_COLUMNS,
   entryRow,

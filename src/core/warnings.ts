@@ -34,6 +34,10 @@ export const WARNINGS = {
   OUTLINE_INNER_ROUND_EDGE: { severity: 'check', description: 'a strong round edge lies inside the outline taken; if it is the notch root, the band width is too large' },
   SECTION_DIAMETER_NOT_FOUND: { severity: 'check', description: 'no closed edge lies within 12 % of the given section diameter; the outline was chosen without it' },
   SECTION_DIAMETER_MISMATCH: { severity: 'check', description: 'the measured diameter of the fracture surface differs from the given section diameter by more than 3 %: check the pixel size' },
+  HALVES_DISAGREE: { severity: 'check', description: 'both halves were measured and their mean band widths differ by more than 10 % of their average' },
+  OTHER_SPECIMEN_UNSURE: { severity: 'check', description: 'another specimen in the frame (e.g. half B) has a quality verdict other than ok: the comparison of the halves is uncertain' },
+  SEVERAL_SPECIMENS: { severity: 'info', description: 'more than two specimens were found in the frame: each is measured, the halves are not compared' },
+  SPECIMEN_SKIPPED: { severity: 'check', description: 'a specimen found in the frame could not be outlined and is not measured' },
   OUTLINE_CORRECTED: { severity: 'info', description: 'the specimen outline was corrected by hand; centre, radius, ellipse and area are fitted to the corrected outline' },
   // rim/core classification
   WEAK_TEXTURE_CONTRAST: { severity: 'check', description: 'rim and core textures differ weakly (Fisher ratio below 4)' },

@@ -27,6 +27,8 @@ export interface Shapes {
   hoverVertex: PointPx | null;
   /** Outline handles: centre (moves the outline) and points that reshape it (outline tool). */
   outlineHandles: { centre: PointPx; points: PointPx[] } | null;
+  /** The other specimens in the frame (half B, …): outline and boundary as measured, not editable. */
+  others: { id: string; outline: number[]; boundary: number[] | null }[];
 }
 
 /** Number of reshape handles around the outline. */
@@ -76,6 +78,11 @@ export function shapesOf(doc: Doc, tool: Tool, pointer: PointPx | null, k: numbe
     hoverVertex: boundary && i >= 0 ? boundary[i] : null,
     outlineHandles:
       tool === 'outline' && outline && centre ? { centre, points: outlineHandles(outline, centre, OUTLINE_HANDLES).map((h) => h.at) } : null,
+    others: ((doc.result ?? doc.base?.result)?.specimens ?? []).slice(1).map((x) => ({
+      id: x.id,
+      outline: flat(x.specimen.outline),
+      boundary: x.band.boundary ? flat(x.band.boundary.polygon) : null,
+    })),
   };
 }
 

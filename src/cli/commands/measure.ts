@@ -4,7 +4,7 @@
  */
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
-import { analyseImage, encodeOverlayPng, formatValue, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
+import { analyseImage, encodeOverlayPng, formatValue, specimenLines, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
 import { printableLines } from '../../core/text/printable.js';
 import { safeFileName } from '../../core/text/safeName.js';
 import { loadCvNode } from '../cvNode.js';
@@ -72,7 +72,9 @@ export function summaryText(r: MeasureResult): string {
     const c = r.model.confidence;
     lines.push(`  model          ${r.model.sha256.slice(0, 12)}… (pixel classifier, out-of-bag accuracy ${(r.model.oobAccuracy * 100).toFixed(1)} %); confidence along the boundary ${c.boundary === null ? '—' : c.boundary.toFixed(2)}, outer edge ${c.outerEdge.toFixed(2)}`);
   }
-  lines.push(...bandLines(s), ...criticalDistanceLines(s));
+  lines.push(...bandLines(s));
+  for (const l of specimenLines(r)) lines.push(`  specimens      ${l}`);
+  lines.push(...criticalDistanceLines(s));
   for (const w of s.notes) lines.push(`  note           ${w.message} [${w.code}]`);
   lines.push(`  ${s.caution}`);
   return lines.join('\n') + '\n';

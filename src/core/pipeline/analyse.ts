@@ -2,7 +2,11 @@
  * The measurement pipeline, as a list of stages (each in stages/, each with a typed input and
  * output record):
  *
- *   calibrate → locate specimen → texture → classify → refine boundary → measure → compare → quality → assemble
+ *   calibrate → locate specimen(s) → texture → classify → refine boundary → measure → compare → quality → assemble
+ *
+ * With several specimens in the frame (both mating halves), the texture maps are computed once and
+ * each specimen goes through locate → classify → refine → measure; the result holds one record per
+ * specimen and the top-level blocks are specimen A's (specimens.ts).
  *
  * plus the overlay picture. The working copy and its mapping to full-resolution pixels live in one
  * WorkingFrame (frame.ts); numbers are rounded to their stored precision at assembly (precision.ts).
@@ -18,21 +22,25 @@ import { WorkingFrame } from './frame.js';
 import { overlayFor } from './overlay.js';
 import { validateParams } from './params.js';
 import { round } from './precision.js';
-import type { MeasureResult } from './result.js';
-import { assembleBand, assembleResult, assembleScale, reportWidths, storedGeometry } from './stages/assemble.js';
+import { inResultOrder, type MeasureResult, type ResultBand } from './result.js';
+import { assembleBand, assembleResult, assembleScale, assembleSpecimen, reportWidths, storedGeometry } from './stages/assemble.js';
 import { calibrate } from './stages/calibrate.js';
 import { classifyTexture } from './stages/classify.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
-import { locateSpecimen } from './stages/locateSpecimen.js';
-import { measureWidths, minWidthPxFor } from './stages/measure.js';
+import { locateSpecimen, type SpecimenLocation } from './stages/locateSpecimen.js';
+import { measureWidths, minWidthPxFor, type StoredGeometry } from './stages/measure.js';
 import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
-import { computeTexture, textureWindow } from './stages/texture.js';
+import { computeTexture, textureWindow, type TextureMaps } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
-import { mergeWarnings } from '../warnings.js';
+import { mergeWarnings, warn, type Warning } from '../warnings.js';
 import { judgeQuality } from './stages/quality.js';
 import { FractozoneError } from '../errors.js';
 import type { LoadedModel } from '../learn/predict.js';
 import { modelResult, segmentWithModel, type ModelSegmentation } from '../learn/segment.js';
+import type { Scale } from '../calibrate/index.js';
+import type { BandProfile } from '../measure/index.js';
+import { listSpecimens } from '../segment/index.js';
+import { specimenId, specimenRecord, withSpecimens } from './specimens.js';
 
 /** What the shells get back besides the result: the overlay picture. */
 export interface Analysis {
@@ -88,48 +96,104 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   T.lap('scale', 'specimen outline', 0.12);
   const frame = new WorkingFrame(decoded.raster, calibration.marks);
   const seg = modelBranch(p, options, (loaded) => segmentWithModel({ frame, scale: calibration.scale, loaded, nRays: p.nRays }));
-  const location = seg ? seg.location : locateSpecimen({ frame, scale: calibration.scale, nRays: p.nRays, sectionDiameterUm: p.sectionDiameterUm });
+  const located: Located = seg ? { locations: [seg.location], several: false, warnings: [] } : locateAll(frame, calibration.scale, p.nRays, p.sectionDiameterUm);
+  const location = located.locations[0];
   T.lap('specimen', 'texture', 0.25);
   const windowUm = p.windowUm ?? (seg ? seg.windowUm : null);
   const window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
-  const warnings = [...calibration.warnings, ...location.warnings];
-  let boundary: RimBoundary;
-  if (p.boundaryPolygon) {
-    boundary = manualBoundary(p.boundaryPolygon);
-    T.lap('texture', 'band width', 0.8);
-  } else if (seg) {
-    warnings.push(...seg.classification.warnings, ...seg.warnings);
-    boundary = seg.boundary;
-  } else {
-    const texture = computeTexture({ frame, window, features: p.features });
-    T.lap('texture', 'rim/core boundary', 0.55);
-    const classification = classifyTexture({ location, texture });
-    warnings.push(...classification.warnings);
-    boundary = refineRimBoundary({ frame, location, classification, window, nRays: p.nRays });
-    T.lap('boundary', 'band width', 0.85);
-  }
-  const geometry = storedGeometry(location, boundary, calibration.marks);
-  const measured = measureWidths({
-    geometry,
-    umPerPx: { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY },
-    imageSize: frame.fullSize,
-    minWidthPx: minWidthPxFor(boundary.source, window.windowPxFull),
-    params: p,
-  });
-  warnings.push(...measured.warnings);
-  const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY }) : null, p.nRays);
-  const tcd = compareWithCriticalDistance({ params: p, width: band.detected ? band.widthUm : null });
+  const umPerPx = { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY };
+  // the texture maps cover the whole working copy: computed once, for every specimen that needs them
+  let texture: TextureMaps | null = null;
+  const measureSpecimen = (loc: SpecimenLocation, first: boolean): MeasuredSpecimen => {
+    const own = [...loc.warnings];
+    let boundary: RimBoundary;
+    if (first && p.boundaryPolygon) {
+      boundary = manualBoundary(p.boundaryPolygon);
+      T.lap('texture', 'band width', 0.8);
+    } else if (seg) {
+      own.push(...seg.classification.warnings, ...seg.warnings);
+      boundary = seg.boundary;
+    } else {
+      if (!texture) {
+        texture = computeTexture({ frame, window, features: p.features });
+        T.lap('texture', 'rim/core boundary', 0.55);
+      }
+      const classification = classifyTexture({ location: loc, texture });
+      own.push(...classification.warnings);
+      boundary = refineRimBoundary({ frame, location: loc, classification, window, nRays: p.nRays });
+      if (first) T.lap('boundary', 'band width', 0.85);
+    }
+    const geometry = storedGeometry(loc, boundary, calibration.marks);
+    const measured = measureWidths({ geometry, umPerPx, imageSize: frame.fullSize, minWidthPx: minWidthPxFor(boundary.source, window.windowPxFull), params: p });
+    own.push(...measured.warnings);
+    const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, umPerPx) : null, p.nRays);
+    return { location: loc, boundary, geometry, profile: measured.profile, band, warnings: own };
+  };
+  const all = located.locations.map((loc, i) => measureSpecimen(loc, i === 0));
+  const a = all[0];
+  const warnings = [...calibration.warnings, ...a.warnings];
+  const tcd = compareWithCriticalDistance({ params: p, width: a.band.detected ? a.band.widthUm : null });
   const scale = assembleScale(decoded, calibration, p);
-  const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band, scale });
-  const result = assembleResult({
-    input, decoded, params: p, calibration, frame, location, window, boundarySource: boundary.source, geometry, scale, band,
+  const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: a.band, scale });
+  let result = assembleResult({
+    input, decoded, params: p, calibration, frame, location, window, boundarySource: a.boundary.source, geometry: a.geometry, scale, band: a.band,
     criticalDistance: tcd, warnings: judged.warnings, quality: judged.quality, timingsMs: T.timings,
     ...(seg && options.model ? { model: modelResult(options.model, seg) } : {}),
   });
+  if (located.several) {
+    const records = all.map((m, i) => specimenRecord(specimenId(i), i === 0 ? result.specimen : assembleSpecimen(frame, m.location, calibration, m.geometry), m.band, m.warnings, scale));
+    result = inResultOrder(withSpecimens(result, records, located.warnings));
+  }
   T.lap('measure', 'overlay', 0.95);
-  const overlay = overlayFor(decoded.raster, result, measured.profile, calibration.bar);
+  const overlay = overlayFor(decoded.raster, result, a.profile, calibration.bar);
   T.lap('overlay', 'done', 1);
   return { result, overlay };
+}
+
+/** One specimen through the boundary and measure stages. */
+interface MeasuredSpecimen {
+  location: SpecimenLocation;
+  boundary: RimBoundary;
+  geometry: StoredGeometry;
+  profile: BandProfile | null;
+  band: ResultBand;
+  /** Warnings of its outline, classification and measurement. */
+  warnings: Warning[];
+}
+
+/** The specimens located: A first; `several` when the image holds two or more. */
+interface Located {
+  locations: SpecimenLocation[];
+  several: boolean;
+  /** SEVERAL_SPECIMENS / SPECIMEN_SKIPPED. */
+  warnings: Warning[];
+}
+
+const ordinal = (i: number): string => `${i + 1}${i === 0 ? 'st' : i === 1 ? 'nd' : i === 2 ? 'rd' : 'th'}`;
+
+/**
+ * Locate every specimen: one (the usual case: the component at the image centre, exactly as
+ * before several were looked for), or each of the specimens `listSpecimens` finds, in reading
+ * order; a specimen that cannot be outlined is skipped with a warning.
+ */
+function locateAll(frame: WorkingFrame, scale: Scale, nRays: number, sectionDiameterUm: number | undefined): Located {
+  const targets = listSpecimens(frame.work);
+  if (targets.length < 2) return { locations: [locateSpecimen({ frame, scale, nRays, ...(sectionDiameterUm ? { sectionDiameterUm } : {}) })], several: false, warnings: [] };
+  const locations: SpecimenLocation[] = [];
+  const warnings: Warning[] = [];
+  let firstError: unknown = null;
+  targets.forEach((target, i) => {
+    try {
+      locations.push(locateSpecimen({ frame, scale, nRays, target, ...(sectionDiameterUm ? { sectionDiameterUm } : {}) }));
+    } catch (e) {
+      if (!(e instanceof FractozoneError)) throw e;
+      firstError ??= e;
+      warnings.push(warn('SPECIMEN_SKIPPED', `the ${ordinal(i)} of ${targets.length} specimens in reading order could not be outlined and is not measured (${e.message})`));
+    }
+  });
+  if (!locations.length) throw firstError;
+  if (locations.length > 2) warnings.unshift(warn('SEVERAL_SPECIMENS', `${locations.length} specimens were found in the frame: each is measured (specimens A–${specimenId(locations.length - 1)}), the halves are not compared`));
+  return { locations, several: true, warnings };
 }
 
 /**

@@ -8,3 +8,4 @@ export { CAUTION } from '../caution.js';
 export type { Analysis } from './analyse.js';
 export * from './result.js';
 export { encodeOverlayPng } from './overlayPng.js';
+export { HALVES_TOLERANCE_PCT, compareHalves } from './specimens.js';

@@ -7,7 +7,8 @@ import type { RgbaImage } from '../draw/index.js';
 import type { GrayRaster } from '../image/raster.js';
 import type { BandProfile } from '../measure/index.js';
 import { renderOverlay } from '../report/overlay.js';
-import { formatValue, summarise, type ResultSummary } from '../report/summary.js';
+import { formatValue, specimenLines, summarise, type ResultSummary } from '../report/summary.js';
+import { otherSpecimens } from '../report/overlay.js';
 import type { MeasureResult } from './result.js';
 
 /**
@@ -28,12 +29,13 @@ export function overlayFor(raster: GrayRaster, result: MeasureResult, band: Band
       ? band.rays.map((r) => ({ angleDeg: r.thetaDeg, outerRadiusPx: r.outerRadiusPx, boundaryRadiusPx: r.boundaryRadiusPx, valid: r.valid, outlier: r.outlier }))
       : [],
     scaleBar: bar && result.scale.source === 'scale-bar' ? bar : null,
-    label: overlayLabel(summarise(result)),
+    label: overlayLabel(summarise(result), result),
+    ...otherSpecimens(result),
   });
 }
 
 /** The label lines (the overlay font has no en dash: intervals use a hyphen). */
-export function overlayLabel(s: ResultSummary): string[] {
+export function overlayLabel(s: ResultSummary, result?: MeasureResult): string[] {
   const f1 = (v: number | null): string => formatValue(v, 1);
   const b = s.band;
   const label = [
@@ -43,6 +45,7 @@ export function overlayLabel(s: ResultSummary): string[] {
     b.detected ? `median ${f1(b.median.value)} µm, sd ${f1(b.sd.value)} µm, n = ${b.n} rays` : '',
     `pixel ${(s.scale.umPerPx.value ?? NaN).toPrecision(4)} µm (${s.scale.source})`,
   ];
+  label.push(...(result ? specimenLines(result) : []));
   if (s.comparison) label.push(`w/${s.comparison.reference} = ${formatValue(s.comparison.ratio.value, 2)}: ${s.comparison.verdict}`);
   return label.filter(Boolean);
 }

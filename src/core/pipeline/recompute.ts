@@ -30,7 +30,7 @@ import { mergeWarnings, warn, type Warning, type WarningCode } from '../warnings
 import { canonicalJson, validateParams } from './params.js';
 import { round, storedPoint, storedPolygon } from './precision.js';
 import { remeasure } from './remeasure.js';
-import type { MeasureResult } from './result.js';
+import type { MeasureResult, ResultSpecimen } from './result.js';
 import type { MeasureParams, ScaleParams } from './types.js';
 
 /** Rays the outline and the automatic boundary were traced with in a full run. */
@@ -130,14 +130,21 @@ export function rescaleResult(base: MeasureResult, s: ScaleParams): MeasureResul
   };
   const changed = scale.umPerPxX !== old.umPerPxX || scale.umPerPxY !== old.umPerPxY;
   if (changed) {
-    const sp = r.specimen;
-    sp.radiusUm = round(sp.radiusPx * scale.umPerPx, 3);
-    sp.circle.radiusUm = round(sp.circle.radiusPx * scale.umPerPx, 3);
-    sp.ellipse.semiMajorUm = round(sp.ellipse.semiMajorUm * k, 3);
-    sp.ellipse.semiMinorUm = round(sp.ellipse.semiMinorUm * k, 3);
-    sp.areaMm2 = round((sp.areaMm2 * scale.umPerPxX * scale.umPerPxY) / (old.umPerPxX * old.umPerPxY), 5);
-    sp.equivalentRadiusUm = round(sp.equivalentRadiusUm * k, 3);
-    for (const c of sp.edgeSearch?.candidates ?? []) c.diameterUm = round(c.diameterPx * scale.umPerPx, 1);
+    const rescale = (sp: ResultSpecimen): void => {
+      sp.radiusUm = round(sp.radiusPx * scale.umPerPx, 3);
+      sp.circle.radiusUm = round(sp.circle.radiusPx * scale.umPerPx, 3);
+      sp.ellipse.semiMajorUm = round(sp.ellipse.semiMajorUm * k, 3);
+      sp.ellipse.semiMinorUm = round(sp.ellipse.semiMinorUm * k, 3);
+      sp.areaMm2 = round((sp.areaMm2 * scale.umPerPxX * scale.umPerPxY) / (old.umPerPxX * old.umPerPxY), 5);
+      sp.equivalentRadiusUm = round(sp.equivalentRadiusUm * k, 3);
+      for (const c of sp.edgeSearch?.candidates ?? []) c.diameterUm = round(c.diameterPx * scale.umPerPx, 1);
+    };
+    rescale(r.specimen);
+    // specimen A's record shares the top-level block (a full run's result, or one read back from JSON)
+    r.specimens?.forEach((rec, i) => {
+      if (i === 0) rec.specimen = r.specimen;
+      else rescale(rec.specimen);
+    });
   }
   const w = r.params.windowUm;
   r.resolved.windowUm = w === null ? (changed ? round(base.resolved.windowUm * k, 3) : base.resolved.windowUm) : round(w, 3);
@@ -182,6 +189,7 @@ export function withOutline(base: MeasureResult, outline: readonly PointPx[]): M
   sp.areaMm2 = round((areaPx * r.scale.umPerPxX * r.scale.umPerPxY) / 1e6, 5);
   sp.equivalentRadiusUm = round(Math.sqrt(areaPx / Math.PI) * u, 3);
   r.warnings = mergeWarnings(r.warnings, [OUTLINE_CORRECTED]);
+  if (r.specimens?.length) r.specimens[0].specimen = sp;
   return r;
 }
 

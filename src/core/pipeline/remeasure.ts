@@ -5,7 +5,8 @@
 import { mergeWarnings, type Warning, type WarningCode } from '../warnings.js';
 import { validateParams } from './params.js';
 import { storedPolygon } from './precision.js';
-import { inResultOrder, type MeasureResult } from './result.js';
+import { inResultOrder, type BoundarySource, type MeasureResult, type ResultBand, type ResultSpecimen, type ResultSpecimenRecord } from './result.js';
+import { COMPARISON_CODES, specimenRecord, withSpecimens } from './specimens.js';
 import { reportWidths, withMeasurement } from './stages/assemble.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
@@ -20,6 +21,7 @@ const REMADE: ReadonlySet<WarningCode> = new Set<WarningCode>([
   'SIGMA0_FROM_RATE_LAW',
   'RATE_EXTRAPOLATED',
   ...RULE_CODES,
+  ...COMPARISON_CODES,
 ]);
 
 /**
@@ -40,25 +42,48 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
     result.band.boundary = { source: 'manual', polygon: storedPolygon(changes.boundaryPolygon) };
   }
   let warnings: Warning[] = prev.warnings.filter((w) => !REMADE.has(w.code));
+  let measuredA: Warning[] = [];
   if (polygon && result.band.boundary) {
-    const measured = measureWidths({
-      geometry: { outline: result.specimen.outline, boundary: result.band.boundary.polygon, center: result.specimen.center, marks: result.specimen.scaleMarksPx ?? [] },
-      umPerPx: { x: result.scale.umPerPxX, y: result.scale.umPerPxY },
-      imageSize: { width: result.input.widthPx, height: result.input.heightPx },
-      minWidthPx: minWidthPxFor(result.resolved.boundarySource, result.resolved.windowPx),
-      params: p,
-    });
-    warnings = mergeWarnings(warnings, measured.warnings);
-    if (measured.profile) result.band = withMeasurement(result.band, reportWidths(measured.profile, { x: result.scale.umPerPxX, y: result.scale.umPerPxY }));
+    const again = measureAgain(result, result.specimen, result.band, result.resolved.boundarySource, p);
+    measuredA = again.warnings;
+    warnings = mergeWarnings(warnings, again.warnings);
+    result.band = again.band;
   }
   const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null });
   const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: result.band, scale: result.scale });
-  return inResultOrder({
+  let out: MeasureResult = {
     ...result,
     criticalDistance: tcd.criticalDistance,
     comparison: tcd.comparison,
     warnings: judged.warnings,
     quality: judged.quality,
     diagnostics: { timingsMs: {} },
+  };
+  if (prev.specimens && prev.specimens.length) {
+    // the edit (boundary, outline) is specimen A's, the top-level blocks; the parameters (rays,
+    // sectors, outlier rule) apply to every specimen, as in a full run
+    const records = prev.specimens.map((rec, i): ResultSpecimenRecord => {
+      const own = rec.warnings.filter((w) => !REMADE.has(w.code));
+      if (i === 0) return specimenRecord(rec.id, result.specimen, result.band, mergeWarnings(own, measuredA), result.scale);
+      if (!rec.band.boundary) return specimenRecord(rec.id, rec.specimen, rec.band, own, result.scale);
+      const again = measureAgain(result, rec.specimen, rec.band, rec.band.boundary.source, p);
+      return specimenRecord(rec.id, rec.specimen, again.band, mergeWarnings(own, again.warnings), result.scale);
+    });
+    out = withSpecimens(out, records);
+  }
+  return inResultOrder(out);
+}
+
+/** A band measured again on its stored outline and boundary with the parameters `p`. */
+function measureAgain(r: MeasureResult, specimen: ResultSpecimen, band: ResultBand, source: BoundarySource, p: MeasureParams): { band: ResultBand; warnings: Warning[] } {
+  if (!band.boundary) return { band, warnings: [] };
+  const umPerPx = { x: r.scale.umPerPxX, y: r.scale.umPerPxY };
+  const measured = measureWidths({
+    geometry: { outline: specimen.outline, boundary: band.boundary.polygon, center: specimen.center, marks: specimen.scaleMarksPx ?? [] },
+    umPerPx,
+    imageSize: { width: r.input.widthPx, height: r.input.heightPx },
+    minWidthPx: minWidthPxFor(source, r.resolved.windowPx),
+    params: p,
   });
+  return { band: measured.profile ? withMeasurement(band, reportWidths(measured.profile, umPerPx)) : band, warnings: measured.warnings };
 }

@@ -252,6 +252,33 @@ export interface Quality {
   reasons: Warning[];
 }
 
+/**
+ * One of several specimens in the frame (both mating halves, or a row): its own outline, band,
+ * warnings and verdict. `specimens[0]` (id "A") is the specimen of the top-level `specimen` and
+ * `band` blocks, with the same numbers.
+ */
+export interface ResultSpecimenRecord {
+  /** "A", "B", … in reading order: left to right (top to bottom when stacked). */
+  id: string;
+  specimen: ResultSpecimen;
+  band: ResultBand;
+  /** The warnings of this specimen's outline, band and result-level rules (scale warnings stay top-level). */
+  warnings: Warning[];
+  quality: Quality;
+}
+
+/** The two halves compared: the consistency figure of a fracture measured on both mating surfaces. */
+export interface ResultHalves {
+  /** Ids of the two specimens compared (A and B). */
+  ids: [string, string];
+  /** Mean band width of each, µm (null where no band was measured). */
+  meanWidthsUm: [number | null, number | null];
+  /** Mean of A − mean of B, µm (null unless both have a width). */
+  differenceUm: number | null;
+  /** (A − B) / ((A + B) / 2) × 100, % (null unless both have a width). */
+  relativeDifferencePct: number | null;
+}
+
 /** Wall-clock figures; not part of the reproducible content. */
 export interface Diagnostics {
   /** Milliseconds per stage. */
@@ -271,6 +298,13 @@ export interface MeasureResult {
   scale: ResultScale;
   specimen: ResultSpecimen;
   band: ResultBand;
+  /**
+   * Present when the image holds two or more specimens (each measured): one record each, A first.
+   * The top-level `specimen` and `band` are then specimen A's.
+   */
+  specimens?: ResultSpecimenRecord[];
+  /** Present when exactly two specimens were measured: the halves compared. */
+  halves?: ResultHalves;
   /** Present when the image was segmented with a pixel classifier (`--model`). */
   model?: ResultModel;
   /** Present when a material or typed toughness and strength were given. */
@@ -295,6 +329,8 @@ export function inResultOrder(r: MeasureResult): MeasureResult {
     scale: r.scale,
     specimen: r.specimen,
     band: r.band,
+    ...(r.specimens ? { specimens: r.specimens } : {}),
+    ...(r.halves ? { halves: r.halves } : {}),
     ...(r.model ? { model: r.model } : {}),
     ...(r.criticalDistance ? { criticalDistance: r.criticalDistance } : {}),
     ...(r.comparison ? { comparison: r.comparison } : {}),

@@ -5,7 +5,7 @@
 import { CAUTION } from '../caution.js';
 import type { BatchEntry } from './csv.js';
 import { NO_NOTCH, type SeriesAnalysis } from './series.js';
-import { summarise, type Figure } from './summary.js';
+import { specimenLines, summarise, type Figure } from './summary.js';
 import { escapeText, escapeXml as esc, fmt, histogramSvg, polarProfileSvg, seriesPlotSvg } from './svg.js';
 
 /**
@@ -95,7 +95,9 @@ export function card(e: BatchEntry, thumb: string | undefined): string {
   const s = r ? summarise(r) : null;
   const warn = (r?.warnings ?? []).map((w) => `<li>${esc(w.message)} <code>${esc(w.code)}</code></li>`).join('');
   const quality = s ? `<p class="quality-${s.quality.verdict}">quality: ${esc(s.quality.headline)}</p>` : '';
-  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${quality}${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
+  const several = r ? specimenLines(r) : [];
+  const specimens = several.length ? `<p class="specimens">${several.map(esc).join('<br>')}</p>` : '';
+  return `<div class="card" id="img-${esc(e.safeName)}"><h3>${esc(e.file)}</h3>${quality}${specimens}${img}${body}${warn ? `<ul class="muted">${warn}</ul>` : ''}<div class="muted">sha256 <code>${esc(e.sha256)}</code></div></div>`;
 }
 
 /**

@@ -9,6 +9,7 @@
  */
 import type { GrayRaster } from '../image/raster.js';
 import type { RgbaImage, Ink, PointPx } from '../draw/index.js';
+import type { MeasureResult, RayResult } from '../pipeline/result.js';
 import { createRgbaImage, drawLine, drawPolyline, drawText, fillRect, measureText, fillDisc } from '../draw/index.js';
 
 export interface OverlayRay {
@@ -18,6 +19,15 @@ export interface OverlayRay {
   valid: boolean;
   outlier?: boolean;
   reason?: string;
+}
+
+/** A further specimen in the frame (both halves): drawn like the main one, with its id. */
+export interface OverlaySpecimen {
+  name: string;
+  center: PointPx;
+  outer: readonly PointPx[];
+  boundary: readonly PointPx[] | null;
+  rays: readonly OverlayRay[];
 }
 
 export interface OverlayInput {
@@ -34,6 +44,35 @@ export interface OverlayInput {
   maxSidePx?: number;
   /** Draw every k-th ray (default: about every 10°). */
   rayStep?: number;
+  /** Id written beside the main specimen when there are several ("A"). */
+  name?: string;
+  /** The other specimens in the frame (B, …). */
+  others?: readonly OverlaySpecimen[];
+}
+
+/** Rays of a stored profile in px: radii in µm divided by the pitch along each ray's direction. */
+export function profileRaysPx(profile: readonly RayResult[], umPerPxX: number, umPerPxY: number): OverlayRay[] {
+  return profile.map((p) => {
+    const t = (p.angleDeg * Math.PI) / 180;
+    const k = Math.hypot(Math.cos(t) * umPerPxX, Math.sin(t) * umPerPxY);
+    const px = (v: number | null | undefined): number | null => (typeof v === 'number' && Number.isFinite(v) ? v / k : null);
+    return { angleDeg: p.angleDeg, outerRadiusPx: px(p.outerRadiusUm), boundaryRadiusPx: px(p.boundaryRadiusUm), valid: p.valid, outlier: p.reason === 'outlier' };
+  });
+}
+
+/** The overlay fields for a result with several specimens: A's id and the others (none for one specimen). */
+export function otherSpecimens(r: MeasureResult): Pick<OverlayInput, 'name' | 'others'> {
+  if (!r.specimens || r.specimens.length < 2) return {};
+  return {
+    name: r.specimens[0].id,
+    others: r.specimens.slice(1).map((x) => ({
+      name: x.id,
+      center: x.specimen.center,
+      outer: x.specimen.outline,
+      boundary: x.band.boundary?.polygon ?? null,
+      rays: profileRaysPx(x.band.profile, r.scale.umPerPxX, r.scale.umPerPxY),
+    })),
+  };
 }
 
 const OUTER: Ink = { rgb: [80, 190, 255] };
@@ -42,6 +81,49 @@ const RAY_OK: Ink = { rgb: [255, 255, 255], alpha: 0.75 };
 const RAY_BAD: Ink = { rgb: [235, 60, 60], alpha: 0.85 };
 const RAY_OUTLIER: Ink = { rgb: [230, 80, 230], alpha: 0.9 };
 const BAR_BOX: Ink = { rgb: [60, 220, 110] };
+
+/** Rays, outer edge, boundary, centre and (with several specimens) the id of one specimen. */
+function drawSpecimen(
+  img: RgbaImage,
+  o: { name: string; center: PointPx | null; outer: readonly PointPx[] | null; boundary: readonly PointPx[] | null; rays: readonly OverlayRay[] },
+  m: (p: PointPx) => PointPx,
+  lw: number,
+  ts: number,
+  rayStep: number | undefined,
+): void {
+  if (o.center && o.rays.length) {
+    const step = rayStep ?? Math.max(1, Math.round(o.rays.length / 36));
+    for (let i = 0; i < o.rays.length; i += step) {
+      const r = o.rays[i];
+      const t = (r.angleDeg * Math.PI) / 180;
+      const dx = Math.cos(t);
+      const dy = -Math.sin(t);
+      const rOut = r.outerRadiusPx;
+      if (rOut === null || !Number.isFinite(rOut)) continue;
+      const rIn = r.boundaryRadiusPx !== null && Number.isFinite(r.boundaryRadiusPx) ? r.boundaryRadiusPx : rOut * 0.8;
+      const a = m({ x: o.center.x + dx * rIn, y: o.center.y + dy * rIn });
+      const b = m({ x: o.center.x + dx * rOut, y: o.center.y + dy * rOut });
+      const ink = !r.valid ? RAY_BAD : r.outlier ? RAY_OUTLIER : RAY_OK;
+      drawLine(img, a.x, a.y, b.x, b.y, lw * 0.8, ink);
+    }
+  }
+  if (o.outer && o.outer.length > 2) drawPolyline(img, o.outer.map(m), lw, OUTER, true);
+  if (o.boundary && o.boundary.length > 2) drawPolyline(img, o.boundary.map(m), lw, BOUNDARY, true);
+  if (o.center) {
+    const c = m(o.center);
+    fillDisc(img, c.x, c.y, lw * 2, BOUNDARY);
+  }
+  if (o.name && o.center && o.outer && o.outer.length) {
+    // the id above the outline's top, on a dark plate
+    const top = m({ x: o.center.x, y: Math.min(...o.outer.map((p) => p.y)) });
+    const size = 2 * ts;
+    const tw = measureText(o.name, size).width;
+    const x = top.x - tw / 2;
+    const y = Math.max(0, top.y - 12 * size);
+    fillRect(img, x - 2 * size, y - size, x + tw + 2 * size, y + 9 * size, { rgb: [0, 0, 0], alpha: 0.65 });
+    drawText(img, o.name, x, y, size, { rgb: [255, 255, 255] });
+  }
+}
 
 /** Round number (1, 2 or 5 × 10^k) not above `v`. */
 export function niceLength(v: number): number {
@@ -111,28 +193,9 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
   const m = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * k - 0.5, y: (p.y + 0.5) * k - 0.5 });
   const lw = Math.max(1.5, Math.min(W, H) / 500);
 
-  if (o.center && o.rays.length) {
-    const step = o.rayStep ?? Math.max(1, Math.round(o.rays.length / 36));
-    for (let i = 0; i < o.rays.length; i += step) {
-      const r = o.rays[i];
-      const t = (r.angleDeg * Math.PI) / 180;
-      const dx = Math.cos(t);
-      const dy = -Math.sin(t);
-      const rOut = r.outerRadiusPx;
-      if (rOut === null || !Number.isFinite(rOut)) continue;
-      const rIn = r.boundaryRadiusPx !== null && Number.isFinite(r.boundaryRadiusPx) ? r.boundaryRadiusPx : rOut * 0.8;
-      const a = m({ x: o.center.x + dx * rIn, y: o.center.y + dy * rIn });
-      const b = m({ x: o.center.x + dx * rOut, y: o.center.y + dy * rOut });
-      const ink = !r.valid ? RAY_BAD : r.outlier ? RAY_OUTLIER : RAY_OK;
-      drawLine(img, a.x, a.y, b.x, b.y, lw * 0.8, ink);
-    }
-  }
-  if (o.outer && o.outer.length > 2) drawPolyline(img, o.outer.map(m), lw, OUTER, true);
-  if (o.boundary && o.boundary.length > 2) drawPolyline(img, o.boundary.map(m), lw, BOUNDARY, true);
-  if (o.center) {
-    const c = m(o.center);
-    fillDisc(img, c.x, c.y, lw * 2, BOUNDARY);
-  }
+  const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
+  drawSpecimen(img, { name: o.name ?? '', center: o.center, outer: o.outer, boundary: o.boundary, rays: o.rays }, m, lw, ts, o.rayStep);
+  for (const sp of o.others ?? []) drawSpecimen(img, sp, m, lw, ts, o.rayStep);
   if (o.scaleBar) {
     const b = o.scaleBar;
     const t = (b.thicknessPx ?? 4) / 2 + 4 / k;
@@ -142,7 +205,6 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
   }
 
   // Label box, top-left.
-  const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
   const lineH = 9 * ts;
   const textW = Math.max(0, ...o.label.map((s) => measureText(s, ts).width));
   if (o.label.length) {

@@ -9,18 +9,11 @@ import type { RgbaImage } from '../draw/index.js';
 import type { MeasureResult } from '../pipeline/result.js';
 import { overlayLabel } from '../pipeline/overlay.js';
 import { summarise } from './summary.js';
-import { renderOverlay, type OverlayRay } from './overlay.js';
+import { otherSpecimens, profileRaysPx, renderOverlay, type OverlayRay } from './overlay.js';
 
 /** Rays of the profile in px: radii in µm divided by the pitch along each ray's direction. */
 function raysPx(r: MeasureResult): OverlayRay[] {
-  const ux = r.scale.umPerPxX;
-  const uy = r.scale.umPerPxY;
-  return r.band.profile.map((p) => {
-    const t = (p.angleDeg * Math.PI) / 180;
-    const k = Math.hypot(Math.cos(t) * ux, Math.sin(t) * uy);
-    const px = (v: number | null | undefined): number | null => (typeof v === 'number' && Number.isFinite(v) ? v / k : null);
-    return { angleDeg: p.angleDeg, outerRadiusPx: px(p.outerRadiusUm), boundaryRadiusPx: px(p.boundaryRadiusUm), valid: p.valid, outlier: p.reason === 'outlier' };
-  });
+  return profileRaysPx(r.band.profile, r.scale.umPerPxX, r.scale.umPerPxY);
 }
 
 /**
@@ -40,7 +33,8 @@ export function resultOverlay(raster: GrayRaster, r: MeasureResult, maxSidePx = 
     boundary: r.band.boundary?.polygon ?? null,
     rays: raysPx(r),
     scaleBar: bar && r.scale.source === 'scale-bar' ? bar : null,
-    label: overlayLabel(summarise(r)),
+    label: overlayLabel(summarise(r), r),
     maxSidePx,
+    ...otherSpecimens(r),
   });
 }

@@ -179,6 +179,37 @@ export function summarise(r: MeasureResult): ResultSummary {
   };
 }
 
+/** One specimen of several in the frame (both halves): id, mean width, verdict. */
+export interface SpecimenLine {
+  id: string;
+  centerPx: PointPx;
+  mean: Figure;
+  verdict: QualityVerdict;
+}
+
+/**
+ * The lines a view shows when the image held several specimens (none for one): each specimen's
+ * mean width and verdict, then the difference of the halves; the other figures of the view are
+ * specimen A's.
+ */
+export function specimenLines(r: MeasureResult): string[] {
+  if (!r.specimens || r.specimens.length < 2) return [];
+  const list: SpecimenLine[] = r.specimens.map((x) => ({
+    id: x.id,
+    centerPx: x.specimen.center,
+    mean: fig('mean width', x.band.detected ? x.band.widthUm?.mean : null, 'µm'),
+    verdict: x.quality.verdict,
+  }));
+  const lines = [`${list.length} specimens (figures above: A): ${list.map((x) => `${x.id} ${x.mean.value === null ? 'no band' : `${x.mean.value.toFixed(1)} µm`} (${x.verdict})`).join(', ')}`];
+  const h = r.halves;
+  if (h) {
+    const d = h.differenceUm;
+    const pct = h.relativeDifferencePct;
+    lines.push(`halves ${h.ids[0]} - ${h.ids[1]}: ${d === null ? 'not both measured' : `${d >= 0 ? '+' : ''}${d.toFixed(1)} µm (${pct === null ? '—' : `${pct >= 0 ? '+' : ''}${pct.toFixed(1)} %`})`}`);
+  }
+  return lines;
+}
+
 /**
  * A figure as text: the value with `decimals` decimals and its unit ("577.2 µm"), or "—".
  * @param f the figure

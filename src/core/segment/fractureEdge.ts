@@ -19,7 +19,7 @@
  * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
  * Every ring is reported with its role and a note.
  */
-import type { PointPx } from '../image/geometry.js';
+import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { GrayRaster, Mask } from '../image/raster.js';
 import { edgeCues } from './polar.js';
 import { findRings, voteCentre, type Ring } from './rings.js';
@@ -69,6 +69,8 @@ export interface FractureEdgeOptions {
   silhouette: Specimen;
   /** Net-section radius from the user, working px, or null. */
   sectionRadiusPx: number | null;
+  /** The specimen's box when the frame holds several (working px): the search stays around it. */
+  target?: BoxPx | null;
 }
 
 /**
@@ -84,18 +86,20 @@ export function findFractureEdge(work: GrayRaster, o: FractureEdgeOptions): Frac
   // a silhouette whose circle is not a specimen-sized circle in the frame (a rule or a holder taken
   // for the part) says nothing of the centre or size
   const silUsable = sil.circle.cx >= 0 && sil.circle.cy >= 0 && sil.circle.cx < W && sil.circle.cy < H && sil.circle.radiusPx < 0.75 * Math.max(W, H);
-  const near = silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
+  const t = o.target ?? null;
+  const near = t ? { x: t.x + t.w / 2, y: t.y + t.h / 2 } : silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
+  const tSize = t ? Math.max(t.w, t.h) : Math.max(W, H);
   // a clean elliptic silhouette (a tidy picture, or the bar edge around a flank: concentric with the
   // notch root) gives the centre; otherwise the vote of the concentric edges (normals of a tilted,
   // elliptic outline do not meet at its centre, so the vote is the second choice)
   const silGood = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
-  const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, 0.45 * Math.max(W, H));
+  const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, t ? 0.3 * tSize : 0.45 * Math.max(W, H));
   const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
   // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
   const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
   const shape = { center, ratio: offCentre || !(ratio > 0.3) ? 1 : ratio, angleDeg: offCentre ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
-  const rMax = Math.max(1.3 * R, 0.5 * Math.max(W, H));
+  const rMax = t ? 0.75 * tSize : Math.max(1.3 * R, 0.5 * Math.max(W, H));
   const search = findRings(cues, shape, { rMin: 0.15 * Math.min(R, minSide / 2), rMax, silhouette: offCentre ? null : sil.mask });
   return choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
 }

@@ -1,6 +1,8 @@
 /** Segmentation: specimen outline, rim/core classification, boundary refinement. */
 export type { SpecimenOptions, Specimen } from './specimen.js';
 export { findSpecimen } from './specimen.js';
+export { coarseForeground, type CoarseForeground, type ForegroundOptions } from './foreground.js';
+export { listSpecimens, separatedForeground, type ListSpecimenOptions } from './severalSpecimens.js';
 export type { CircleFit, EllipseFit } from './fit.js';
 export { fitCircle, fitEllipseToPoints } from './fit.js';
 export type { RimCoreOptions, RimCoreResult, Separability } from './rimCore.js';

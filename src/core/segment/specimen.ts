@@ -2,11 +2,13 @@
  * Specimen outline: separate the fracture surface from a dark or bright background, fill holes,
  * keep the specimen component, trace its outer contour and fit a circle and an ellipse.
  */
-import { getCv, type Mat } from '../cv.js';
+import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantile, quantiles, rasterToMat, rectMorph } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, outerContour, rasterToMat, rectMorph } from './cvutil.js';
+import { coarseForeground } from './foreground.js';
+import { separatedForeground } from './severalSpecimens.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
 import { inBoxes } from '../measure/geometry.js';
 
@@ -24,6 +26,12 @@ export interface SpecimenOptions {
    * specimen's (default none).
    */
   excludeBoxes?: readonly BoxPx[];
+  /**
+   * The specimen to outline when the image holds several (a box from {@link listSpecimens}, px of
+   * `r`): the component at the box centre is kept instead of the one at the image centre, however
+   * small it is beside the largest.
+   */
+  target?: BoxPx;
 }
 
 /** Result of {@link findSpecimen}; all coordinates px at full resolution. */
@@ -65,74 +73,28 @@ export interface Specimen {
  * @throws FractozoneError NO_SPECIMEN when no surface is found
  */
 export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specimen {
-  const cv = getCv();
   const W = r.width;
   const H = r.height;
-  if (W < 16 || H < 16) throw new FractozoneError('NO_SPECIMEN', `The image (${W}×${H} px) is too small to hold a specimen.`);
-  const work = opts.workSizePx ?? 1024;
-  const f = Math.max(1, Math.max(W, H) / work);
-  const w = Math.max(8, Math.round(W / f));
-  const h = Math.max(8, Math.round(H / f));
-  const sx = W / w;
-  const sy = H / h;
-
-  const full = rasterToMat(r);
-  const small = new cv.Mat();
-  let coarse: Mask;
-  let level = 0.5;
-  let bright = false;
-  try {
-    if (w !== W || h !== H) cv.resize(full, small, new cv.Size(w, h), 0, 0, cv.INTER_AREA);
-    else full.copyTo(small);
-    cv.GaussianBlur(small, small, new cv.Size(0, 0), 1.5, 1.5, cv.BORDER_REFLECT_101);
-    const sd = small.data32F as Float32Array;
-    const [lo, hi] = quantiles(sd, [0.001, 0.999]);
-    if (!(hi - lo > 1e-4)) throw new FractozoneError('NO_SPECIMEN', 'The image has no contrast: no specimen can be separated from the background.');
-    level = otsuThreshold(sd, lo, hi);
-    // border polarity
-    let nb = 0;
-    let nBright = 0;
-    const border: number[] = [];
-    for (let x = 0; x < w; x++) for (const y of [0, h - 1]) { border.push(sd[y * w + x]); }
-    for (let y = 1; y < h - 1; y++) for (const x of [0, w - 1]) { border.push(sd[y * w + x]); }
-    for (const v of border) {
-      nb++;
-      if (v > level) nBright++;
-    }
-    bright = nBright > nb / 2;
-    // move the level halfway towards the background median: a surface part that is shaded
-    // darker (or brighter) than most of the surface but still differs from the background is kept
-    const bgMed = quantile(border, 0.5);
-    level = 0.5 * (level + bgMed);
-    const m = createMask(w, h);
-    for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
-    if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
-    const mm = maskToMat(m);
-    try {
-      const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
-      morphDisc(mm, 'close', rad * 2);
-      const tmp = matToMask(mm);
-      fillHoles(tmp);
-      const mm2 = maskToMat(tmp);
-      try {
-        morphDisc(mm2, 'open', rad * 2);
-        coarse = matToMask(mm2);
-      } finally {
-        mm2.delete();
-      }
-    } finally {
-      mm.delete();
-    }
-    const kept = keepComponent(coarse, { x: (w - 1) / 2, y: (h - 1) / 2 }, opts.minComponentFraction ?? 0.25);
-    if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
-    coarse = kept;
-    fillHoles(coarse);
-  } finally {
-    full.delete();
-    small.delete();
+  // with a target, touching specimens are cut apart first (severalSpecimens.ts)
+  const fg = opts.target ? separatedForeground(r, opts) : coarseForeground(r, opts);
+  const { w, h, sx, sy, level, bright } = fg;
+  // the component at the image centre, or at the centre of the target box (in coarse px)
+  const t = opts.target;
+  const aim = t ? { x: (t.x + t.w / 2 + 0.5) / sx - 0.5, y: (t.y + t.h / 2 + 0.5) / sy - 0.5 } : { x: (w - 1) / 2, y: (h - 1) / 2 };
+  // a target was vetted as a specimen by listSpecimens: kept whatever the size of other objects
+  // (a rule along the frame can be several times larger)
+  const kept = keepComponent(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
+  if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
+  const coarse = kept;
+  fillHoles(coarse);
+  // with a target, the other objects stay out of the re-decided edge band (a touching half)
+  let others: Mask | null = null;
+  if (t) {
+    others = createMask(w, h);
+    for (let i = 0; i < others.data.length; i++) others.data[i] = fg.mask.data[i] && !coarse.data[i] ? 1 : 0;
   }
   // band: the texture window (7 px) + smoothing can push the coarse edge ~6 work px outwards
-  const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2);
+  const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2, others);
   let area = 0;
   for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
@@ -154,38 +116,18 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   };
 }
 
-function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number): void {
-  const cv = getCv();
-  const mean = new cv.Mat();
-  const sq = new cv.Mat();
-  const mean2 = new cv.Mat();
-  try {
-    const k = new cv.Size(7, 7);
-    cv.boxFilter(small, mean, -1, k, new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
-    cv.multiply(small, small, sq);
-    cv.boxFilter(sq, mean2, -1, k, new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
-    const a = mean.data32F as Float32Array;
-    const b = mean2.data32F as Float32Array;
-    const ls = new Float32Array(a.length);
-    for (let i = 0; i < a.length; i++) ls[i] = 0.5 * Math.log(Math.max(b[i] - a[i] * a[i], 1e-12));
-    const border: number[] = [];
-    for (let x = 0; x < w; x++) border.push(ls[x], ls[(h - 1) * w + x]);
-    for (let y = 0; y < h; y++) border.push(ls[y * w], ls[y * w + w - 1]);
-    const bMed = quantile(border, 0.5);
-    const [lsLo, lsHi] = quantiles(ls, [0.001, 0.999]);
-    const t = Math.max(otsuThreshold(ls, lsLo, lsHi), bMed + Math.log(3));
-    // the intensity step of the edge itself has a high local std: those pixels are re-decided
-    // at full resolution later, so adding them here is harmless
-    for (let i = 0; i < ls.length; i++) if (ls[i] > t) m.data[i] = 1;
-  } finally {
-    mean.delete();
-    sq.delete();
-    mean2.delete();
+/** A coarse mask at W × H (nearest coarse pixel). */
+function upsampleNearest(m: Mask, W: number, H: number): Uint8Array {
+  const out = new Uint8Array(W * H);
+  for (let y = 0; y < H; y++) {
+    const cy = Math.min(m.height - 1, Math.floor(((y + 0.5) * m.height) / H));
+    for (let x = 0; x < W; x++) out[y * W + x] = m.data[cy * m.width + Math.min(m.width - 1, Math.floor(((x + 0.5) * m.width) / W))];
   }
+  return out;
 }
 
 /** Upsample the coarse mask and re-decide pixels near its edge by the intensity threshold. */
-function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, bright: boolean, band: number): Mask {
+function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, bright: boolean, band: number, others: Mask | null = null): Mask {
   const cv = getCv();
   const W = r.width;
   const H = r.height;
@@ -201,10 +143,11 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
     const b = rectMorph(upData, W, H, band, 'dilate');
     cv.GaussianBlur(img, img, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT_101);
     const d = img.data32F as Float32Array;
+    const ou = others ? upsampleNearest(others, W, H) : null;
     const out = createMask(W, H);
     for (let i = 0; i < out.data.length; i++) {
       if (a[i]) out.data[i] = 1;
-      else if (b[i]) out.data[i] = (d[i] > level) !== bright ? 1 : 0;
+      else if (b[i] && !(ou && ou[i])) out.data[i] = (d[i] > level) !== bright ? 1 : 0;
     }
     fillHoles(out);
     let sxm = 0;

@@ -1,6 +1,6 @@
 /** Band width: whether the result is current, the statistics (µm), warnings, histogram and polar profile. */
 import { useMemo } from 'react';
-import { histogramSvg, polarProfileSvg, summarise, type Figure, type IntervalFigure, type MeasureResult, type ResultSummary } from '../../../core/index.js';
+import { histogramSvg, polarProfileSvg, specimenLines, summarise, type Figure, type IntervalFigure, type MeasureResult, type ResultSummary } from '../../../core/index.js';
 import { resultStateOf, type ResultState } from '../../state/results.js';
 import { withoutCliHints } from '../../state/words.js';
 import { num, type PanelProps } from './types.js';
@@ -86,6 +86,22 @@ function VerdictLine({ r, stale }: { r: MeasureResult; stale: boolean }) {
   );
 }
 
+/** Several specimens in the frame (both halves): each mean and verdict, the difference of the halves; the table is A's. */
+function SpecimensLines({ r, stale }: { r: MeasureResult; stale: boolean }) {
+  const lines = specimenLines(r);
+  if (!lines.length) return null;
+  return (
+    <p className={`specimens-line${stale ? ' stale' : ''}`} data-testid="specimens-line">
+      {lines.map((l, i) => (
+        <span key={i}>
+          {i > 0 && <br />}
+          {l}
+        </span>
+      ))}
+    </p>
+  );
+}
+
 /** Histogram and polar profile of the widths (folded away when space is short). */
 export function Plots({ r }: { r: MeasureResult }) {
   const svg = useMemo(() => {
@@ -113,6 +129,7 @@ export function ResultsPanel(p: PanelProps) {
       {r && s && <QualityBox s={s} stale={stale} />}
       {r && s && <StatsTable r={r} s={s} stale={stale} />}
       {r && <VerdictLine r={r} stale={stale} />}
+      {r && <SpecimensLines r={r} stale={stale} />}
       {s && s.notes.length > 0 && (
         <ul className={`warnings${stale ? ' stale' : ''}`} data-testid="warnings">
           {s.notes.map((w, i) => (

@@ -47,6 +47,12 @@ export function ShapeLayer({ s, k, drag, brush }: { s: Shapes; k: number; drag: 
           ))}
         </Group>
       )}
+      {s.others.map((o) => (
+        <Group key={o.id}>
+          <Line points={o.outline} closed stroke={OUTER} strokeWidth={1.5 * k} dash={[6 * k, 4 * k]} />
+          {o.boundary && <Line points={o.boundary} closed stroke={BOUNDARY} strokeWidth={1.5 * k} dash={[6 * k, 4 * k]} />}
+        </Group>
+      ))}
       {outline && <Line points={outline} closed stroke={OUTER} strokeWidth={1.5 * k} />}
       {s.boundary && <Line points={s.boundary} closed stroke={BOUNDARY} strokeWidth={1.5 * k} />}
       {c && <Line points={[c.x - 6 * k, c.y, c.x + 6 * k, c.y, c.x, c.y, c.x, c.y - 6 * k, c.x, c.y + 6 * k]} stroke={OUTER} strokeWidth={k} />}

@@ -154,7 +154,8 @@ export function assembleScale(decoded: DecodedImage, calibration: Calibration, p
   };
 }
 
-function assembleSpecimen(frame: WorkingFrame, location: SpecimenLocation, calibration: Calibration, geometry: StoredGeometry): ResultSpecimen {
+/** The specimen block of one outline (full-resolution px and µm, rounded). */
+export function assembleSpecimen(frame: WorkingFrame, location: SpecimenLocation, calibration: Calibration, geometry: StoredGeometry): ResultSpecimen {
   const { specimen: sp, center, radiusPx, radiusUm } = location;
   const { scale } = calibration;
   const ellipseCentre = frame.toFull({ x: sp.ellipse.cx, y: sp.ellipse.cy });

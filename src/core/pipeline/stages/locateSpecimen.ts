@@ -11,7 +11,7 @@
  */
 import { warn, type Warning } from '../../warnings.js';
 import type { Scale } from '../../calibrate/index.js';
-import type { PointPx } from '../../image/geometry.js';
+import type { BoxPx, PointPx } from '../../image/geometry.js';
 import { findSpecimen, refineOuterEdge, type Specimen } from '../../segment/index.js';
 import { findFractureEdge, polygonMask, type FractureEdge } from '../../segment/fractureEdge.js';
 import type { Ring } from '../../segment/rings.js';
@@ -29,6 +29,8 @@ export interface LocateInput {
   nRays: number;
   /** Net-section diameter from the user, µm (a prior for the edge choice and a scale cross-check). */
   sectionDiameterUm?: number;
+  /** The specimen to outline when the image holds several (working px; segment/specimen.ts `listSpecimens`). */
+  target?: BoxPx;
 }
 
 /** Output of {@link locateSpecimen}. */
@@ -118,10 +120,10 @@ function edgeSearchResult(fe: FractureEdge, frame: WorkingFrame, umPerPx: number
  */
 export function locateSpecimen(input: LocateInput): SpecimenLocation {
   const { frame, scale } = input;
-  const silhouette = findSpecimen(frame.work, { excludeBoxes: frame.workMarks });
+  const silhouette = findSpecimen(frame.work, { excludeBoxes: frame.workMarks, ...(input.target ? { target: input.target } : {}) });
   const k = frame.lengthToFull(1);
   const sectionRadiusPx = input.sectionDiameterUm ? input.sectionDiameterUm / 2 / scale.umPerPx / k : null;
-  const fe = findFractureEdge(frame.work, { silhouette, sectionRadiusPx });
+  const fe = findFractureEdge(frame.work, { silhouette, sectionRadiusPx, target: input.target ?? null });
   const warnings: Warning[] = [];
   let specimen = silhouette;
   let fromSilhouette = true;
