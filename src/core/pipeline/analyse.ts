@@ -21,12 +21,12 @@ import { round } from './precision.js';
 import type { MeasureResult } from './result.js';
 import { assembleBand, assembleResult, assembleScale, reportWidths, storedGeometry } from './stages/assemble.js';
 import { calibrate } from './stages/calibrate.js';
-import { classifyTexture } from './stages/classify.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { locateSpecimen } from './stages/locateSpecimen.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
-import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
-import { computeTexture, textureWindow } from './stages/texture.js';
+import { findRimBoundary } from './stages/band.js';
+import { manualBoundary, type RimBoundary } from './stages/refineBoundary.js';
+import { textureWindow } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
 import { mergeWarnings } from '../warnings.js';
 import { judgeQuality } from './stages/quality.js';
@@ -91,7 +91,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const location = seg ? seg.location : locateSpecimen({ frame, scale: calibration.scale, nRays: p.nRays });
   T.lap('specimen', 'texture', 0.25);
   const windowUm = p.windowUm ?? (seg ? seg.windowUm : null);
-  const window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
+  let window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
   const warnings = [...calibration.warnings, ...location.warnings];
   let boundary: RimBoundary;
   if (p.boundaryPolygon) {
@@ -101,12 +101,12 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     warnings.push(...seg.classification.warnings, ...seg.warnings);
     boundary = seg.boundary;
   } else {
-    const texture = computeTexture({ frame, window, features: p.features });
-    T.lap('texture', 'rim/core boundary', 0.55);
-    const classification = classifyTexture({ location, texture });
-    warnings.push(...classification.warnings);
-    boundary = refineRimBoundary({ frame, location, classification, window, nRays: p.nRays });
-    T.lap('boundary', 'band width', 0.85);
+    // texture → classify → refine, with a finer second pass for narrow bands (stages/band.ts)
+    const found = findRimBoundary({ frame, scale: calibration.scale, location, window, features: p.features, nRays: p.nRays, allowSecondPass: windowUm === null });
+    warnings.push(...found.warnings);
+    boundary = found.boundary;
+    window = found.window;
+    T.lap('texture+boundary', 'band width', 0.85);
   }
   const geometry = storedGeometry(location, boundary, calibration.marks);
   const measured = measureWidths({
