@@ -7,6 +7,8 @@
  * indeed narrow for the first window; otherwise the first pass stands as it was.
  */
 import type { Scale } from '../../calibrate/index.js';
+import type { GrayRaster } from '../../image/raster.js';
+import { suppressGlints } from '../../segment/index.js';
 import { buildRayIndex, castRay } from '../../measure/geometry.js';
 import { medianOf } from '../../measure/statistics.js';
 import type { FeatureName } from '../../texture/index.js';
@@ -48,11 +50,11 @@ export const SECOND_PASS_WINDOW_FRACTION = 0.5;
 /** The second pass's band must be narrower than this many first-pass windows to be taken. */
 const SECOND_PASS_MAX_WINDOWS = 2.5;
 
-/** One pass: texture, classification and refined boundary at one window. */
-function pass(input: BandInput, window: TextureWindow): { boundary: RimBoundary; warnings: Warning[] } {
-  const texture = computeTexture({ frame: input.frame, window, features: input.features });
+/** One pass: texture, classification and refined boundary at one window, on `source` (the working copy, glints suppressed). */
+function pass(input: BandInput, window: TextureWindow, source: GrayRaster): { boundary: RimBoundary; warnings: Warning[] } {
+  const texture = computeTexture({ frame: input.frame, window, features: input.features, source });
   const classification = classifyTexture({ location: input.location, texture });
-  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays });
+  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays, source });
   return { boundary, warnings: classification.warnings };
 }
 
@@ -77,7 +79,17 @@ export function medianBandWidthPx(outer: readonly { x: number; y: number }[], bo
  * result then says so (`FINER_WINDOW_USED`) and reports the finer window.
  */
 export function findRimBoundary(input: BandInput): BandFinding {
-  const first = pass(input, input.window);
+  const glints = suppressGlints(input.frame.work, input.location.specimen.mask);
+  const source = glints.raster;
+  const glintWarnings = glints.fraction > 0
+    ? [warn('GLINTS_SUPPRESSED', `bright specks (glints) on ${(100 * glints.fraction).toFixed(1)} % of the specimen were replaced by their surroundings before the texture was measured`)]
+    : [];
+  const found = findOnSource(input, source);
+  return { ...found, warnings: [...glintWarnings, ...found.warnings] };
+}
+
+function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
+  const first = pass(input, input.window, source);
   if (input.allowSecondPass === false) return { ...first, window: input.window, pass: 1 };
   const W1 = input.window.windowPxFull;
   const width1 = first.boundary.detected && first.boundary.polygon ? medianBandWidthPx(input.location.outer, first.boundary.polygon, input.location.center) : null;
@@ -85,7 +97,7 @@ export function findRimBoundary(input: BandInput): BandFinding {
   if (first.boundary.detected && !narrow) return { ...first, window: input.window, pass: 1 };
   const window2 = textureWindow({ frame: input.frame, scale: input.scale, location: input.location, windowUm: input.window.windowUm * SECOND_PASS_WINDOW_FRACTION, features: input.features });
   if (window2.windowPxWork >= input.window.windowPxWork) return { ...first, window: input.window, pass: 1 };
-  const second = pass(input, window2);
+  const second = pass(input, window2, source);
   const width2 = second.boundary.detected && second.boundary.polygon ? medianBandWidthPx(input.location.outer, second.boundary.polygon, input.location.center) : null;
   if (width2 === null || !(width2 < SECOND_PASS_MAX_WINDOWS * W1)) return { ...first, window: input.window, pass: 1 };
   const why = first.boundary.detected
