@@ -1,13 +1,13 @@
 /**
  * Specular glints: small bright specks (light reflected by facets of a slanted, smooth rim) read as
  * strong roughness and pull the smooth band into the rough class. They are found as a white top-hat
- * (the pixel minus a grey opening with a 9 × 9 disc) far above its spread over the specimen, and
+ * (the pixel minus a grey opening with a 9 × 9 square) far above its spread over the specimen, and
  * replaced by the opening (the surrounding surface without the speck). Where there are (almost) no
  * such specks the image is returned as it is, so an image without glints is measured exactly as
  * before.
  */
 import { createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { quantiles, morph, rasterToMat } from './cvutil.js';
+import { quantiles } from './cvutil.js';
 
 /** Radius of the opening, working px (specks narrower than 9 px are removed). */
 const OPEN_RADIUS = 4;
@@ -49,6 +49,103 @@ function nearSpecks(m: Uint8Array, w: number, h: number, r: number): Uint8Array 
   return out;
 }
 
+/**
+ * Running minimum over 2r + 1 samples of one line (van Herk / Gil–Werman: three comparisons per
+ * sample), samples outside the line ignored (as OpenCV's erode/dilate borders). The maximum is the
+ * minimum of the negated values (runs on −x).
+ */
+function runMinLine(src: Float32Array, dst: Float32Array, start: number, stride: number, n: number, r: number, p: Float32Array, g: Float32Array, h: Float32Array): void {
+  const k = 2 * r + 1;
+  const len = n + 2 * r;
+  for (let i = 0; i < r; i++) p[i] = Infinity;
+  for (let i = 0; i < n; i++) p[i + r] = src[start + i * stride];
+  for (let i = n + r; i < len; i++) p[i] = Infinity;
+  for (let b = 0; b < len; b += k) {
+    const e = b + k < len ? b + k : len;
+    let m = p[b];
+    g[b] = m;
+    for (let i = b + 1; i < e; i++) {
+      if (p[i] < m) m = p[i];
+      g[i] = m;
+    }
+    m = p[e - 1];
+    h[e - 1] = m;
+    for (let i = e - 2; i >= b; i--) {
+      if (p[i] < m) m = p[i];
+      h[i] = m;
+    }
+  }
+  for (let i = 0; i < n; i++) {
+    const a = h[i];
+    const c = g[i + k - 1];
+    dst[start + i * stride] = a < c ? a : c;
+  }
+}
+
+/** Grey erosion with a (2r + 1)² square, separable (rows, then columns). */
+function erodeRect(src: Float32Array, w: number, hgt: number, r: number): Float32Array {
+  const tmp = new Float32Array(src.length);
+  const out = new Float32Array(src.length);
+  const L = Math.max(w, hgt) + 4 * r + 1;
+  const p = new Float32Array(L);
+  const g = new Float32Array(L);
+  const h = new Float32Array(L);
+  for (let y = 0; y < hgt; y++) runMinLine(src, tmp, y * w, 1, w, r, p, g, h);
+  erodeColumns(tmp, out, w, hgt, r);
+  return out;
+}
+
+/** dst[dOff + x] = min(a[aOff + x], b[bOff + x]) for x < w. */
+function minRowInto(dst: Float32Array, dOff: number, a: Float32Array, aOff: number, b: Float32Array, bOff: number, w: number): void {
+  for (let x = 0; x < w; x++) {
+    const u = a[aOff + x];
+    const v = b[bOff + x];
+    dst[dOff + x] = u < v ? u : v;
+  }
+}
+
+/**
+ * The same running minimum down the columns, done a whole row at a time (the van Herk prefix and
+ * suffix minima kept per row), so every access is contiguous.
+ */
+function erodeColumns(src: Float32Array, out: Float32Array, w: number, hgt: number, r: number): void {
+  const k = 2 * r + 1;
+  const len = hgt + 2 * r;
+  const inf = new Float32Array(w).fill(Infinity);
+  const G = new Float32Array(len * w);
+  const H = new Float32Array(len * w);
+  const rowOf = (i: number): [Float32Array, number] => (i < r || i >= hgt + r ? [inf, 0] : [src, (i - r) * w]);
+  for (let b = 0; b < len; b += k) {
+    const e = b + k < len ? b + k : len;
+    let [a, ao] = rowOf(b);
+    G.set(a.subarray(ao, ao + w), b * w);
+    for (let i = b + 1; i < e; i++) {
+      [a, ao] = rowOf(i);
+      minRowInto(G, i * w, G, (i - 1) * w, a, ao, w);
+    }
+    [a, ao] = rowOf(e - 1);
+    H.set(a.subarray(ao, ao + w), (e - 1) * w);
+    for (let i = e - 2; i >= b; i--) {
+      [a, ao] = rowOf(i);
+      minRowInto(H, i * w, H, (i + 1) * w, a, ao, w);
+    }
+  }
+  for (let y = 0; y < hgt; y++) minRowInto(out, y * w, H, y * w, G, (y + k - 1) * w, w);
+}
+
+/** x ↦ −x in place. */
+function negate(a: Float32Array): Float32Array {
+  for (let i = 0; i < a.length; i++) a[i] = -a[i];
+  return a;
+}
+
+/** Grey opening with a (2r + 1)² square (equal to OpenCV's MORPH_OPEN with MORPH_RECT; tested against it). */
+export function openRect(r: GrayRaster, radius: number): Float32Array {
+  // dilation = −erosion(−x)
+  const eroded = negate(erodeRect(r.data, r.width, r.height, radius));
+  return negate(erodeRect(eroded, r.width, r.height, radius));
+}
+
 /** Result of {@link suppressGlints}. */
 export interface GlintSuppression {
   /** The raster with the specks replaced (the input itself when none were). */
@@ -85,10 +182,8 @@ function markSpecks(v: Float32Array, o: Float32Array, mask: Uint8Array, t: numbe
  * @param mask - the specimen mask at the same size
  */
 export function suppressGlints(r: GrayRaster, mask: Mask): GlintSuppression {
-  const m = rasterToMat(r);
-  try {
-    morph(m, 'open', OPEN_RADIUS);
-    const o = m.data32F as Float32Array;
+  {
+    const o = openRect(r, OPEN_RADIUS);
     const v = r.data;
     let nMask = 0;
     for (let i = 0; i < mask.data.length; i++) if (mask.data[i]) nMask++;
@@ -107,7 +202,5 @@ export function suppressGlints(r: GrayRaster, mask: Mask): GlintSuppression {
     const out = Float32Array.from(v);
     for (let i = 0; i < out.length; i++) if (specks[i] || (near[i] && mask.data[i] && v[i] - o[i] > tNear)) out[i] = o[i];
     return { raster: createRaster(r.width, r.height, out), fraction };
-  } finally {
-    m.delete();
   }
 }

@@ -46,3 +46,31 @@ describe('glint suppression', () => {
     expect(r.data).toEqual(before);
   });
 });
+
+describe('grey opening with a square (the glint detector)', () => {
+  it('equals OpenCV MORPH_OPEN with MORPH_RECT (reference), borders included', async () => {
+    const { getCv } = await import('../../../src/core/cv.js');
+    const { rasterToMat } = await import('../../../src/core/segment/cvutil.js');
+    const { openRect } = await import('../../../src/core/segment/glints.js');
+    const cv = getCv();
+    const w = 53;
+    const h = 37;
+    const data = new Float32Array(w * h);
+    let s = 12345;
+    for (let i = 0; i < data.length; i++) {
+      s = (s * 1103515245 + 12345) >>> 0;
+      data[i] = (s >>> 8) / 16777216;
+    }
+    for (const radius of [1, 2, 4]) {
+      const m = rasterToMat({ width: w, height: h, data });
+      const k = cv.getStructuringElement(cv.MORPH_RECT, new cv.Size(2 * radius + 1, 2 * radius + 1));
+      try {
+        cv.morphologyEx(m, m, cv.MORPH_OPEN, k);
+        expect(Array.from(openRect({ width: w, height: h, data }, radius))).toEqual(Array.from(m.data32F as Float32Array));
+      } finally {
+        m.delete();
+        k.delete();
+      }
+    }
+  });
+});
