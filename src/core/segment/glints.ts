@@ -1,7 +1,7 @@
 /**
  * Specular glints: small bright specks (light reflected by facets of a slanted, smooth rim) read as
  * strong roughness and pull the smooth band into the rough class. They are found as a white top-hat
- * (the pixel minus a grey opening with a 9 × 9 square) far above its spread over the specimen, and
+ * (the pixel minus a grey opening with a 7 × 7 square) far above its spread over the specimen, and
  * replaced by the opening (the surrounding surface without the speck). Where there are (almost) no
  * such specks the image is returned as it is, so an image without glints is measured exactly as
  * before.
@@ -9,8 +9,8 @@
 import { createRaster, type GrayRaster, type Mask } from '../image/raster.js';
 import { quantiles } from './cvutil.js';
 
-/** Radius of the opening, working px (specks narrower than 9 px are removed). */
-const OPEN_RADIUS = 4;
+/** Radius of the opening, working px (specks narrower than 7 px are removed). */
+const OPEN_RADIUS = 3;
 /**
  * A speck stands out of the opening by more than max(GLINT_MIN_STEP, median + GLINT_SIGMAS robust σ)
  * of the top-hat over the specimen (our choice, measured on rendered scenes: rims with glints

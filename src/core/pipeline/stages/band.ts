@@ -75,7 +75,8 @@ export function medianBandWidthPx(outer: readonly { x: number; y: number }[], bo
  * The rim/core boundary: the first pass at the given window; a second pass at
  * SECOND_PASS_WINDOW_FRACTION of it when the first found no band, or a band narrower than
  * NARROW_BAND_WINDOWS windows. The second pass is used when it detects a separable band (the
- * classification's own refusal rules) narrower than SECOND_PASS_MAX_WINDOWS first-pass windows; the
+ * classification's own refusal rules) narrower than SECOND_PASS_MAX_WINDOWS first-pass windows, and,
+ * when the first pass had found a band, with a higher Fisher ratio than the first; the
  * result then says so (`FINER_WINDOW_USED`) and reports the finer window.
  */
 export function findRimBoundary(input: BandInput): BandFinding {
@@ -100,6 +101,10 @@ function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
   const second = pass(input, window2, source);
   const width2 = second.boundary.detected && second.boundary.polygon ? medianBandWidthPx(input.location.outer, second.boundary.polygon, input.location.center) : null;
   if (width2 === null || !(width2 < SECOND_PASS_MAX_WINDOWS * W1)) return { ...first, window: input.window, pass: 1 };
+  // a band the first pass found stays unless the finer window separates rim and core better
+  const f1 = first.boundary.separability?.fisher ?? 0;
+  const f2 = second.boundary.separability?.fisher ?? 0;
+  if (first.boundary.detected && !(f2 > f1)) return { ...first, window: input.window, pass: 1 };
   const why = first.boundary.detected
     ? `the band found (median ${(width1! / W1).toFixed(1)} windows of ${input.window.windowUm.toFixed(0)} µm) is narrow for the texture window`
     : `no band separated with the ${input.window.windowUm.toFixed(0)} µm texture window`;
