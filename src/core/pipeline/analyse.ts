@@ -25,12 +25,12 @@ import { round } from './precision.js';
 import { inResultOrder, type MeasureResult, type ResultBand } from './result.js';
 import { assembleBand, assembleResult, assembleScale, assembleSpecimen, reportWidths, storedGeometry } from './stages/assemble.js';
 import { calibrate } from './stages/calibrate.js';
-import { classifyTexture } from './stages/classify.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { locateSpecimen, type SpecimenLocation } from './stages/locateSpecimen.js';
 import { measureWidths, minWidthPxFor, type StoredGeometry } from './stages/measure.js';
-import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
-import { computeTexture, textureWindow, type TextureMaps } from './stages/texture.js';
+import { findRimBoundary } from './stages/band.js';
+import { manualBoundary, type RimBoundary } from './stages/refineBoundary.js';
+import { textureWindow, type TextureWindow } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
 import { mergeWarnings, warn, type Warning } from '../warnings.js';
 import { judgeQuality } from './stages/quality.js';
@@ -100,13 +100,12 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const location = located.locations[0];
   T.lap('specimen', 'texture', 0.25);
   const windowUm = p.windowUm ?? (seg ? seg.windowUm : null);
-  const window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
+  const window0 = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
   const umPerPx = { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY };
-  // the texture maps cover the whole working copy: computed once, for every specimen that needs them
-  let texture: TextureMaps | null = null;
   const measureSpecimen = (loc: SpecimenLocation, first: boolean): MeasuredSpecimen => {
     const own = [...loc.warnings];
     let boundary: RimBoundary;
+    let window: TextureWindow = window0;
     if (first && p.boundaryPolygon) {
       boundary = manualBoundary(p.boundaryPolygon);
       T.lap('texture', 'band width', 0.8);
@@ -114,23 +113,22 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
       own.push(...seg.classification.warnings, ...seg.warnings);
       boundary = seg.boundary;
     } else {
-      if (!texture) {
-        texture = computeTexture({ frame, window, features: p.features });
-        T.lap('texture', 'rim/core boundary', 0.55);
-      }
-      const classification = classifyTexture({ location: loc, texture });
-      own.push(...classification.warnings);
-      boundary = refineRimBoundary({ frame, location: loc, classification, window, nRays: p.nRays });
-      if (first) T.lap('boundary', 'band width', 0.85);
+      // texture → classify → refine, with a finer second pass for narrow bands (stages/band.ts)
+      const found = findRimBoundary({ frame, scale: calibration.scale, location: loc, window: window0, features: p.features, nRays: p.nRays, allowSecondPass: windowUm === null });
+      own.push(...found.warnings);
+      boundary = found.boundary;
+      window = found.window;
+      if (first) T.lap('texture+boundary', 'band width', 0.85);
     }
     const geometry = storedGeometry(loc, boundary, calibration.marks);
     const measured = measureWidths({ geometry, umPerPx, imageSize: frame.fullSize, minWidthPx: minWidthPxFor(boundary.source, window.windowPxFull), params: p });
     own.push(...measured.warnings);
     const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, umPerPx) : null, p.nRays);
-    return { location: loc, boundary, geometry, profile: measured.profile, band, warnings: own };
+    return { location: loc, boundary, geometry, profile: measured.profile, band, warnings: own, window };
   };
   const all = located.locations.map((loc, i) => measureSpecimen(loc, i === 0));
   const a = all[0];
+  const window = a.window;
   const warnings = [...calibration.warnings, ...a.warnings];
   const tcd = compareWithCriticalDistance({ params: p, width: a.band.detected ? a.band.widthUm : null });
   const scale = assembleScale(decoded, calibration, p);
@@ -159,6 +157,8 @@ interface MeasuredSpecimen {
   band: ResultBand;
   /** Warnings of its outline, classification and measurement. */
   warnings: Warning[];
+  /** The texture window its boundary was found with (a finer one after a second pass). */
+  window: TextureWindow;
 }
 
 /** The specimens located: A first; `several` when the image holds two or more. */

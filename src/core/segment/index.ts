@@ -11,4 +11,6 @@ export type { RefineBoundaryOptions, RefinedBoundary } from './refine.js';
 export { refineBoundary, boxEnergy } from './refine.js';
 export type { RefineOuterOptions } from './outerEdge.js';
 export { refineOuterEdge } from './outerEdge.js';
+export type { GlintSuppression } from './glints.js';
+export { suppressGlints } from './glints.js';
 export { scaleMarkBoxes, paintOutBoxes, MARK_PAD_PX } from './marks.js';

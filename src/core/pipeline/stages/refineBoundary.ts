@@ -4,6 +4,7 @@
  * copy, and mapped to full-resolution px. A boundary given by a person skips stages 3 to 5.
  */
 import type { PointPx } from '../../image/geometry.js';
+import type { GrayRaster } from '../../image/raster.js';
 import { refineBoundary, type Separability } from '../../segment/index.js';
 import type { WorkingFrame } from '../frame.js';
 import type { BoundarySource } from '../result.js';
@@ -31,6 +32,8 @@ export interface RefineInput {
   window: TextureWindow;
   /** Rays of the measurement; the boundary is refined on at least 360. */
   nRays: number;
+  /** The working copy to refine on, when not frame.work (e.g. with glints suppressed). */
+  source?: GrayRaster;
 }
 
 /** Refines the classified boundary, or reports why there is none. */
@@ -40,7 +43,7 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
   if (!rc.detected || !rc.boundary) {
     return { source: 'auto', polygon: null, detected: false, reason: rc.reason ?? 'no smooth rim band was found', separability: rc.separability };
   }
-  const refined = refineBoundary(frame.work, location.outer.map((q) => frame.toWork(q)), rc.boundary, location.centerWork, {
+  const refined = refineBoundary(input.source ?? frame.work, location.outer.map((q) => frame.toWork(q)), rc.boundary, location.centerWork, {
     windowPx: input.window.windowPxWork,
     nRays: Math.max(input.nRays, 360),
   });

@@ -48,6 +48,8 @@ export interface TextureInput {
   frame: WorkingFrame;
   window: TextureWindow;
   features: readonly FeatureName[];
+  /** The working copy the features are computed on, when not frame.work (e.g. with glints suppressed). */
+  source?: GrayRaster;
 }
 
 /**
@@ -70,6 +72,7 @@ export function textureWindow(input: WindowInput): TextureWindow {
 /** Computes the feature maps and the brightness on the working copy. */
 export function computeTexture(input: TextureInput): TextureMaps {
   const { frame, window } = input;
-  const maps = input.features.map((name) => ({ name, raster: computeFeature(name, frame.work, window.windowPxWork) }));
-  return { window, maps, brightness: boxMean(frame.work, window.windowPxWork) };
+  const src = input.source ?? frame.work;
+  const maps = input.features.map((name) => ({ name, raster: computeFeature(name, src, window.windowPxWork) }));
+  return { window, maps, brightness: boxMean(src, window.windowPxWork) };
 }
