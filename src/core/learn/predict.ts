@@ -1,14 +1,14 @@
 /**
  * Applying a model: class probabilities (outside, rim band, core) for every pixel of a working copy.
- * The features are computed on the whole working copy; the forest is evaluated on a regular grid
- * (every `stride`-th pixel, the last row and column included) and the probabilities are
- * interpolated bilinearly in between — the features are window averages of at least 3 px, so
- * they change little from one pixel to the next, and the boundaries are placed afterwards along
- * rays to sub-pixel precision (learn/segment.ts).
+ * The features are computed and the forest evaluated on a regular grid (every `stride`-th pixel,
+ * the last row and column included; learn/features.ts evaluates the features at those pixels only)
+ * and the probabilities are interpolated bilinearly in between — the features are window averages
+ * of at least 3 px, so they change little from one pixel to the next, and the boundaries are placed
+ * afterwards along rays to sub-pixel precision (learn/segment.ts).
  */
 import type { PointPx } from '../image/geometry.js';
 import type { GrayRaster } from '../image/raster.js';
-import { computePixelFeatures } from './features.js';
+import { pixelFeaturesAt } from './features.js';
 import { predictMany, type Forest } from './forest.js';
 import { forestFromRecord, type PixelModel } from './model.js';
 
@@ -96,7 +96,6 @@ function upsampleRow(grid: Float32Array, r0: number, r1: number, ty: number, xs:
  */
 export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, loaded: LoadedModel, center: PointPx, maxGridPoints = MAX_GRID_POINTS): ClassProbabilities {
   const { width: W, height: H } = work;
-  const features = computePixelFeatures(work, umPerWorkPx, loaded.model.windowsUm, center);
   const stride = Math.max(1, Math.ceil(Math.sqrt((W * H) / maxGridPoints)));
   const gx = gridAxis(W, stride);
   const gy = gridAxis(H, stride);
@@ -104,15 +103,9 @@ export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, load
   const gh = gy.length;
   const C = loaded.forest.nClasses;
   const planes = Array.from({ length: C }, () => new Float32Array(gw * gh));
-  const F = features.maps.length;
-  const X = new Float32Array(gw * gh * F);
-  for (let j = 0; j < gh; j++) {
-    for (let i = 0; i < gw; i++) {
-      const at = gy[j] * W + gx[i];
-      const base = (j * gw + i) * F;
-      for (let f = 0; f < F; f++) X[base + f] = features.maps[f][at];
-    }
-  }
+  const at = new Int32Array(gw * gh);
+  for (let j = 0; j < gh; j++) for (let i = 0; i < gw; i++) at[j * gw + i] = gy[j] * W + gx[i];
+  const X = pixelFeaturesAt(work, umPerWorkPx, loaded.model.windowsUm, center, at);
   predictMany(loaded.forest, X, planes);
   const xs = axisWeights(gx, W);
   const ys = axisWeights(gy, H);
