@@ -63,54 +63,50 @@ export function windowPxAt(windowUm: number, umPerWorkPx: number, width: number,
   return Math.min(maxOdd, Math.max(3, odd));
 }
 
-/** 3 × 3 Sobel derivatives (reflect-101 borders) of a raster. */
-function sobel(r: GrayRaster): { gx: Float32Array; gy: Float32Array } {
+/**
+ * The five summed-area tables in one pass over the image: of I, I², and of gx², gy², gx·gy with
+ * (gx, gy) the 3 × 3 Sobel derivatives (reflect-101 borders). Each table is (W + 1) × (H + 1) in
+ * double precision: S[(y + 1)(W + 1) + x + 1] = Σ over x' ≤ x, y' ≤ y. The squares and products
+ * are rounded to float32 first, as the per-pixel maps this replaces stored them.
+ */
+function summedTables(r: GrayRaster): Sums {
   const { width: W, height: H, data: d } = r;
-  const gx = new Float32Array(W * H);
-  const gy = new Float32Array(W * H);
+  const W1 = W + 1;
+  const n1 = W1 * (H + 1);
+  const t = { data: new Float64Array(n1), sq: new Float64Array(n1), gxx: new Float64Array(n1), gyy: new Float64Array(n1), gxy: new Float64Array(n1) };
   for (let y = 0; y < H; y++) {
     const ym = (y === 0 ? Math.min(1, H - 1) : y - 1) * W;
     const yp = (y === H - 1 ? Math.max(0, H - 2) : y + 1) * W;
-    const y0 = y * W;
-    sobelRow(d, gx, gy, W, ym, y0, yp);
+    summedRow(d, W, ym, y * W, yp, (y + 1) * W1 + 1, W1, t.data, t.sq, t.gxx, t.gyy, t.gxy);
   }
-  return { gx, gy };
+  return { W, H, ...t };
 }
 
-function sobelRow(d: Float32Array, gx: Float32Array, gy: Float32Array, W: number, ym: number, y0: number, yp: number): void {
+function summedRow(d: Float32Array, W: number, ym: number, y0: number, yp: number, o: number, W1: number, sd: Float64Array, ssq: Float64Array, sxx: Float64Array, syy: Float64Array, sxy: Float64Array): void {
+  let rd = 0;
+  let rsq = 0;
+  let rxx = 0;
+  let ryy = 0;
+  let rxy = 0;
   for (let x = 0; x < W; x++) {
     const xm = x === 0 ? Math.min(1, W - 1) : x - 1;
     const xp = x === W - 1 ? Math.max(0, W - 2) : x + 1;
-    gx[y0 + x] = d[ym + xp] - d[ym + xm] + 2 * (d[y0 + xp] - d[y0 + xm]) + d[yp + xp] - d[yp + xm];
-    gy[y0 + x] = d[yp + xm] - d[ym + xm] + 2 * (d[yp + x] - d[ym + x]) + d[yp + xp] - d[ym + xp];
+    const v = d[y0 + x];
+    // Sobel, rounded to float32 as the maps were
+    const gx = Math.fround(d[ym + xp] - d[ym + xm] + 2 * (d[y0 + xp] - d[y0 + xm]) + d[yp + xp] - d[yp + xm]);
+    const gy = Math.fround(d[yp + xm] - d[ym + xm] + 2 * (d[yp + x] - d[ym + x]) + d[yp + xp] - d[ym + xp]);
+    rd += v;
+    rsq += Math.fround(v * v);
+    rxx += Math.fround(gx * gx);
+    ryy += Math.fround(gy * gy);
+    rxy += Math.fround(gx * gy);
+    const k = o + x;
+    sd[k] = sd[k - W1] + rd;
+    ssq[k] = ssq[k - W1] + rsq;
+    sxx[k] = sxx[k - W1] + rxx;
+    syy[k] = syy[k - W1] + ryy;
+    sxy[k] = sxy[k - W1] + rxy;
   }
-}
-
-/**
- * Summed-area table of a·b (or of a when b is null), (W + 1) × (H + 1), double precision: S[(y + 1)
- * (W + 1) + x + 1] = Σ over x' ≤ x, y' ≤ y. The product is rounded to float32 first, as the maps
- * it replaces were stored.
- */
-function integral(a: Float32Array, b: Float32Array | null, W: number, H: number): Float64Array {
-  const W1 = W + 1;
-  const S = new Float64Array(W1 * (H + 1));
-  for (let y = 0; y < H; y++) {
-    const o = (y + 1) * W1 + 1;
-    const q = y * W;
-    let run = 0;
-    if (b) {
-      for (let x = 0; x < W; x++) {
-        run += Math.fround(a[q + x] * b[q + x]);
-        S[o + x] = S[o + x - W1] + run;
-      }
-    } else {
-      for (let x = 0; x < W; x++) {
-        run += a[q + x];
-        S[o + x] = S[o + x - W1] + run;
-      }
-    }
-  }
-  return S;
 }
 
 /**
@@ -270,26 +266,48 @@ function entropyAt(bins: Uint8Array, W: number, H: number, r: number, nBins: num
   }
 }
 
+/** Evaluates the feature set at chosen pixels of one image; the per-image tables are made once. */
+export interface FeatureSampler {
+  /** Features per pixel ({@link pixelFeatureNames}). */
+  readonly nFeatures: number;
+  /**
+   * The feature vectors of pixels `index` (y·width + x), row-major, in the order of `index`;
+   * fastest in ascending order (the entropy histograms slide along rows).
+   */
+  at(index: Int32Array): Float32Array;
+}
+
 /**
- * The feature vectors of chosen pixels of a working copy.
+ * Prepares the evaluation of the feature set on a working copy: the summed-area tables, the
+ * image's median log brightness and its entropy bins.
  *
  * @param work - working copy (gray 0..1)
  * @param umPerWorkPx - pixel size of the working copy, µm per px
  * @param windowsUm - the windows, µm (each becomes an odd px side ≥ 3 on this image)
  * @param center - the specimen centre, working px (for the radiality)
- * @param index - the pixels (y·width + x); fastest in ascending order (histograms slide along rows)
- * @returns row-major features, {@link pixelFeatureNames} per pixel, in the order of `index`
  */
-export function pixelFeaturesAt(work: GrayRaster, umPerWorkPx: number, windowsUm: readonly number[], center: { x: number; y: number }, index: Int32Array): Float32Array {
-  const { width: W, height: H, data } = work;
+export function featureSampler(work: GrayRaster, umPerWorkPx: number, windowsUm: readonly number[], center: { x: number; y: number }): FeatureSampler {
+  const { width: W, height: H } = work;
   if (W < 8 || H < 8) throw new FractozoneError('BAD_PARAMETER', `the image (${W}×${H} px working copy) is too small for the pixel classifier`);
   const F = 1 + WINDOW_FEATURES.length * windowsUm.length;
-  const out = new Float32Array(index.length * F);
-  const { gx, gy } = sobel(work);
-  const sums: Sums = { W, H, data: integral(data, null, W, H), sq: integral(data, data, W, H), gxx: integral(gx, gx, W, H), gyy: integral(gy, gy, W, H), gxy: integral(gx, gy, W, H) };
+  const sums = summedTables(work);
   const med = medianLog(sums.data, W, H, LOG_FLOOR);
   const halves = windowsUm.map((wUm) => (windowPxAt(wUm, umPerWorkPx, W, H) - 1) / 2);
   const bins = entropyBins(work);
+  return {
+    nFeatures: F,
+    at(index: Int32Array): Float32Array {
+      const out = new Float32Array(index.length * F);
+      windowFeatures(sums, med, halves, center, index, out, F);
+      for (let w = 0; w < halves.length; w++) entropyAt(bins, W, H, halves[w], DEFAULT_ENTROPY_BINS, index, out, F, 1 + w * WINDOW_FEATURES.length + 2);
+      return out;
+    },
+  };
+}
+
+/** Every feature but the entropy at the pixels `index` into out (F per pixel). */
+function windowFeatures(sums: Sums, med: number, halves: readonly number[], center: { x: number; y: number }, index: Int32Array, out: Float32Array, F: number): void {
+  const { W, H } = sums;
   const m = new Float64Array(5);
   for (let k = 0; k < index.length; k++) {
     const i = index[k];
@@ -319,14 +337,26 @@ export function pixelFeaturesAt(work: GrayRaster, umPerWorkPx: number, windowsUm
       const b = o + 1 + w * WINDOW_FEATURES.length;
       out[b] = logMean - med; // brightness
       out[b + 1] = 0.5 * Math.log(Math.max(v, 0) + 1e-8) - logMean; // contrast
-      // b + 2: entropy, below
+      // b + 2: entropy (entropyAt)
       out[b + 3] = 0.5 * Math.log(Math.max(Math.fround(t), 0) + 1e-8) - logMean; // gradient
       out[b + 4] = t > 1e-10 ? Math.sqrt(a * a + 4 * jxy * jxy) / t : 0; // coherence
       out[b + 5] = t > 1e-10 ? (a * cos2t + 2 * jxy * sin2t) / t : 0; // radiality
     }
   }
-  for (let w = 0; w < halves.length; w++) entropyAt(bins, W, H, halves[w], DEFAULT_ENTROPY_BINS, index, out, F, 1 + w * WINDOW_FEATURES.length + 2);
-  return out;
+}
+
+/**
+ * The feature vectors of chosen pixels of a working copy ({@link featureSampler} for one list).
+ *
+ * @param work - working copy (gray 0..1)
+ * @param umPerWorkPx - pixel size of the working copy, µm per px
+ * @param windowsUm - the windows, µm (each becomes an odd px side ≥ 3 on this image)
+ * @param center - the specimen centre, working px (for the radiality)
+ * @param index - the pixels (y·width + x); fastest in ascending order (histograms slide along rows)
+ * @returns row-major features, {@link pixelFeatureNames} per pixel, in the order of `index`
+ */
+export function pixelFeaturesAt(work: GrayRaster, umPerWorkPx: number, windowsUm: readonly number[], center: { x: number; y: number }, index: Int32Array): Float32Array {
+  return featureSampler(work, umPerWorkPx, windowsUm, center).at(index);
 }
 
 /**
