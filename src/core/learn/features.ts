@@ -233,7 +233,8 @@ function entropyAt(bins: Uint8Array, W: number, H: number, r: number, nBins: num
     const n0 = x - r < 0 ? 0 : x - r;
     const n1 = x + r > W - 1 ? W - 1 : x + r;
     let from = c1 + 1;
-    if (y !== row || n0 < c0 || n0 > c1) {
+    // slide when that changes fewer columns than a rebuild reads
+    if (y !== row || n0 < c0 || 2 * (n0 - c0) > n1 - n0 + 1) {
       row = y;
       pa = (y - r < 0 ? 0 : y - r) * W;
       pb = (y + r > H - 1 ? H - 1 : y + r) * W;
