@@ -18,7 +18,7 @@ import { defaultWindowUm } from '../texture/window.js';
 import type { PointPx } from '../image/geometry.js';
 import { featureCentre, PIXEL_FEATURE_SET, pixelFeatureNames, pixelFeaturesAt } from './features.js';
 import { trainForest } from './forest.js';
-import { CLASS_NAMES, checkLabels, countLabels, type ClassCounts, type LabelRaster } from './labels.js';
+import { CLASS_NAMES, checkLabels, countLabels, forEachLabelled, type ClassCounts, type LabelRaster } from './labels.js';
 import { forestRecord, sealModel, type ModelTrainingImage, type PixelModel } from './model.js';
 
 /** One training image with its labels. */
@@ -66,14 +66,11 @@ function workingLabels(labels: LabelRaster, frame: WorkingFrame): WorkingLabels 
   const h = frame.work.height;
   const seen = new Uint8Array(w * h); // bit L set when label L was seen
   const colOf = Int32Array.from({ length: labels.width }, (_, x) => Math.min(w - 1, Math.floor(x / frame.sx)));
-  for (let y = 0; y < labels.height; y++) {
-    const row = Math.min(h - 1, Math.floor(y / frame.sy)) * w;
-    const off = y * labels.width;
-    for (let x = 0; x < labels.width; x++) {
-      const v = labels.data[off + x];
-      if (v) seen[row + colOf[x]] |= 1 << v;
-    }
-  }
+  const rowOf = Int32Array.from({ length: labels.height }, (_, y) => Math.min(h - 1, Math.floor(y / frame.sy)) * w);
+  forEachLabelled(labels.data, (i, v) => {
+    const y = Math.floor(i / labels.width);
+    seen[rowOf[y] + colOf[i - y * labels.width]] |= 1 << v;
+  });
   const idx: number[] = [];
   const cls: number[] = [];
   for (let i = 0; i < seen.length; i++) {
