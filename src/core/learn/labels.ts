@@ -47,11 +47,9 @@ export function checkLabels(labels: LabelRaster, imageSize: { width: number; hei
   }
   if (labels.data.length !== labels.width * labels.height) bad(`${name} holds ${labels.data.length} values for ${labels.width}×${labels.height} px`);
   const d = labels.data;
-  for (let i = 0; i < d.length; i++) {
-    if (d[i] > MAX_LABEL) {
-      bad(`${name} holds the value ${d[i]} at (x ${i % labels.width}, y ${Math.floor(i / labels.width)}); allowed are 0 unlabelled, 1 outside, 2 rim band, 3 core`);
-    }
-  }
+  forEachLabelled(d, (i, v) => {
+    if (v > MAX_LABEL) bad(`${name} holds the value ${v} at (x ${i % labels.width}, y ${Math.floor(i / labels.width)}); allowed are 0 unlabelled, 1 outside, 2 rim band, 3 core`);
+  });
   return labels;
 }
 
@@ -82,9 +80,29 @@ export function labelsFromDecoded(decoded: DecodedImage, name = 'the label image
   return { width, height, data: out };
 }
 
-/** Labelled pixels per class. */
+/** Labelled pixels per class (values above 3 are not counted). */
 export function countLabels(labels: LabelRaster): ClassCounts {
   const n = [0, 0, 0, 0];
-  for (let i = 0; i < labels.data.length; i++) n[labels.data[i]]++;
+  forEachLabelled(labels.data, (_, v) => {
+    if (v <= MAX_LABEL) n[v]++;
+  });
   return { outside: n[1], rim: n[2], core: n[3] };
+}
+
+/**
+ * Calls `visit(i, value)` for every non-zero value, in index order. Labels are sparse (a few thin
+ * strokes), so whole zero words of four values are skipped at once.
+ */
+export function forEachLabelled(data: Uint8Array, visit: (i: number, value: number) => void): void {
+  const n = data.length;
+  let i = 0;
+  if (data.byteOffset % 4 === 0) {
+    const words = new Uint32Array(data.buffer, data.byteOffset, n >> 2);
+    for (let k = 0; k < words.length; k++) {
+      if (words[k] === 0) continue;
+      for (let j = 4 * k; j < 4 * k + 4; j++) if (data[j]) visit(j, data[j]);
+    }
+    i = words.length * 4;
+  }
+  for (; i < n; i++) if (data[i]) visit(i, data[i]);
 }

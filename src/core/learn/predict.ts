@@ -1,19 +1,30 @@
 /**
  * Applying a model: class probabilities (outside, rim band, core) for every pixel of a working copy.
- * The features are computed on the whole working copy; the forest is evaluated on a regular grid
- * (every `stride`-th pixel, the last row and column included) and the probabilities are
- * interpolated bilinearly in between — the features are window averages of at least 3 px, so
- * they change little from one pixel to the next, and the boundaries are placed afterwards along
- * rays to sub-pixel precision (learn/segment.ts).
+ * The probabilities are taken on a regular grid (every `stride`-th pixel, the last row and column
+ * included) and interpolated bilinearly in between — the features are window averages of at least
+ * 3 px, so they change little from one pixel to the next, and the boundaries are placed afterwards
+ * along rays to sub-pixel precision (learn/segment.ts). The grid is evaluated in two passes: first
+ * every other grid point along both axes; then the points between them, except where the four
+ * around agree on the class with probability ≥ {@link SETTLED_PROBABILITY} — there the
+ * probabilities are interpolated (far from every boundary, where nothing is decided). The features
+ * are computed only at the evaluated points (learn/features.ts).
  */
 import type { PointPx } from '../image/geometry.js';
 import type { GrayRaster } from '../image/raster.js';
-import { computePixelFeatures } from './features.js';
+import { featureSampler, type FeatureSampler } from './features.js';
 import { predictMany, type Forest } from './forest.js';
 import { forestFromRecord, type PixelModel } from './model.js';
 
-/** Forest evaluations above which the grid is thinned (a stride of 2, 3 … px). */
+/** Grid points above which the grid is thinned (a stride of 2, 3 … px). */
 export const MAX_GRID_POINTS = 250_000;
+
+/**
+ * Probability of the most probable class at which a point of the coarse pass counts as settled:
+ * grid points between four settled points of the same class are interpolated, not evaluated (our own
+ * choice, no source: well above every threshold the segmentation applies, ½; checked in the learn
+ * tests and the bench).
+ */
+export const SETTLED_PROBABILITY = 0.95;
 
 /** A model ready to apply: its file content, its runtime forest and its file's SHA-256. */
 export interface LoadedModel {
@@ -35,8 +46,10 @@ export interface ClassProbabilities {
   outside: Float32Array;
   rim: Float32Array;
   core: Float32Array;
-  /** Grid spacing the forest was evaluated at, px. */
+  /** Grid spacing the probabilities were taken at, px. */
   stride: number;
+  /** Grid points the forest was evaluated at (the others interpolated: a coarse pass found them settled). */
+  evaluated: number;
 }
 
 /** Grid coordinates 0, s, 2s … and the last index n − 1. */
@@ -96,7 +109,6 @@ function upsampleRow(grid: Float32Array, r0: number, r1: number, ty: number, xs:
  */
 export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, loaded: LoadedModel, center: PointPx, maxGridPoints = MAX_GRID_POINTS): ClassProbabilities {
   const { width: W, height: H } = work;
-  const features = computePixelFeatures(work, umPerWorkPx, loaded.model.windowsUm, center);
   const stride = Math.max(1, Math.ceil(Math.sqrt((W * H) / maxGridPoints)));
   const gx = gridAxis(W, stride);
   const gy = gridAxis(H, stride);
@@ -104,20 +116,64 @@ export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, load
   const gh = gy.length;
   const C = loaded.forest.nClasses;
   const planes = Array.from({ length: C }, () => new Float32Array(gw * gh));
-  const F = features.maps.length;
-  const X = new Float32Array(gw * gh * F);
+  const sampler = featureSampler(work, umPerWorkPx, loaded.model.windowsUm, center);
+  // pass 1: every other grid point along both axes (and the last ones)
+  const cx = gridAxis(gw, 2);
+  const cy = gridAxis(gh, 2);
+  const coarse = new Int32Array(cx.length * cy.length);
+  for (let j = 0; j < cy.length; j++) for (let i = 0; i < cx.length; i++) coarse[j * cx.length + i] = cy[j] * gw + cx[i];
+  let evaluated = evaluate(loaded.forest, sampler, coarse, gx, gw, gy, W, planes);
+  // pass 2: the grid points between them, where the four around disagree or are unsure
+  const top = new Int8Array(gw * gh).fill(-1); // settled class of an evaluated point, −1 unsure
+  for (const g of coarse) {
+    let best = 0;
+    for (let c = 1; c < C; c++) if (planes[c][g] > planes[best][g]) best = c;
+    if (planes[best][g] >= SETTLED_PROBABILITY) top[g] = best;
+  }
+  const xs = axisWeights(cx, gw);
+  const ys = axisWeights(cy, gh);
+  const rest: number[] = [];
   for (let j = 0; j < gh; j++) {
+    const j0 = cy[ys.k[j]];
+    const j1 = cy[Math.min(cy.length - 1, ys.k[j] + 1)];
+    const ty = ys.t[j];
     for (let i = 0; i < gw; i++) {
-      const at = gy[j] * W + gx[i];
-      const base = (j * gw + i) * F;
-      for (let f = 0; f < F; f++) X[base + f] = features.maps[f][at];
+      const i0 = cx[xs.k[i]];
+      const i1 = cx[Math.min(cx.length - 1, xs.k[i] + 1)];
+      const tx = xs.t[i];
+      const g = j * gw + i;
+      if ((i === i0 || i === i1) && (j === j0 || j === j1)) continue; // evaluated in pass 1
+      const a = j0 * gw + i0;
+      const b = j0 * gw + i1;
+      const c = j1 * gw + i0;
+      const d = j1 * gw + i1;
+      const t = top[a];
+      if (t < 0 || top[b] !== t || top[c] !== t || top[d] !== t) {
+        rest.push(g);
+        continue;
+      }
+      for (const p of planes) p[g] = (p[a] * (1 - tx) + p[b] * tx) * (1 - ty) + (p[c] * (1 - tx) + p[d] * tx) * ty;
     }
   }
-  predictMany(loaded.forest, X, planes);
-  const xs = axisWeights(gx, W);
-  const ys = axisWeights(gy, H);
-  const [outside, rim, core] = planes.map((g) => (stride === 1 ? g : upsample(g, gw, gh, xs, ys, W, H)));
-  return { width: W, height: H, outside, rim, core, stride };
+  evaluated += evaluate(loaded.forest, sampler, Int32Array.from(rest), gx, gw, gy, W, planes);
+  const px = axisWeights(gx, W);
+  const py = axisWeights(gy, H);
+  const [outside, rim, core] = planes.map((g) => (stride === 1 ? g : upsample(g, gw, gh, px, py, W, H)));
+  return { width: W, height: H, outside, rim, core, stride, evaluated };
+}
+
+/** Features and forest at grid points `g` (indices into the gw-wide grid), written into `planes`; returns their number. */
+function evaluate(forest: Forest, sampler: FeatureSampler, g: Int32Array, gx: Int32Array, gw: number, gy: Int32Array, W: number, planes: Float32Array[]): number {
+  if (!g.length) return 0;
+  const at = Int32Array.from(g, (k) => gy[Math.floor(k / gw)] * W + gx[k % gw]);
+  const out = planes.map(() => new Float32Array(g.length));
+  predictMany(forest, sampler.at(at), out);
+  for (let c = 0; c < planes.length; c++) {
+    const p = planes[c];
+    const o = out[c];
+    for (let n = 0; n < g.length; n++) p[g[n]] = o[n];
+  }
+  return g.length;
 }
 
 /** The most probable class of every pixel: 1 outside, 2 rim band, 3 core (the label values). */

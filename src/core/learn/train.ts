@@ -4,7 +4,9 @@
  * marks painted out), so the features the model learns from are those `measure` computes later.
  * Labelled full-resolution pixels are carried to the working copy (a working pixel takes a label
  * when every labelled pixel it covers has the same one); a seeded subsample of at most
- * `samplesPerClass` pixels per class trains the forest (classes balanced by weight, learn/forest.ts).
+ * `samplesPerClass` pixels per class is chosen first, the features are computed at those pixels
+ * only (learn/features.ts `pixelFeaturesAt`), and they train the forest (balanced bootstrap,
+ * learn/forest.ts).
  */
 import type { DecodedImage } from '../decode/types.js';
 import { FractozoneError } from '../errors.js';
@@ -13,9 +15,10 @@ import { calibrate } from '../pipeline/stages/calibrate.js';
 import type { ScaleParams } from '../pipeline/types.js';
 import { createRng } from '../random.js';
 import { defaultWindowUm } from '../texture/window.js';
-import { computePixelFeatures, featureCentre, PIXEL_FEATURE_SET, pixelFeatureNames } from './features.js';
+import type { PointPx } from '../image/geometry.js';
+import { featureCentre, PIXEL_FEATURE_SET, pixelFeatureNames, pixelFeaturesAt } from './features.js';
 import { trainForest } from './forest.js';
-import { CLASS_NAMES, checkLabels, countLabels, type ClassCounts, type LabelRaster } from './labels.js';
+import { CLASS_NAMES, checkLabels, countLabels, forEachLabelled, type ClassCounts, type LabelRaster } from './labels.js';
 import { forestRecord, sealModel, type ModelTrainingImage, type PixelModel } from './model.js';
 
 /** One training image with its labels. */
@@ -63,14 +66,11 @@ function workingLabels(labels: LabelRaster, frame: WorkingFrame): WorkingLabels 
   const h = frame.work.height;
   const seen = new Uint8Array(w * h); // bit L set when label L was seen
   const colOf = Int32Array.from({ length: labels.width }, (_, x) => Math.min(w - 1, Math.floor(x / frame.sx)));
-  for (let y = 0; y < labels.height; y++) {
-    const row = Math.min(h - 1, Math.floor(y / frame.sy)) * w;
-    const off = y * labels.width;
-    for (let x = 0; x < labels.width; x++) {
-      const v = labels.data[off + x];
-      if (v) seen[row + colOf[x]] |= 1 << v;
-    }
-  }
+  const rowOf = Int32Array.from({ length: labels.height }, (_, y) => Math.min(h - 1, Math.floor(y / frame.sy)) * w);
+  forEachLabelled(labels.data, (i, v) => {
+    const y = Math.floor(i / labels.width);
+    seen[rowOf[y] + colOf[i - y * labels.width]] |= 1 << v;
+  });
   const idx: number[] = [];
   const cls: number[] = [];
   for (let i = 0; i < seen.length; i++) {
@@ -95,21 +95,27 @@ function checkClasses(counts: ClassCounts, where: string): void {
   }
 }
 
-/** Per-image part of teaching: features of the labelled working pixels. */
-function imageSamples(img: TeachImage, windowsUm: number[] | null): { rows: Float32Array[]; cls: Uint8Array; windowsUm: number[]; record: ModelTrainingImage } {
+/** Per-image part of teaching: the frame, the labelled working pixels and what the features need. */
+interface ImageContext {
+  frame: WorkingFrame;
+  umPerWorkPx: number;
+  centre: PointPx;
+  labels: WorkingLabels;
+  record: ModelTrainingImage;
+}
+
+function imageContext(img: TeachImage, counts: ClassCounts): { ctx: ImageContext; defaultWindowsUm: number[] } {
   const calibration = calibrate({ decoded: img.decoded, scale: img.scale });
   const frame = new WorkingFrame(img.decoded.raster, calibration.marks);
-  const umPerWorkPx = calibration.scale.umPerPx * frame.lengthScale;
-  const windows = windowsUm ?? defaultWindows(frame, calibration.scale.umPerPx);
-  const wl = workingLabels(img.labels, frame);
-  const features = computePixelFeatures(frame.work, umPerWorkPx, windows, featureCentre(frame));
-  const F = features.maps.length;
-  const rows = Array.from(wl.index, (i) => Float32Array.from({ length: F }, (_, k) => features.maps[k][i]));
   return {
-    rows,
-    cls: wl.cls,
-    windowsUm: windows,
-    record: { file: img.file, sha256: img.sha256, labelsSha256: img.labelsSha256, umPerPx: calibration.scale.umPerPx, labelledPixels: countLabels(img.labels) },
+    ctx: {
+      frame,
+      umPerWorkPx: calibration.scale.umPerPx * frame.lengthScale,
+      centre: featureCentre(frame),
+      labels: workingLabels(img.labels, frame),
+      record: { file: img.file, sha256: img.sha256, labelsSha256: img.labelsSha256, umPerPx: calibration.scale.umPerPx, labelledPixels: counts },
+    },
+    defaultWindowsUm: defaultWindows(frame, calibration.scale.umPerPx),
   };
 }
 
@@ -132,30 +138,65 @@ export function teachModel(images: readonly TeachImage[], options: TeachOptions 
   const t0 = performance.now();
   let windowsUm = options.windowsUm ?? null;
   if (windowsUm && (!windowsUm.length || windowsUm.some((w) => !(Number.isFinite(w) && w > 0)))) throw new FractozoneError('BAD_PARAMETER', 'feature windows must be positive lengths in µm');
-  const rows: Float32Array[] = [];
-  const cls: number[] = [];
-  const records: ModelTrainingImage[] = [];
   const labelName = (i: number): string => (images.length > 1 ? `the label image of image ${i + 1} (${images[i].file})` : 'the label image');
   const total = [0, 0, 0];
-  for (const [i, img] of images.entries()) {
+  const counts = images.map((img, i) => {
     checkLabels(img.labels, { width: img.decoded.widthPx, height: img.decoded.heightPx }, labelName(i));
-    CLASS_NAMES.forEach((c, k) => (total[k] += countLabels(img.labels)[c]));
-  }
+    const c = countLabels(img.labels);
+    CLASS_NAMES.forEach((name, k) => (total[k] += c[name]));
+    return c;
+  });
   checkClasses(toCounts(total), images.length > 1 ? 'in any label image' : 'in the label image');
-  for (const img of images) {
-    const s = imageSamples(img, windowsUm);
-    windowsUm = s.windowsUm;
-    rows.push(...s.rows);
-    cls.push(...s.cls);
-    records.push(s.record);
+  // the windows come from the first image unless given
+  const contexts = images.map((img, i) => {
+    const { ctx, defaultWindowsUm } = imageContext(img, counts[i]);
+    windowsUm ??= defaultWindowsUm;
+    return ctx;
+  });
+  const windows = windowsUm as number[];
+  const chosen = chooseSamples(contexts, o);
+  const tSelect = performance.now();
+  // features of the chosen pixels only, image by image, in the order of the chosen samples
+  const F = pixelFeatureNames(windows).length;
+  const X = new Float32Array(chosen.image.length * F);
+  for (const [k, ctx] of contexts.entries()) {
+    const rows: number[] = [];
+    for (let j = 0; j < chosen.image.length; j++) if (chosen.image[j] === k) rows.push(j);
+    if (!rows.length) continue;
+    const order = rows.slice().sort((a, b) => chosen.pixel[a] - chosen.pixel[b]);
+    const f = pixelFeaturesAt(ctx.frame.work, ctx.umPerWorkPx, windows, ctx.centre, Int32Array.from(order, (j) => chosen.pixel[j]));
+    order.forEach((j, r) => X.set(f.subarray(r * F, (r + 1) * F), j * F));
   }
   const tFeatures = performance.now();
-  return { model: fit(rows, Uint8Array.from(cls), windowsUm as number[], records, o), timingsMs: { features: Math.round(tFeatures - t0), forest: Math.round(performance.now() - tFeatures) } };
+  const model = fit(X, chosen, windows, contexts.map((c) => c.record), o);
+  return { model, timingsMs: { images: Math.round(tSelect - t0), features: Math.round(tFeatures - tSelect), forest: Math.round(performance.now() - tFeatures) } };
 }
 
-/** Seeded balanced subsample, the forest, the sealed model. */
-function fit(rows: Float32Array[], cls: Uint8Array, windowsUm: number[], images: ModelTrainingImage[], o: typeof TEACH_DEFAULTS): PixelModel {
+/** The training samples: for each, its image, working pixel and class; and the per-class counts. */
+interface ChosenSamples {
+  image: Int32Array;
+  pixel: Int32Array;
+  cls: Uint8Array;
+  labelledWorkingPixels: ClassCounts;
+  pixelsPerClass: ClassCounts;
+}
+
+/**
+ * Seeded balanced subsample: at most `samplesPerClass` of the labelled working pixels of each class
+ * (all images together, in image order), each class's choice sorted back into that order.
+ */
+function chooseSamples(contexts: ImageContext[], o: typeof TEACH_DEFAULTS): ChosenSamples {
   const C = CLASS_NAMES.length;
+  const image: number[] = [];
+  const pixel: number[] = [];
+  const cls: number[] = [];
+  contexts.forEach((ctx, k) => {
+    ctx.labels.index.forEach((p, j) => {
+      image.push(k);
+      pixel.push(p);
+      cls.push(ctx.labels.cls[j]);
+    });
+  });
   const byClass: number[][] = Array.from({ length: C }, () => []);
   cls.forEach((c, i) => byClass[c].push(i));
   const labelledWorkingPixels = toCounts(byClass.map((l) => l.length));
@@ -171,15 +212,21 @@ function fit(rows: Float32Array[], cls: Uint8Array, windowsUm: number[], images:
     return a.slice(0, k).sort((p, q) => p - q);
   });
   const all = chosen.flat();
-  const F = rows[0].length;
-  const X = new Float32Array(all.length * F);
-  const y = new Uint8Array(all.length);
-  all.forEach((r, k) => {
-    X.set(rows[r], k * F);
-    y[k] = cls[r];
-  });
+  return {
+    image: Int32Array.from(all, (r) => image[r]),
+    pixel: Int32Array.from(all, (r) => pixel[r]),
+    cls: Uint8Array.from(all, (r) => cls[r]),
+    labelledWorkingPixels,
+    pixelsPerClass: toCounts(chosen.map((l) => l.length)),
+  };
+}
+
+/** The forest on the chosen samples, the sealed model. */
+function fit(X: Float32Array, s: ChosenSamples, windowsUm: number[], images: ModelTrainingImage[], o: typeof TEACH_DEFAULTS): PixelModel {
+  const C = CLASS_NAMES.length;
+  const F = pixelFeatureNames(windowsUm).length;
   const mtry = Math.ceil(Math.sqrt(F));
-  const t = trainForest(X, y, F, C, { nTrees: o.nTrees, maxDepth: o.maxDepth, minSplit: o.minSplit, mtry, seed: o.seed });
+  const t = trainForest(X, s.cls, F, C, { nTrees: o.nTrees, maxDepth: o.maxDepth, minSplit: o.minSplit, mtry, seed: o.seed });
   const r6 = (v: number): number | null => (Number.isFinite(v) ? Math.round(v * 1e6) / 1e6 : null);
   return sealModel({
     featureSet: PIXEL_FEATURE_SET,
@@ -188,8 +235,8 @@ function fit(rows: Float32Array[], cls: Uint8Array, windowsUm: number[], images:
     classes: [...CLASS_NAMES],
     training: {
       images,
-      labelledWorkingPixels,
-      pixelsPerClass: toCounts(chosen.map((l) => l.length)),
+      labelledWorkingPixels: s.labelledWorkingPixels,
+      pixelsPerClass: s.pixelsPerClass,
       oobAccuracy: r6(t.oobAccuracy) ?? 0,
       oobAccuracyByClass: { outside: r6(t.oobAccuracyByClass[0]), rim: r6(t.oobAccuracyByClass[1]), core: r6(t.oobAccuracyByClass[2]) },
       seed: o.seed,

@@ -85,6 +85,21 @@ export function localEntropy(
 }
 
 /**
+ * The histogram bin of every pixel of a raster as {@link localEntropy} computes it without a
+ * `range` option: `nBins` bins over the raster's percentile range.
+ *
+ * @param r gray raster
+ * @param nBins number of bins, 2..256 (default {@link DEFAULT_ENTROPY_BINS})
+ * @param percentiles [lo, hi] percentiles of the range (default {@link DEFAULT_ENTROPY_PERCENTILES})
+ * @returns bin index per pixel, row-major
+ */
+export function entropyBins(r: GrayRaster, nBins = DEFAULT_ENTROPY_BINS, percentiles: readonly [number, number] = DEFAULT_ENTROPY_PERCENTILES): Uint8Array {
+  checkRaster(r);
+  const [lo, hi] = intensityRange(r, percentiles);
+  return quantize(r.data, checkBins(nBins), lo, hi);
+}
+
+/**
  * Intensity range [lo, hi] of a raster between two percentiles, from a 65 536-bin histogram over
  * [min, max] (resolution (max − min)/65 536): lo is the lower edge of the bin holding the sample of
  * rank ⌈p_lo·N⌉, hi the upper edge of the bin holding the sample of rank ⌈p_hi·N⌉.

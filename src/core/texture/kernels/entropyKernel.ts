@@ -51,16 +51,7 @@ export function entropyKernel(
 ): void {
   const W = width;
   const H = height;
-  const maxN = Math.min(2 * r + 1, H) * Math.min(2 * r + 1, W);
-  const SCALE = fixedPointScale(maxN);
-  // inc[c] = T[c+1] − T[c] (count c → c + 1); a count c → c − 1 changes S by −inc[c − 1]
-  const T = new Float64Array(maxN + 2);
-  for (let c = 1; c < T.length; c++) T[c] = Math.round(c * Math.log2(c) * SCALE);
-  const inc = new Float64Array(maxN + 1);
-  for (let c = 0; c <= maxN; c++) inc[c] = T[c + 1] - T[c];
-  // H = log2 N − S/N = (T[N] − S) / N: a flat window gives exactly 0
-  const invN = new Float64Array(maxN + 1);
-  for (let n = 1; n <= maxN; n++) invN[n] = 1 / (n * SCALE);
+  const { T, inc, invN } = entropyTables(Math.min(2 * r + 1, H) * Math.min(2 * r + 1, W));
   const wasm = W > 2 * r + 1 && H > 2 * r + 1 ? prepareEntropyWasm(bins, W, inc, nBins) : null;
   const hA = wasm ? wasm.hA : new Int32Array(nBins);
   const hB = wasm ? wasm.hB : new Int32Array(nBins);
@@ -123,6 +114,34 @@ function wasmInteriorPair(
   out.set(w.outRows.subarray(W + x0, W + x1 + 1), orow + W + x0);
   k.sA = w.sOut[0];
   k.sB = w.sOut[1];
+}
+
+/** The fixed-point tables of the entropy update (see the module comment). */
+export interface EntropyTables {
+  /** T[c] = c·log2 c in units 2^−k, c = 0..maxN + 1. */
+  T: Float64Array;
+  /** inc[c] = T[c + 1] − T[c]: change of S when a count goes c → c + 1 (c → c − 1: −inc[c − 1]). */
+  inc: Float64Array;
+  /** invN[n] = 1 / (n · 2^k): H = (T[n] − S) · invN[n] for a window of n pixels. */
+  invN: Float64Array;
+}
+
+/**
+ * Tables for windows of at most `maxN` pixels. Any order of count updates with these tables gives
+ * the same S (all sums exact), so code that builds histograms differently (learn/features.ts
+ * evaluates the entropy only at chosen pixels) gets the kernel's values bit for bit.
+ */
+export function entropyTables(maxN: number): EntropyTables {
+  const SCALE = fixedPointScale(maxN);
+  // inc[c] = T[c+1] − T[c] (count c → c + 1); a count c → c − 1 changes S by −inc[c − 1]
+  const T = new Float64Array(maxN + 2);
+  for (let c = 1; c < T.length; c++) T[c] = Math.round(c * Math.log2(c) * SCALE);
+  const inc = new Float64Array(maxN + 1);
+  for (let c = 0; c <= maxN; c++) inc[c] = T[c + 1] - T[c];
+  // H = log2 N − S/N = (T[N] − S) / N: a flat window gives exactly 0
+  const invN = new Float64Array(maxN + 1);
+  for (let n = 1; n <= maxN; n++) invN[n] = 1 / (n * SCALE);
+  return { T, inc, invN };
 }
 
 /** 2^k, k ≤ 40 the largest with N·log2 N · 2^k < 2^52 (all sums of S exact, see above). */
