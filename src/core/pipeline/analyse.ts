@@ -26,7 +26,9 @@ import { compareWithCriticalDistance } from './stages/compare.js';
 import { locateSpecimen } from './stages/locateSpecimen.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
-import { computeTexture, textureWindow } from './stages/texture.js';
+import { computeTexture, textureWindow, type TextureMaps } from './stages/texture.js';
+import { bandUncertainty, methodVariations } from './stages/uncertainty.js';
+import type { Classification } from './stages/classify.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
 import { mergeWarnings } from '../warnings.js';
 import { judgeQuality } from './stages/quality.js';
@@ -94,6 +96,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
   const warnings = [...calibration.warnings, ...location.warnings];
   let boundary: RimBoundary;
+  let auto: { texture: TextureMaps; classification: Classification } | null = null;
   if (p.boundaryPolygon) {
     boundary = manualBoundary(p.boundaryPolygon);
     T.lap('texture', 'band width', 0.8);
@@ -106,6 +109,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     const classification = classifyTexture({ location, texture });
     warnings.push(...classification.warnings);
     boundary = refineRimBoundary({ frame, location, classification, window, nRays: p.nRays });
+    auto = { texture, classification };
     T.lap('boundary', 'band width', 0.85);
   }
   const geometry = storedGeometry(location, boundary, calibration.marks);
@@ -118,15 +122,28 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   });
   warnings.push(...measured.warnings);
   const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY }) : null, p.nRays);
-  const tcd = compareWithCriticalDistance({ params: p, width: band.detected ? band.widthUm : null });
   const scale = assembleScale(decoded, calibration, p);
+  T.lap('measure', 'uncertainty', 0.88);
+  const workPxUm = calibration.scale.umPerPx * frame.lengthScale;
+  const uncertainty = band.detected
+    ? bandUncertainty({
+        band, scale, params: p,
+        origin: boundary.source === 'manual' ? { kind: 'manual' } : { kind: seg ? 'model' : 'auto', workPxUm },
+        variations: auto
+          ? methodVariations({ frame, scale: calibration.scale, location, window, ...auto, marks: calibration.marks, params: p }, band.widthUm?.mean ?? NaN)
+          : { none: boundary.source === 'manual' ? 'a boundary given by a person: no method to vary' : 'segmented with a pixel classifier: the method variations are those of the fixed rules' },
+      })
+    : undefined;
+  if (uncertainty) band.uncertainty = uncertainty;
+  T.lap('uncertainty', 'compare', 0.9);
+  const tcd = compareWithCriticalDistance({ params: p, width: band.detected ? band.widthUm : null, uncertainty: band.uncertainty ?? null });
   const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band, scale });
   const result = assembleResult({
     input, decoded, params: p, calibration, frame, location, window, boundarySource: boundary.source, geometry, scale, band,
     criticalDistance: tcd, warnings: judged.warnings, quality: judged.quality, timingsMs: T.timings,
     ...(seg && options.model ? { model: modelResult(options.model, seg) } : {}),
   });
-  T.lap('measure', 'overlay', 0.95);
+  T.lap('assemble', 'overlay', 0.95);
   const overlay = overlayFor(decoded.raster, result, measured.profile, calibration.bar);
   T.lap('overlay', 'done', 1);
   return { result, overlay };

@@ -10,6 +10,7 @@ import { reportWidths, withMeasurement } from './stages/assemble.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { judgeQuality, RULE_CODES } from './stages/quality.js';
+import { bandUncertainty } from './stages/uncertainty.js';
 import type { MeasureParams } from './types.js';
 
 /** Warnings of the stages that re-measuring runs again (the new run gives them again, or not). */
@@ -50,8 +51,18 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
     });
     warnings = mergeWarnings(warnings, measured.warnings);
     if (measured.profile) result.band = withMeasurement(result.band, reportWidths(measured.profile, { x: result.scale.umPerPxX, y: result.scale.umPerPxY }));
+    const src = result.resolved.boundarySource;
+    const u = bandUncertainty({
+      band: result.band,
+      scale: result.scale,
+      params: p,
+      origin: src === 'manual' ? { kind: 'manual' } : { kind: 'auto', workPxUm: result.scale.umPerPx * result.resolved.workingScaleFactor },
+      variations: { none: 're-measured without the image: measure the image again for the parameter range' },
+    });
+    if (u) result.band.uncertainty = u;
+    else delete result.band.uncertainty;
   }
-  const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null });
+  const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null, uncertainty: result.band.uncertainty ?? null });
   const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: result.band, scale: result.scale });
   return inResultOrder({
     ...result,

@@ -31,6 +31,8 @@ export interface RefineInput {
   window: TextureWindow;
   /** Rays of the measurement; the boundary is refined on at least 360. */
   nRays: number;
+  /** Where the step level sits in its tolerance (segment/refine.ts; default 'mean'). */
+  level?: 'mean' | 'log' | 'std';
 }
 
 /** Refines the classified boundary, or reports why there is none. */
@@ -43,6 +45,7 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
   const refined = refineBoundary(frame.work, location.outer.map((q) => frame.toWork(q)), rc.boundary, location.centerWork, {
     windowPx: input.window.windowPxWork,
     nRays: Math.max(input.nRays, 360),
+    level: input.level,
   });
   return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
 }
