@@ -57,7 +57,11 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       scale: result.scale,
       params: p,
       origin: src === 'manual' ? { kind: 'manual' } : { kind: 'auto', workPxUm: result.scale.umPerPx * result.resolved.workingScaleFactor },
-      variations: { none: 're-measured without the image: measure the image again for the parameter range' },
+      // the method variations need the image: kept from the first measurement while its boundary stands
+      variations:
+        !changes.boundaryPolygon && prev.band.uncertainty?.parameterRangeUm
+          ? prev.band.uncertainty.variations
+          : { none: changes.boundaryPolygon ? 'a boundary edited by hand: no method to vary' : (prev.band.uncertainty?.parameterRangeNote ?? 're-measured without the image: measure the image again for the parameter range') },
     });
     if (u) result.band.uncertainty = u;
     else delete result.band.uncertainty;

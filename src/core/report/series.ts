@@ -20,6 +20,23 @@ import type { BatchEntry } from './csv.js';
 import { compareWidthWithL, type CompareResult } from '../tcd/compare.js';
 
 /**
+ * The group interval: Student t over the per-image means with the between-specimen sd (n ≥ 2), or
+ * the one image's measurement interval (its circumferential interval in results without one).
+ */
+function groupInterval(entries: readonly BatchEntry[], ws: readonly number[], m: number): { ci: [number, number] | null; sd: number | null; ciBasis: SeriesGroup['ciBasis'] } {
+  if (ws.length >= 2) {
+    const sd = sampleSd([...ws]);
+    const h = (studentTInv(0.975, ws.length - 1) * sd) / Math.sqrt(ws.length);
+    return { ci: [m - h, m + h], sd, ciBasis: 'series' };
+  }
+  const band = entries[0].result?.band;
+  const mc = band?.uncertainty?.measurementCi95Um;
+  const c = mc ?? band?.widthUm?.ci95;
+  if (Array.isArray(c) && num(c[0]) !== null && num(c[1]) !== null) return { ci: [c[0], c[1]], sd: null, ciBasis: mc ? 'measurement' : 'circumferential' };
+  return { ci: null, sd: null, ciBasis: null };
+}
+
+/**
  * The group's verdict: mean of the per-image means and the group interval against L with its
  * interval (tcd/compare.ts); L, its interval, the reference and the tolerance from the group's
  * images (all must share one L, else no verdict). Null without an L or an interval.
@@ -156,24 +173,7 @@ export function analyseSeries(entries: readonly BatchEntry[]): SeriesAnalysis {
       const g = byRate.get(rate)!;
       const ws = g.map((p) => p.w);
       const m = mean(ws);
-      let ci: [number, number] | null = null;
-      let sd: number | null = null;
-      let ciBasis: SeriesGroup['ciBasis'] = null;
-      if (g.length >= 2) {
-        sd = sampleSd(ws);
-        const t = studentTInv(0.975, g.length - 1);
-        const h = (t * sd) / Math.sqrt(g.length);
-        ci = [m - h, m + h];
-        ciBasis = 'series';
-      } else {
-        const band = g[0].e.result?.band;
-        const mc = band?.uncertainty?.measurementCi95Um;
-        const c = mc ?? band?.widthUm?.ci95;
-        if (Array.isArray(c) && num(c[0]) !== null && num(c[1]) !== null) {
-          ci = [c[0], c[1]];
-          ciBasis = mc ? 'measurement' : 'circumferential';
-        }
-      }
+      const { ci, sd, ciBasis } = groupInterval(g.map((p) => p.e), ws, m);
       const Ls = g.map((p) => num(p.e.result?.criticalDistance?.L_um)).filter((v): v is number => v !== null);
       const ratios = g.map((p) => num(p.e.result?.comparison?.ratio)).filter((v): v is number => v !== null);
       const verdicts: Record<string, number> = {};
