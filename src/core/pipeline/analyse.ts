@@ -27,7 +27,7 @@ import { locateSpecimen } from './stages/locateSpecimen.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { manualBoundary, refineRimBoundary, type RimBoundary } from './stages/refineBoundary.js';
 import { computeTexture, textureWindow, type TextureMaps } from './stages/texture.js';
-import { bandUncertainty, methodVariations } from './stages/uncertainty.js';
+import { bandUncertainty, MANUAL_RANGE_NOTE, methodVariations } from './stages/uncertainty.js';
 import type { Classification } from './stages/classify.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
 import { mergeWarnings } from '../warnings.js';
@@ -131,7 +131,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
         origin: boundary.source === 'manual' ? { kind: 'manual' } : { kind: seg ? 'model' : 'auto', workPxUm },
         variations: auto
           ? methodVariations({ frame, scale: calibration.scale, location, window, ...auto, marks: calibration.marks, params: p }, band.widthUm?.mean ?? NaN)
-          : { none: boundary.source === 'manual' ? 'a boundary given by a person: no method to vary' : 'segmented with a pixel classifier: the method variations are those of the fixed rules' },
+          : { none: boundary.source === 'manual' ? MANUAL_RANGE_NOTE : 'segmented with a pixel classifier: the method variations are those of the fixed rules' },
       })
     : undefined;
   if (uncertainty) band.uncertainty = uncertainty;

@@ -5,13 +5,24 @@
 import { mergeWarnings, type Warning, type WarningCode } from '../warnings.js';
 import { validateParams } from './params.js';
 import { storedPolygon } from './precision.js';
-import { inResultOrder, type MeasureResult } from './result.js';
+import { inResultOrder, type MeasureResult, type ParameterVariation } from './result.js';
 import { reportWidths, withMeasurement } from './stages/assemble.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { judgeQuality, RULE_CODES } from './stages/quality.js';
-import { bandUncertainty } from './stages/uncertainty.js';
+import { bandUncertainty, MANUAL_RANGE_NOTE } from './stages/uncertainty.js';
 import type { MeasureParams } from './types.js';
+
+/**
+ * The method variations of the first measurement, scaled by the ratio of the new mean width to
+ * the old one (the same boundary at a new scale gives exactly that ratio; other sectors or rays
+ * shift the variations with the mean, an approximation until the image is measured again).
+ */
+function keptVariations(prev: MeasureResult, newMean: number | null): ParameterVariation[] {
+  const old = prev.band.widthUm?.mean;
+  const k = newMean !== null && old ? newMean / old : 1;
+  return (prev.band.uncertainty?.variations ?? []).map((v) => ({ name: v.name, meanUm: v.meanUm === null ? null : v.meanUm * k }));
+}
 
 /** Warnings of the stages that re-measuring runs again (the new run gives them again, or not). */
 const REMADE: ReadonlySet<WarningCode> = new Set<WarningCode>([
@@ -60,8 +71,8 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       // the method variations need the image: kept from the first measurement while its boundary stands
       variations:
         !changes.boundaryPolygon && prev.band.uncertainty?.parameterRangeUm
-          ? prev.band.uncertainty.variations
-          : { none: changes.boundaryPolygon ? 'a boundary edited by hand: no method to vary' : (prev.band.uncertainty?.parameterRangeNote ?? 're-measured without the image: measure the image again for the parameter range') },
+          ? keptVariations(prev, result.band.widthUm?.mean ?? null)
+          : { none: changes.boundaryPolygon ? MANUAL_RANGE_NOTE : (prev.band.uncertainty?.parameterRangeNote ?? 're-measured without the image: measure the image again for the parameter range') },
     });
     if (u) result.band.uncertainty = u;
     else delete result.band.uncertainty;

@@ -37,6 +37,9 @@ import { computeTexture, type FeatureMap, type TextureMaps, type TextureWindow }
 import { createRaster, type GrayRaster } from '../../image/raster.js';
 import { storedGeometry } from './assemble.js';
 
+/** Why a boundary given by a person has no parameter range. */
+export const MANUAL_RANGE_NOTE = 'a boundary given by a person: no method to vary';
+
 /** Systematic placement uncertainty of an automatic boundary, working-copy px (see the module note). */
 export const BOUNDARY_FLOOR_WORK_PX = 0.3;
 /** Systematic placement uncertainty of a drawn boundary, full-resolution px (assumption). */
