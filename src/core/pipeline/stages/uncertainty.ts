@@ -59,9 +59,15 @@ export interface VariationInput {
   params: MeasureParams;
 }
 
-/** Mean width of the band measured on a refined boundary of one variation, or null. */
+/**
+ * Rays of the variation runs: each variation is compared with a baseline run on the same rays, so
+ * only the shift counts; a third of the usual 360 keeps the stage cheap.
+ */
+export const VARIATION_RAYS = 120;
+
+/** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
 function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std'): number | null {
-  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: v.params.nRays, level });
+  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: VARIATION_RAYS, exactRays: VARIATION_RAYS, level });
   if (!boundary.polygon) return null;
   const geometry = storedGeometry(v.location, boundary, v.marks);
   const m = measureWidths({
@@ -69,41 +75,49 @@ function variationMean(v: VariationInput, classification: Classification, window
     umPerPx: { x: v.scale.umPerPxX, y: v.scale.umPerPxY },
     imageSize: v.frame.fullSize,
     minWidthPx: minWidthPxFor('auto', window.windowPxFull),
-    params: { ...v.params, bootstrap: 0 },
+    params: { ...v.params, nRays: VARIATION_RAYS, bootstrap: 0 },
   });
   const s = m.profile?.stats;
   return s && s.n > 0 && Number.isFinite(s.mean) ? s.mean : null;
 }
 
-/** Average of each 2 × 2 block (the last odd row/column dropped): a map at feature scale 2. */
-export function binned2(r: GrayRaster): GrayRaster {
-  const w = r.width >> 1;
-  const h = r.height >> 1;
+/** Working px per feature px of the variations' classifications (maps averaged in BIN × BIN blocks). */
+export const BIN = 3;
+
+/** Average of each k × k block (the last partial rows/columns dropped): a map at feature scale k. */
+export function binned(r: GrayRaster, k: number): GrayRaster {
+  const w = Math.floor(r.width / k);
+  const h = Math.floor(r.height / k);
   const out = createRaster(w, h);
   const d = r.data;
   const W = r.width;
+  const inv = 1 / (k * k);
   for (let y = 0; y < h; y++) {
-    const a = 2 * y * W;
     for (let x = 0; x < w; x++) {
-      const i = a + 2 * x;
-      out.data[y * w + x] = 0.25 * (d[i] + d[i + 1] + d[i + W] + d[i + W + 1]);
+      let sum = 0;
+      for (let j = 0; j < k; j++) {
+        const row = (k * y + j) * W + k * x;
+        for (let i = 0; i < k; i++) sum += d[row + i];
+      }
+      out.data[y * w + x] = sum * inv;
     }
   }
   return out;
 }
 
-/** Classification of binned maps (feature scale 2): a coarse seed for the refinement, a quarter of the pixels. */
+/** Classification of binned maps (feature scale {@link BIN}): a coarse seed for the refinement on 1/BIN² of the pixels. */
 function classifyBinned(v: VariationInput, maps: readonly FeatureMap[], brightness: GrayRaster, window: TextureWindow): Classification {
-  const texture: TextureMaps = { window, maps: maps.map((m) => ({ name: m.name, raster: binned2(m.raster) })), brightness: binned2(brightness) };
-  return classifyTexture({ location: v.location, texture, featureScale: 2 });
+  const texture: TextureMaps = { window, maps: maps.map((m) => ({ name: m.name, raster: binned(m.raster, BIN) })), brightness: binned(brightness, BIN) };
+  return classifyTexture({ location: v.location, texture, featureScale: BIN });
 }
 
 /**
  * The method variations of the parameter range (see the module note), in a fixed order. The
- * window and feature variations classify on 2 × 2-binned feature maps (a quarter of the pixels;
+ * window and feature variations classify on BIN × BIN-binned feature maps (1/9 of the pixels;
  * the classification only seeds the refinement, which runs on the working copy as always), and
  * each reports the mean plus its shift from a baseline classified the same way, so the binning
- * itself moves nothing. The level variations refine the boundary of the measurement itself.
+ * itself moves nothing. The level variations refine the classification of the measurement itself,
+ * against a baseline refined from it at the middle level. Every run uses {@link VARIATION_RAYS} rays.
  */
 export function methodVariations(v: VariationInput, meanUm: number): ParameterVariation[] {
   const out: ParameterVariation[] = [];
@@ -128,8 +142,11 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
       out.push(shifted(`without ${left.name}`, classifyBinned(v, maps, v.texture.brightness, v.window), v.window));
     }
   }
-  out.push({ name: 'boundary level: log-variance midpoint', meanUm: variationMean(v, v.classification, v.window, 'log') });
-  out.push({ name: 'boundary level: standard-deviation midpoint', meanUm: variationMean(v, v.classification, v.window, 'std') });
+  const levelBase = variationMean(v, v.classification, v.window, 'mean');
+  for (const [level, name] of [['log', 'boundary level: log-variance midpoint'], ['std', 'boundary level: standard-deviation midpoint']] as const) {
+    const m = levelBase === null ? null : variationMean(v, v.classification, v.window, level);
+    out.push({ name, meanUm: m === null || levelBase === null ? null : meanUm + (m - levelBase) });
+  }
   return out;
 }
 
