@@ -66,8 +66,9 @@ export interface VariationInput {
 export const VARIATION_RAYS = 120;
 
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
-function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std'): number | null {
-  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: VARIATION_RAYS, exactRays: VARIATION_RAYS, level });
+function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
+  const full = rays !== VARIATION_RAYS;
+  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level });
   if (!boundary.polygon) return null;
   const geometry = storedGeometry(v.location, boundary, v.marks);
   const m = measureWidths({
@@ -75,7 +76,7 @@ function variationMean(v: VariationInput, classification: Classification, window
     umPerPx: { x: v.scale.umPerPxX, y: v.scale.umPerPxY },
     imageSize: v.frame.fullSize,
     minWidthPx: minWidthPxFor('auto', window.windowPxFull),
-    params: { ...v.params, nRays: VARIATION_RAYS, bootstrap: 0 },
+    params: { ...v.params, nRays: full ? v.params.nRays : rays, bootstrap: 0 },
   });
   const s = m.profile?.stats;
   return s && s.n > 0 && Number.isFinite(s.mean) ? s.mean : null;
@@ -116,8 +117,9 @@ function classifyBinned(v: VariationInput, maps: readonly FeatureMap[], brightne
  * window and feature variations classify on BIN × BIN-binned feature maps (1/9 of the pixels;
  * the classification only seeds the refinement, which runs on the working copy as always), and
  * each reports the mean plus its shift from a baseline classified the same way, so the binning
- * itself moves nothing. The level variations refine the classification of the measurement itself,
- * against a baseline refined from it at the middle level. Every run uses {@link VARIATION_RAYS} rays.
+ * itself moves nothing; they use {@link VARIATION_RAYS} rays. The level variations refine the
+ * classification of the measurement itself on its own rays (their spread h enters the measurement
+ * interval, so it is taken at full resolution; the measurement is their middle level).
  */
 export function methodVariations(v: VariationInput, meanUm: number): ParameterVariation[] {
   const out: ParameterVariation[] = [];
@@ -142,11 +144,10 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
       out.push(shifted(`without ${left.name}`, classifyBinned(v, maps, v.texture.brightness, v.window), v.window));
     }
   }
-  const levelBase = variationMean(v, v.classification, v.window, 'mean');
-  for (const [level, name] of [['log', 'boundary level: log-variance midpoint'], ['std', 'boundary level: standard-deviation midpoint']] as const) {
-    const m = levelBase === null ? null : variationMean(v, v.classification, v.window, level);
-    out.push({ name, meanUm: m === null || levelBase === null ? null : meanUm + (m - levelBase) });
-  }
+  // the level ends enter the measurement interval (h): refined on the measurement's own rays
+  const rays = Math.max(v.params.nRays, 360);
+  out.push({ name: 'boundary level: log-variance midpoint', meanUm: variationMean(v, v.classification, v.window, 'log', rays) });
+  out.push({ name: 'boundary level: standard-deviation midpoint', meanUm: variationMean(v, v.classification, v.window, 'std', rays) });
   return out;
 }
 
