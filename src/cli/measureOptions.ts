@@ -43,6 +43,8 @@ export interface MeasureCliOptions {
   strainRate?: string;
   reference?: string;
   tolerance?: string;
+  verdictBasis?: string;
+  pixelSizeTolerance?: string;
   model?: string;
 }
 
@@ -74,6 +76,8 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--strain-rate <1/s>', 'strain rate of the test in 1/s (selects L(ε̇) for dynamic materials)')
     .option('--reference <L|L/2|2L>', 'what the band width is compared with', 'L')
     .option('--tolerance <percent>', 'agreement band ±X % around the reference (20 % is common practice)', '20')
+    .option('--verdict-basis <basis>', 'width interval the comparison with L uses: measurement (this specimen), circumferential, or measurement+method', 'measurement')
+    .option('--pixel-size-tolerance <percent>', 'tolerance of a typed or metadata pixel size, half-width of its 95 % interval in % (default 0.5)')
     .option('--model <file.json>', 'segment with a pixel classifier made by `fractozone teach` (fractozone.model/1) instead of the fixed rules');
 }
 
@@ -179,5 +183,7 @@ export function paramsFromOptions(o: MeasureCliOptions, base: MeasureParams = de
   if (mat) p.material = mat;
   if (o.reference !== undefined) p.reference = o.reference as MeasureParams['reference'];
   if (o.tolerance !== undefined) p.tolerancePct = num(o.tolerance, '--tolerance') as number;
+  if (o.verdictBasis !== undefined) p.verdictBasis = o.verdictBasis as MeasureParams['verdictBasis'];
+  if (o.pixelSizeTolerance !== undefined) p.scale.pixelSizeTolerancePct = num(o.pixelSizeTolerance.replace(/\s*%$/, ''), '--pixel-size-tolerance') as number;
   return validateParams(p);
 }

@@ -26,6 +26,7 @@ function criticalDistance(L: number): ResolvedDistance {
   return {
     L_um: L,
     interval95_um: [0.9 * L, 1.1 * L],
+    intervalNote: null,
     median_um: L,
     deltaInterval95_um: [0.9 * L, 1.1 * L],
     pointDistance_um: L / 2,

@@ -29,6 +29,15 @@ function bandLines(s: ResultSummary): string[] {
     `                 median ${f1(b.median)} µm (95 % CI ${f1(b.medianCi95.lo)}–${f1(b.medianCi95.hi)} µm), sd ${f1(b.sd)} µm`,
     `                 min ${f1(b.min)} µm, p05 ${f1(b.p05)} µm, p95 ${f1(b.p95)} µm, max ${f1(b.max)} µm`,
   ];
+  const u = b.uncertainty;
+  if (u) {
+    const half = u.measurement.lo !== null && u.measurement.hi !== null ? (u.measurement.hi - u.measurement.lo) / 2 : null;
+    const range = u.parameterRange ? `method choices move it ${f1(u.parameterRange.lo)}–${f1(u.parameterRange.hi)} µm` : `no parameter range (${u.rangeNote})`;
+    lines.push(
+      `  uncertainty    this specimen ${f1(b.mean)} ± ${f1(half)} µm (95 % measurement interval ${f1(u.measurement.lo)}–${f1(u.measurement.hi)} µm); ${range}`,
+      `                 budget (standard uncertainties): ${u.budget}; circumferential 95 % CI ${f1(u.circumferential.lo)}–${f1(u.circumferential.hi)} µm`,
+    );
+  }
   if (b.normalMean) lines.push(`  normal width   mean ${f1(b.normalMean)} µm (along the inward normal of the outer edge)`);
   if (b.areaEquivalent) lines.push(`  area width     ${f1(b.areaEquivalent)} µm (area-equivalent)`);
   if (s.separability) lines.push(`  separability   Fisher ratio ${formatValue(s.separability.fisher.value, 2)}, histogram overlap ${formatValue(s.separability.overlap.value, 3)}`);
@@ -41,12 +50,13 @@ function criticalDistanceLines(s: ResultSummary): string[] {
   const cd = s.criticalDistance;
   if (cd) {
     const iv = cd.interval95 ? `, 95 % interval ${f1(cd.interval95.lo)}–${f1(cd.interval95.hi)} µm` : '';
-    lines.push(`  critical dist. L = ${f1(cd.L)} µm${iv} [${cd.basis}]`);
+    lines.push(`  critical dist. L = ${f1(cd.L)} µm${iv} [${cd.basis}]${cd.intervalNote ? `; ${cd.intervalNote}` : ''}`);
   }
   const c = s.comparison;
   if (c) {
     const f3 = (v: number | null): string => formatValue(v, 3);
     lines.push(`  comparison     w/${c.reference} = ${f3(c.ratio.value)} (95 % ${f3(c.ratioInterval95.lo)}–${f3(c.ratioInterval95.hi)}): ${c.verdict} (±${c.tolerancePct} %)`);
+    lines.push(`                 ${c.basisNote}`);
     if (c.impliedToughness) lines.push(`  implied K      ${formatValue(c.impliedToughness.value, 2)} MPa·√m (from the width taken as ${c.reference})`);
   }
   return lines;

@@ -31,6 +31,9 @@ import { measureWidths, minWidthPxFor, type StoredGeometry } from './stages/meas
 import { findRimBoundary } from './stages/band.js';
 import { manualBoundary, type RimBoundary } from './stages/refineBoundary.js';
 import { textureWindow, type TextureWindow } from './stages/texture.js';
+import { bandUncertainty, MANUAL_RANGE_NOTE, methodVariations } from './stages/uncertainty.js';
+import type { Classification } from './stages/classify.js';
+import type { TextureMaps } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
 import { mergeWarnings, warn, type Warning } from '../warnings.js';
 import { judgeQuality } from './stages/quality.js';
@@ -102,10 +105,12 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const windowUm = p.windowUm ?? (seg ? seg.windowUm : null);
   const window0 = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });
   const umPerPx = { x: calibration.scale.umPerPxX, y: calibration.scale.umPerPxY };
+  const scale = assembleScale(decoded, calibration, p);
   const measureSpecimen = (loc: SpecimenLocation, first: boolean): MeasuredSpecimen => {
     const own = [...loc.warnings];
     let boundary: RimBoundary;
     let window: TextureWindow = window0;
+    let auto: { texture: TextureMaps; classification: Classification } | null = null;
     if (first && p.boundaryPolygon) {
       boundary = manualBoundary(p.boundaryPolygon);
       T.lap('texture', 'band width', 0.8);
@@ -118,20 +123,33 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
       own.push(...found.warnings);
       boundary = found.boundary;
       window = found.window;
+      auto = { texture: found.texture, classification: found.classification };
       if (first) T.lap('texture+boundary', 'band width', 0.85);
     }
     const geometry = storedGeometry(loc, boundary, calibration.marks);
     const measured = measureWidths({ geometry, umPerPx, imageSize: frame.fullSize, minWidthPx: minWidthPxFor(boundary.source, window.windowPxFull), params: p });
     own.push(...measured.warnings);
     const band = assembleBand(boundary, geometry, measured.profile ? reportWidths(measured.profile, umPerPx) : null, p.nRays);
+    // uncertainty of this specimen's mean width (stages/uncertainty.ts)
+    const workPxUm = calibration.scale.umPerPx * frame.lengthScale;
+    const uncertainty = band.detected
+      ? bandUncertainty({
+          band, scale, params: p,
+          origin: boundary.source === 'manual' ? { kind: 'manual' } : { kind: seg ? 'model' : 'auto', workPxUm },
+          variations: auto
+            ? methodVariations({ frame, scale: calibration.scale, location: loc, window, ...auto, marks: calibration.marks, params: p }, band.widthUm?.mean ?? NaN)
+            : { none: boundary.source === 'manual' ? MANUAL_RANGE_NOTE : 'segmented with a pixel classifier: the method variations are those of the fixed rules' },
+        })
+      : undefined;
+    if (uncertainty) band.uncertainty = uncertainty;
+    if (first) T.lap('measure+uncertainty', 'compare', 0.9);
     return { location: loc, boundary, geometry, profile: measured.profile, band, warnings: own, window };
   };
   const all = located.locations.map((loc, i) => measureSpecimen(loc, i === 0));
   const a = all[0];
   const window = a.window;
   const warnings = [...calibration.warnings, ...a.warnings];
-  const tcd = compareWithCriticalDistance({ params: p, width: a.band.detected ? a.band.widthUm : null });
-  const scale = assembleScale(decoded, calibration, p);
+  const tcd = compareWithCriticalDistance({ params: p, width: a.band.detected ? a.band.widthUm : null, uncertainty: a.band.uncertainty ?? null });
   const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: a.band, scale });
   let result = assembleResult({
     input, decoded, params: p, calibration, frame, location, window, boundarySource: a.boundary.source, geometry: a.geometry, scale, band: a.band,

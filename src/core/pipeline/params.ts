@@ -4,13 +4,13 @@
  */
 import { FractozoneError } from '../errors.js';
 import { checkFeatureNames, DEFAULT_FEATURES } from '../texture/registry.js';
-import type { MeasureParams } from './types.js';
+import { DEFAULT_PIXEL_SIZE_TOLERANCE_PCT, type MeasureParams, type VerdictBasis } from './types.js';
 
 export { DEFAULT_FEATURES };
 
 export function defaultParams(): MeasureParams {
   return {
-    scale: { useMetadata: true },
+    scale: { useMetadata: true, pixelSizeTolerancePct: DEFAULT_PIXEL_SIZE_TOLERANCE_PCT },
     windowUm: null,
     features: [...DEFAULT_FEATURES],
     nRays: 360,
@@ -25,8 +25,12 @@ export function defaultParams(): MeasureParams {
     strainRatePerS: null,
     reference: 'L',
     tolerancePct: 20,
+    verdictBasis: 'measurement',
   };
 }
+
+/** The width intervals the comparison with L can use. */
+export const VERDICT_BASES: readonly VerdictBasis[] = ['measurement', 'circumferential', 'measurement+method'];
 
 function bad(message: string): never {
   throw new FractozoneError('BAD_PARAMETER', message);
@@ -62,6 +66,10 @@ export function validateParams(p: MeasureParams): MeasureParams {
   if (p.strainRatePerS !== null) positive(p.strainRatePerS, 'strain rate (1/s)');
   if (!['L', 'L/2', '2L'].includes(p.reference)) bad(`reference must be L, L/2 or 2L, got ${p.reference}`);
   positive(p.tolerancePct, 'tolerance (%)');
+  if (p.scale.pixelSizeTolerancePct !== undefined && !(Number.isFinite(p.scale.pixelSizeTolerancePct) && p.scale.pixelSizeTolerancePct >= 0 && p.scale.pixelSizeTolerancePct < 50)) {
+    bad(`pixel-size tolerance must be a number of percent from 0 to 50, got ${String(p.scale.pixelSizeTolerancePct)}`);
+  }
+  if (p.verdictBasis !== undefined && !VERDICT_BASES.includes(p.verdictBasis)) bad(`verdict basis must be ${VERDICT_BASES.join(', ')}, got ${String(p.verdictBasis)}`);
   if (p.boundaryPolygon !== null) {
     if (!Array.isArray(p.boundaryPolygon) || p.boundaryPolygon.length < 3) {
       throw new FractozoneError('BAD_BOUNDARY', 'a boundary polygon needs at least 3 points');

@@ -5,13 +5,44 @@
 import { mergeWarnings, type Warning, type WarningCode } from '../warnings.js';
 import { validateParams } from './params.js';
 import { storedPolygon } from './precision.js';
-import { inResultOrder, type BoundarySource, type MeasureResult, type ResultBand, type ResultSpecimen, type ResultSpecimenRecord } from './result.js';
+import { inResultOrder, type BoundarySource, type MeasureResult, type ResultBand, type ResultSpecimen, type ResultSpecimenRecord, type ParameterVariation } from './result.js';
 import { COMPARISON_CODES, specimenRecord, withSpecimens } from './specimens.js';
 import { reportWidths, withMeasurement } from './stages/assemble.js';
 import { compareWithCriticalDistance } from './stages/compare.js';
 import { measureWidths, minWidthPxFor } from './stages/measure.js';
 import { judgeQuality, RULE_CODES } from './stages/quality.js';
+import { bandUncertainty, MANUAL_RANGE_NOTE } from './stages/uncertainty.js';
 import type { MeasureParams } from './types.js';
+
+/**
+ * The method variations of the first measurement, scaled by the ratio of the new mean width to
+ * the old one (the same boundary at a new scale gives exactly that ratio; other sectors or rays
+ * shift the variations with the mean, an approximation until the image is measured again).
+ */
+function keptVariations(prev: ResultBand, newMean: number | null): ParameterVariation[] {
+  const old = prev.widthUm?.mean;
+  const k = newMean !== null && old ? newMean / old : 1;
+  return (prev.uncertainty?.variations ?? []).map((v) => ({ name: v.name, meanUm: v.meanUm === null ? null : v.meanUm * k }));
+}
+
+/**
+ * The uncertainty block of a re-measured band (in place): the method variations need the image, so
+ * they are kept from the first measurement while its boundary stands.
+ */
+function withUncertainty(r: MeasureResult, band: ResultBand, prev: ResultBand, src: BoundarySource, p: MeasureParams, boundaryEdited: boolean): void {
+  const u = bandUncertainty({
+    band,
+    scale: r.scale,
+    params: p,
+    origin: src === 'manual' ? { kind: 'manual' } : { kind: 'auto', workPxUm: r.scale.umPerPx * r.resolved.workingScaleFactor },
+    variations:
+      !boundaryEdited && prev.uncertainty?.parameterRangeUm
+        ? keptVariations(prev, band.widthUm?.mean ?? null)
+        : { none: boundaryEdited ? MANUAL_RANGE_NOTE : (prev.uncertainty?.parameterRangeNote ?? 're-measured without the image: measure the image again for the parameter range') },
+  });
+  if (u) band.uncertainty = u;
+  else delete band.uncertainty;
+}
 
 /** Warnings of the stages that re-measuring runs again (the new run gives them again, or not). */
 const REMADE: ReadonlySet<WarningCode> = new Set<WarningCode>([
@@ -48,8 +79,9 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
     measuredA = again.warnings;
     warnings = mergeWarnings(warnings, again.warnings);
     result.band = again.band;
+    withUncertainty(result, result.band, prev.band, result.resolved.boundarySource, p, !!changes.boundaryPolygon);
   }
-  const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null });
+  const tcd = compareWithCriticalDistance({ params: p, width: result.band.detected ? result.band.widthUm : null, uncertainty: result.band.uncertainty ?? null });
   const judged = judgeQuality({ warnings: mergeWarnings(warnings, tcd.warnings), band: result.band, scale: result.scale });
   let out: MeasureResult = {
     ...result,
@@ -67,6 +99,7 @@ export function remeasure(prev: MeasureResult, changes: Partial<MeasureParams>):
       if (i === 0) return specimenRecord(rec.id, result.specimen, result.band, mergeWarnings(own, measuredA), result.scale);
       if (!rec.band.boundary) return specimenRecord(rec.id, rec.specimen, rec.band, own, result.scale);
       const again = measureAgain(result, rec.specimen, rec.band, rec.band.boundary.source, p);
+      withUncertainty(result, again.band, rec.band, rec.band.boundary.source, p, false);
       return specimenRecord(rec.id, rec.specimen, again.band, mergeWarnings(own, again.warnings), result.scale);
     });
     out = withSpecimens(out, records);

@@ -18,7 +18,7 @@ import type { CompareResult, ImpliedToughness } from '../tcd/compare.js';
 import type { ResolvedDistance } from '../tcd/resolve.js';
 import type { FeatureName } from '../texture/registry.js';
 import type { Warning } from '../warnings.js';
-import type { MeasureParams } from './types.js';
+import type { MeasureParams, VerdictBasis } from './types.js';
 
 /** Schema name and version of {@link MeasureResult}; a change of the result bumps it. */
 export const RESULT_SCHEMA = 'fractozone.result/2' as const;
@@ -200,6 +200,54 @@ export interface NormalWidthSummary {
   n: number;
 }
 
+/** One method variation of the parameter range and the mean width it gave (µm; null: no band). */
+export interface ParameterVariation {
+  /** e.g. "window ×0.7", "without localEntropy", "boundary level: log midpoint". */
+  name: string;
+  meanUm: number | null;
+}
+
+/** One localisation source of the measurement budget (measure/uncertainty.ts), µm. */
+export interface LocalisationBudget {
+  sdUm: number;
+  randomSdUm: number;
+  systematicSdUm: number;
+  perRaySdUm: number;
+  /** Integrated autocorrelation time of the residual profile, rays. */
+  correlationRays: number;
+  /** Share of the combined variance, %. */
+  sharePct: number;
+}
+
+/** What the measurement interval is made of: each source's standard uncertainty and share. */
+export interface UncertaintyBudget {
+  boundary: LocalisationBudget;
+  outerEdge: LocalisationBudget;
+  scale: { sdUm: number; relativeSdPct: number; sharePct: number; detail: string };
+  /** √(Σ u²), µm; the interval is mean ± coverageFactor·combinedSdUm. */
+  combinedSdUm: number;
+  coverageFactor: number;
+}
+
+/**
+ * The uncertainty of the band's mean width, answering three questions (README, "Uncertainty"):
+ * where this specimen's mean lies (`measurementCi95Um`), how far a sample of the circumference
+ * would scatter (`circumferentialCi95Um`, the interval of `widthUm.ci95`), and how much the
+ * method's choices move it (`parameterRangeUm`).
+ */
+export interface BandUncertainty {
+  /** 95 % interval of this specimen's circumferential mean: placement of boundary and outer edge, and scale. */
+  measurementCi95Um: [number, number];
+  /** 95 % interval of the mean of w(θ) as a random process (effective sample size); = widthUm.ci95. */
+  circumferentialCi95Um: [number, number];
+  /** Min and max of the mean over the method variations (and the mean itself), or null (see the note). */
+  parameterRangeUm: [number, number] | null;
+  /** What the range covers, or why there is none. */
+  parameterRangeNote: string;
+  variations: ParameterVariation[];
+  budget: UncertaintyBudget;
+}
+
 /** The smooth rim band: boundary, width profile and statistics. */
 export interface ResultBand {
   detected: boolean;
@@ -216,6 +264,8 @@ export interface ResultBand {
   profile: RayResult[];
   /** Null for a manual boundary (no classification ran). */
   separability: SeparabilitySummary | null;
+  /** Present when a width was measured (results written before it lack it). */
+  uncertainty?: BandUncertainty;
 }
 
 /** The pixel classifier a result was segmented with (`measure --model`; learn/). */
@@ -238,8 +288,21 @@ export interface ResultModel {
   confidence: { boundary: number | null; outerEdge: number };
 }
 
+/** Which intervals the comparison with L used. */
+export interface ComparisonBasis {
+  /** The width interval: 'measurement' (default), 'circumferential' or 'measurement+method'. */
+  width: VerdictBasis;
+  widthCi95Um: [number, number];
+  /** Whether L had an interval ('none': L taken as exact; the note says why). */
+  L: 'interval' | 'none';
+  /** One sentence naming both. */
+  note: string;
+}
+
 /** The width held against L, L/2 or 2L, and the toughness the width implies. */
 export interface Comparison extends CompareResult {
+  /** Absent in results written before it (the circumferential interval was used then). */
+  basis?: ComparisonBasis;
   impliedToughness_MPa_sqrtm: ImpliedToughness | null;
 }
 

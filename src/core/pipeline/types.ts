@@ -20,7 +20,22 @@ export interface ScaleParams {
   twoPoint?: { p0: PointPx; p1: PointPx; distanceUm: number };
   /** Take the pixel size from TIFF/PNG metadata when it describes a physical size (default true). */
   useMetadata?: boolean;
+  /**
+   * Tolerance of a typed or metadata pixel size, percent: half-width of its 95 % interval, used in
+   * the measurement interval (default {@link DEFAULT_PIXEL_SIZE_TOLERANCE_PCT}).
+   */
+  pixelSizeTolerancePct?: number;
 }
+
+/** Default tolerance of a typed pixel size, % (a calibrated microscope objective; common practice, no source). */
+export const DEFAULT_PIXEL_SIZE_TOLERANCE_PCT = 0.5;
+
+/**
+ * Which width interval the comparison with L uses: 'measurement' (default: this specimen's
+ * measurement interval), 'circumferential' (the mean of w(θ) as a random process) or
+ * 'measurement+method' (the measurement interval widened by the parameter range).
+ */
+export type VerdictBasis = 'measurement' | 'circumferential' | 'measurement+method';
 
 /**
  * What the critical distance is computed from: a material sheet entry (as parsed by
@@ -69,6 +84,8 @@ export interface MeasureParams {
   strainRatePerS: number | null;
   reference: 'L' | 'L/2' | '2L';
   tolerancePct: number;
+  /** Width interval the verdict uses (default 'measurement'; see {@link VerdictBasis}). */
+  verdictBasis?: VerdictBasis;
 }
 
 /** The file being measured, as the shell names it. */

@@ -46,7 +46,10 @@ export type Cell = string | number | boolean | null;
 /**
  * The fixed columns of `results.csv`, in order. Lengths in µm, rates in 1/s, units in the names.
  * `quality` is the result's verdict (ok, check, unreliable), `warning_codes` its warning codes
- * separated by `;` (core/warnings.ts).
+ * separated by `;` (core/warnings.ts). `width_ci95_*` and `circumferential_ci95_*` are the same
+ * interval (the old name is kept); `measurement_ci95_*` is this specimen's measurement interval,
+ * `u_*_um` its budget (standard uncertainties), `verdict_width_basis` the width interval the
+ * verdict used, `L_interval_note` why L has no interval (empty when it has one).
  */
 export const RESULT_COLUMNS = [
   'file',
@@ -64,6 +67,15 @@ export const RESULT_COLUMNS = [
   'width_ci95_lo_um',
   'width_ci95_hi_um',
   'width_n_rays',
+  'measurement_ci95_lo_um',
+  'measurement_ci95_hi_um',
+  'circumferential_ci95_lo_um',
+  'circumferential_ci95_hi_um',
+  'parameter_range_lo_um',
+  'parameter_range_hi_um',
+  'u_boundary_um',
+  'u_outer_edge_um',
+  'u_scale_um',
   'radius_um',
   'separability_fisher',
   'separability_overlap',
@@ -82,6 +94,8 @@ export const RESULT_COLUMNS = [
   'halves_width_mean_b_um',
   'halves_difference_um',
   'halves_difference_pct',
+  'verdict_width_basis',
+  'L_interval_note',
   'specimen_id',
   'notch',
   'notch_root_radius_mm',
@@ -123,6 +137,7 @@ export function metadataColumns(entries: readonly BatchEntry[]): string[] {
 export function entryRow(entry: BatchEntry): BatchRow {
   const r = entry.result;
   const w = r?.band.widthUm;
+  const u = r?.band.uncertainty;
   const ok = entry.status === 'ok';
   const sep = r?.band.separability;
   const row: BatchRow = {
@@ -142,6 +157,15 @@ export function entryRow(entry: BatchEntry): BatchRow {
     width_ci95_lo_um: ok ? pair(w?.ci95, 0) : null,
     width_ci95_hi_um: ok ? pair(w?.ci95, 1) : null,
     width_n_rays: ok ? finite(w?.n) : null,
+    measurement_ci95_lo_um: ok ? pair(u?.measurementCi95Um, 0) : null,
+    measurement_ci95_hi_um: ok ? pair(u?.measurementCi95Um, 1) : null,
+    circumferential_ci95_lo_um: ok ? pair(u?.circumferentialCi95Um ?? w?.ci95, 0) : null,
+    circumferential_ci95_hi_um: ok ? pair(u?.circumferentialCi95Um ?? w?.ci95, 1) : null,
+    parameter_range_lo_um: ok ? pair(u?.parameterRangeUm, 0) : null,
+    parameter_range_hi_um: ok ? pair(u?.parameterRangeUm, 1) : null,
+    u_boundary_um: ok ? finite(u?.budget.boundary.sdUm) : null,
+    u_outer_edge_um: ok ? finite(u?.budget.outerEdge.sdUm) : null,
+    u_scale_um: ok ? finite(u?.budget.scale.sdUm) : null,
     radius_um: finite(r?.specimen.radiusUm),
     separability_fisher: finite(sep?.fisher),
     separability_overlap: finite(sep?.overlap),
@@ -161,6 +185,8 @@ export function entryRow(entry: BatchEntry): BatchRow {
     halves_width_mean_b_um: finite(r?.halves?.meanWidthsUm[1]),
     halves_difference_um: finite(r?.halves?.differenceUm),
     halves_difference_pct: finite(r?.halves?.relativeDifferencePct),
+    verdict_width_basis: r?.comparison ? (r.comparison.basis?.width ?? 'circumferential') : null,
+    L_interval_note: r?.criticalDistance?.intervalNote ?? null,
     specimen_id: entry.metadata.specimen_id ?? null,
     notch: entry.metadata.notch ?? null,
     notch_root_radius_mm: entry.metadata.notch_root_radius_mm ?? null,

@@ -71,6 +71,8 @@ function summaryRow(e: BatchEntry): string {
     `<td class="n">${w ? cell(w.median) : '—'}</td>`,
     `<td class="n">${w ? cell(w.sd) : '—'}</td>`,
     `<td class="n">${w && w.ci95.lo !== null && w.ci95.hi !== null ? interval([w.ci95.lo, w.ci95.hi], w.ci95.unit) : '—'}</td>`,
+    `<td class="n">${w?.uncertainty && w.uncertainty.measurement.lo !== null && w.uncertainty.measurement.hi !== null ? interval([w.uncertainty.measurement.lo, w.uncertainty.measurement.hi], 'µm') : '—'}</td>`,
+    `<td class="n">${w?.uncertainty?.parameterRange && w.uncertainty.parameterRange.lo !== null && w.uncertainty.parameterRange.hi !== null ? interval([w.uncertainty.parameterRange.lo, w.uncertainty.parameterRange.hi], 'µm') : '—'}</td>`,
     `<td class="n">${cell(s?.specimen.radius)}</td>`,
     `<td class="n">${cell(s?.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
@@ -123,7 +125,9 @@ export function buildReportHtml(input: ReportInput): string {
           .sort(([a], [b]) => (a < b ? -1 : 1))
           .map(([k, c]) => `${esc(k)}: ${c}`)
           .join(', ');
-        return `<tr class="group-row"><td>${esc(g.notch)}</td><td class="n">${n(g.strainRatePerS, '1/s')}</td><td class="n">${g.n}</td><td class="n">${n(g.meanWidthUm, 'µm')}</td><td class="n">${g.ci95Um ? interval(g.ci95Um, 'µm') : '—'}</td><td class="n">${n(g.L_um, 'µm')}</td><td class="n">${n(g.ratio)}</td><td>${v || '—'}</td></tr>`;
+        const sv = g.seriesVerdict;
+        const svCell = sv ? `<span title="${esc(sv.note)}">${esc(sv.verdict)}</span>` : '—';
+        return `<tr class="group-row"><td>${esc(g.notch)}</td><td class="n">${n(g.strainRatePerS, '1/s')}</td><td class="n">${g.n}</td><td class="n">${n(g.meanWidthUm, 'µm')}</td><td class="n">${g.ci95Um ? interval(g.ci95Um, 'µm') : '—'}${g.ciBasis && g.ciBasis !== 'series' ? ` <span class="muted">(${esc(g.ciBasis)})</span>` : ''}</td><td class="n">${n(g.sdUm, 'µm')}</td><td class="n">${n(g.L_um, 'µm')}</td><td class="n">${n(g.ratio)}</td><td>${svCell}</td><td>${v || '—'}</td></tr>`;
       }),
     )
     .join('');
@@ -139,14 +143,14 @@ export function buildReportHtml(input: ReportInput): string {
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
 <div class="caution"><strong>Caution.</strong> ${escapeText(CAUTION)}</div>
 <h2>Summary</h2>
-<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
+<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>95 % measurement interval</th><th>parameter range</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>
 <h2>Series: band width against strain rate</h2>
 ${seriesPlotSvg(series)}
 <p class="muted">Points: mean of the per-image mean widths per notch and strain rate; bars: 95 % interval (Student t over images, or the image's own interval for a single image). Dashed: power law w = A·ε̇^B fitted on log10 w against log10 ε̇. Black: the material's critical distance L(ε̇) from the results.</p>
 <table id="fits"><thead><tr><th>notch</th><th>A (width at 1 1/s)</th><th>B (exponent)</th><th>R²</th><th>images</th><th>note</th></tr></thead><tbody>${fitRows || '<tr><td colspan="6">no series</td></tr>'}</tbody></table>
 <h3>Agreement per notch and strain rate</h3>
-<table id="groups"><thead><tr><th>notch</th><th>strain rate</th><th>images</th><th>mean width</th><th>95 % CI</th><th>L</th><th>mean width / reference</th><th>verdicts</th></tr></thead><tbody>${groupRows || '<tr><td colspan="8">no group</td></tr>'}</tbody></table>
+<table id="groups"><thead><tr><th>notch</th><th>strain rate</th><th>images</th><th>mean width</th><th>95 % CI (series)</th><th>between-specimen SD</th><th>L</th><th>mean width / reference</th><th>series verdict</th><th>verdicts</th></tr></thead><tbody>${groupRows || '<tr><td colspan="10">no group</td></tr>'}</tbody></table>
 ${excluded}
 <p class="muted">Images without a notch value are grouped as “${esc(NO_NOTCH)}”.</p>
 <h2>Images</h2>

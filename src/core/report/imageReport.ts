@@ -95,12 +95,23 @@ function materialInputs(r: MeasureResult): [string, string][] {
 
 /** Why L has no interval, in one phrase. */
 function noIntervalReason(cd: NonNullable<MeasureResult['criticalDistance']>): string {
+  if (cd.intervalNote) return cd.intervalNote;
   if (cd.basis === 'strain-rate law for L') return 'none: the strain-rate law carries no scatter';
   return 'none: give the sd (or an interval) of K_c or σ₀';
 }
 
 const fig = (f: Figure | null | undefined, digits = 4): string => num(f?.value, f?.unit ?? '', digits);
 const ivl = (f: IntervalFigure | null | undefined, digits = 4): string => (f && f.lo !== null && f.hi !== null ? range([f.lo, f.hi], f.unit, digits) : '—');
+
+function uncertaintyRows(b: Extract<ResultSummary['band'], { detected: true }>): [string, string][] {
+  const u = b.uncertainty;
+  if (!u) return [];
+  return [
+    [`${u.measurement.label} (this specimen)`, `${ivl(u.measurement)} <span class="muted">(${esc(u.budget)})</span>`],
+    [`${u.circumferential.label} (w(θ) as a random process)`, ivl(u.circumferential)],
+    ['parameter range (method choices)', u.parameterRange ? `${ivl(u.parameterRange)} <span class="muted">(${esc(u.rangeNote)})</span>` : esc(u.rangeNote)],
+  ];
+}
 
 function widthRows(r: MeasureResult, s: ResultSummary): [string, string][] {
   const b = s.band;
@@ -109,6 +120,7 @@ function widthRows(r: MeasureResult, s: ResultSummary): [string, string][] {
   return [
     ['rays measured', `${b.n} of ${r.band.nRays} (effective ${fmt(b.nEff, 3)}); ${b.outliers ? `${b.outliers.count} outliers${b.outliers.dropped ? ', left out' : ''}` : 'no outliers'}`],
     [b.mean.label, `<strong>${fig(b.mean)}</strong>, ${esc(b.ci95.label)} ${ivl(b.ci95)}`],
+    ...uncertaintyRows(b),
     [b.median.label, `${fig(b.median)}, ${esc(b.medianCi95.label)} ${ivl(b.medianCi95)}`],
     [b.sd.label, fig(b.sd)],
     [`${b.min.label} / ${b.p05.label} / ${b.p95.label} / ${b.max.label}`, `${fig(b.min)} / ${fig(b.p05)} / ${fig(b.p95)} / ${fig(b.max)}`],
@@ -133,6 +145,7 @@ function comparisonRows(r: MeasureResult, s: ResultSummary): [string, string][] 
   out.push(
     [c.ratio.label, `<strong>${fig(c.ratio)}</strong>, ${esc(c.ratioInterval95.label)} ${ivl(c.ratioInterval95)}`],
     ['verdict', `<strong>${esc(c.verdict)}</strong> <span class="muted">(${esc(r.comparison.note)})</span>`],
+    ['intervals used', esc(c.basisNote)],
     ['implied toughness', c.impliedToughness ? fig(c.impliedToughness) : '—'],
   );
   return out;

@@ -2,8 +2,9 @@
  * Series analysis of a batch: band width against strain rate, per notch shape.
  *
  * - Groups: notch × strain rate; per group the number of images, the mean of the per-image mean
- *   widths with a Student-t 95 % interval (n ≥ 2; for one image its own interval), the mean
- *   critical distance L, the mean ratio and the verdict counts.
+ *   widths with a Student-t 95 % interval (n ≥ 2: the series interval, from the between-specimen
+ *   sd; for one image its own measurement interval), the mean critical distance L, the mean
+ *   ratio, the per-image verdict counts and the group's own verdict (series interval against L).
  * - Power law per notch: w(ε̇) = A·ε̇^B fitted by least squares on log10 w = log10 A + B·log10 ε̇
  *   over the images (simple-statistics `linearRegression`, `rSquared`), shown next to the
  *   material's L(ε̇) (the per-image L values, averaged per strain rate).
@@ -16,6 +17,45 @@
 import { linearRegression, rSquared } from 'simple-statistics';
 import { studentTInv } from '../measure/tdist.js';
 import type { BatchEntry } from './csv.js';
+import { compareWidthWithL, type CompareResult } from '../tcd/compare.js';
+
+/**
+ * The group interval: Student t over the per-image means with the between-specimen sd (n ≥ 2), or
+ * the one image's measurement interval (its circumferential interval in results without one).
+ */
+function groupInterval(entries: readonly BatchEntry[], ws: readonly number[], m: number): { ci: [number, number] | null; sd: number | null; ciBasis: SeriesGroup['ciBasis'] } {
+  if (ws.length >= 2) {
+    const sd = sampleSd([...ws]);
+    const h = (studentTInv(0.975, ws.length - 1) * sd) / Math.sqrt(ws.length);
+    return { ci: [m - h, m + h], sd, ciBasis: 'series' };
+  }
+  const band = entries[0].result?.band;
+  const mc = band?.uncertainty?.measurementCi95Um;
+  const c = mc ?? band?.widthUm?.ci95;
+  if (Array.isArray(c) && num(c[0]) !== null && num(c[1]) !== null) return { ci: [c[0], c[1]], sd: null, ciBasis: mc ? 'measurement' : 'circumferential' };
+  return { ci: null, sd: null, ciBasis: null };
+}
+
+/**
+ * The group's verdict: mean of the per-image means and the group interval against L with its
+ * interval (tcd/compare.ts); L, its interval, the reference and the tolerance from the group's
+ * images (all must share one L, else no verdict). Null without an L or an interval.
+ */
+function groupVerdict(entries: readonly BatchEntry[], m: number, ci: [number, number] | null, ciBasis: SeriesGroup['ciBasis']): SeriesGroup['seriesVerdict'] {
+  const withL = entries.map((e) => e.result).filter((r) => r?.criticalDistance && r.comparison);
+  if (!ci || !withL.length || withL.length !== entries.length) return null;
+  const cd = withL[0]!.criticalDistance!;
+  const cmp = withL[0]!.comparison!;
+  if (withL.some((r) => Math.abs(r!.criticalDistance!.L_um - cd.L_um) > 1e-9 * cd.L_um)) return null;
+  try {
+    const c = compareWidthWithL({ widthUm: { mean: m, ci95: ci }, L_um: cd.L_um, L_interval95_um: cd.interval95_um, reference: cmp.reference, tolerancePct: cmp.tolerancePct });
+    const wText = ciBasis === 'series' ? 'the series interval (Student t over the per-image means)' : `the one image's ${ciBasis} interval`;
+    const lText = cd.interval95_um ? 'the 95 % interval of L' : `${cd.intervalNote ?? 'L has no interval'} (L taken as exact)`;
+    return { ...c, note: `${c.note} Interval from ${wText} and ${lText}.` };
+  } catch {
+    return null;
+  }
+}
 
 /** One notch × strain-rate group. Lengths in µm, strain rate in 1/s. */
 export interface SeriesGroup {
@@ -26,10 +66,16 @@ export interface SeriesGroup {
   meanWidthUm: number;
   /** 95 % interval of the group mean (t-based for n ≥ 2, the image's own interval for n = 1). */
   ci95Um: [number, number] | null;
+  /** Which interval `ci95Um` is: the series interval, or the one image's measurement (or circumferential) interval. */
+  ciBasis: 'series' | 'measurement' | 'circumferential' | null;
+  /** Between-specimen sd of the per-image means (n ≥ 2), µm. */
   sdUm: number | null;
   L_um: number | null;
   ratio: number | null;
+  /** Per-image verdict counts. */
   verdicts: Record<string, number>;
+  /** The group's own verdict: the group mean and `ci95Um` against the group's L and its interval, or null. */
+  seriesVerdict: (CompareResult & { note: string }) | null;
 }
 
 /** w = A·ε̇^B with w in µm and ε̇ in 1/s; r2 of the log–log regression. */
@@ -127,17 +173,7 @@ export function analyseSeries(entries: readonly BatchEntry[]): SeriesAnalysis {
       const g = byRate.get(rate)!;
       const ws = g.map((p) => p.w);
       const m = mean(ws);
-      let ci: [number, number] | null = null;
-      let sd: number | null = null;
-      if (g.length >= 2) {
-        sd = sampleSd(ws);
-        const t = studentTInv(0.975, g.length - 1);
-        const h = (t * sd) / Math.sqrt(g.length);
-        ci = [m - h, m + h];
-      } else {
-        const c = g[0].e.result?.band?.widthUm?.ci95;
-        if (Array.isArray(c) && num(c[0]) !== null && num(c[1]) !== null) ci = [c[0], c[1]];
-      }
+      const { ci, sd, ciBasis } = groupInterval(g.map((p) => p.e), ws, m);
       const Ls = g.map((p) => num(p.e.result?.criticalDistance?.L_um)).filter((v): v is number => v !== null);
       const ratios = g.map((p) => num(p.e.result?.comparison?.ratio)).filter((v): v is number => v !== null);
       const verdicts: Record<string, number> = {};
@@ -152,10 +188,12 @@ export function analyseSeries(entries: readonly BatchEntry[]): SeriesAnalysis {
         files: g.map((p) => p.e.file),
         meanWidthUm: m,
         ci95Um: ci,
+        ciBasis,
         sdUm: sd,
         L_um: Ls.length ? mean(Ls) : null,
         ratio: ratios.length ? mean(ratios) : null,
         verdicts,
+        seriesVerdict: groupVerdict(g.map((p) => p.e), m, ci, ciBasis),
       });
     }
     let fit: PowerLawFit | null = null;

@@ -50,6 +50,21 @@ export interface MeasuredBandSummary {
   areaEquivalent: Figure | null;
   /** Rays flagged as outliers, and whether they were left out of the statistics. */
   outliers: { count: number; dropped: boolean } | null;
+  /** The three intervals of the mean (result `band.uncertainty`), or null in results written before them. */
+  uncertainty: UncertaintySummary | null;
+}
+
+/** The uncertainty of the mean width as views show it. */
+export interface UncertaintySummary {
+  /** This specimen's mean: placement of boundary and outer edge, and scale. */
+  measurement: IntervalFigure;
+  /** The mean of w(θ) as a random process (= `ci95`). */
+  circumferential: IntervalFigure;
+  /** Min–max of the mean over the method variations, or null (`rangeNote` says why). */
+  parameterRange: IntervalFigure | null;
+  rangeNote: string;
+  /** "boundary 5.2 µm (78 %), outer edge 2.6 µm (19 %), scale 1.0 µm (3 %)": standard uncertainties and shares. */
+  budget: string;
 }
 
 /** No band: why. */
@@ -64,6 +79,8 @@ export interface CriticalDistanceSummary {
   interval95: IntervalFigure | null;
   /** How L was obtained ("static", "strain-rate law for L", …). */
   basis: string;
+  /** Why L has no interval, in words ("L has no interval: the law gives none"), or null. */
+  intervalNote: string | null;
 }
 
 /** The width against the reference. */
@@ -74,6 +91,8 @@ export interface ComparisonSummary {
   verdict: Verdict;
   tolerancePct: number;
   impliedToughness: Figure | null;
+  /** Which intervals the ratio interval and the verdict used (one sentence). */
+  basisNote: string;
 }
 
 /** The quality verdict as views show it. */
@@ -145,6 +164,21 @@ function bandSummary(r: MeasureResult): MeasuredBandSummary | MissingBandSummary
     normalMean: b.normalWidthUm ? fig('normal width', b.normalWidthUm.mean, 'µm') : null,
     areaEquivalent: b.areaEquivalentWidthUm !== null ? fig('area-equivalent width', b.areaEquivalentWidthUm, 'µm') : null,
     outliers: b.nOutliers ? { count: b.nOutliers, dropped: r.params.dropOutliers } : null,
+    uncertainty: uncertaintySummary(r),
+  };
+}
+
+function uncertaintySummary(r: MeasureResult): UncertaintySummary | null {
+  const u = r.band.uncertainty;
+  if (!u) return null;
+  const t = (name: string, x: { sdUm: number; sharePct: number }): string => `${name} ${x.sdUm.toFixed(1)} µm (${x.sharePct.toFixed(0)} %)`;
+  const g = u.budget;
+  return {
+    measurement: interval('95 % measurement interval', u.measurementCi95Um, 'µm'),
+    circumferential: interval('95 % circumferential interval', u.circumferentialCi95Um, 'µm'),
+    parameterRange: u.parameterRangeUm ? interval('parameter range', u.parameterRangeUm, 'µm') : null,
+    rangeNote: u.parameterRangeNote,
+    budget: `${t('boundary', g.boundary)}, ${t('outer edge', g.outerEdge)}, ${t('scale', g.scale)}`,
   };
 }
 
@@ -162,7 +196,7 @@ export function summarise(r: MeasureResult): ResultSummary {
     specimen: { centerPx: r.specimen.center, radius: fig('specimen radius', r.specimen.radiusUm, 'µm'), cutByFrame: r.specimen.touchesFrame },
     band: bandSummary(r),
     separability: r.band.separability ? { fisher: fig('Fisher ratio', r.band.separability.fisher, ''), overlap: fig('histogram overlap', r.band.separability.overlap, '') } : null,
-    criticalDistance: cd ? { L: fig('L', cd.L_um, 'µm'), interval95: cd.interval95_um ? interval('95 % interval of L', cd.interval95_um, 'µm') : null, basis: cd.basis } : null,
+    criticalDistance: cd ? { L: fig('L', cd.L_um, 'µm'), interval95: cd.interval95_um ? interval('95 % interval of L', cd.interval95_um, 'µm') : null, basis: cd.basis, intervalNote: cd.interval95_um ? null : (cd.intervalNote ?? 'L has no interval') } : null,
     comparison: c
       ? {
           reference: c.reference,
@@ -171,6 +205,7 @@ export function summarise(r: MeasureResult): ResultSummary {
           verdict: c.verdict,
           tolerancePct: c.tolerancePct,
           impliedToughness: c.impliedToughness_MPa_sqrtm ? fig('implied K', c.impliedToughness_MPa_sqrtm.K_MPa_sqrtm, 'MPa·√m') : null,
+          basisNote: c.basis?.note ?? 'Width/L interval from the circumferential interval (a result written before the measurement interval).',
         }
       : null,
     warnings: [...r.warnings],

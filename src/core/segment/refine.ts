@@ -97,6 +97,12 @@ export interface RefineBoundaryOptions {
   method?: 'step' | 'box';
   /** Precomputed energy at full resolution: box-averaged for 'box', pointwise for 'step'. */
   energy?: GrayRaster;
+  /**
+   * 'step' only: where the level sits between its two candidates (see {@link stepLevel}): 'mean'
+   * (default), 'log' (the log-variance midpoint, one end of the level's tolerance) or 'std' (the
+   * standard-deviation midpoint, the other end). The ends are used for the parameter range.
+   */
+  level?: 'mean' | 'log' | 'std';
 }
 
 /** Result of {@link refineBoundary}. */
@@ -256,10 +262,11 @@ function pooled(arr: readonly number[], i: number, halfSector: number): number {
  * (src/core/render and scripts/fixtures/make_external_fractographs.py) the first sat 0.6 px
  * rimward / ~0.1 px, the second 0.2 px / 0.7 px coreward; their mean stays within ~0.3 px on both.
  */
-function stepLevel(eR: number, eC: number, method: 'step' | 'box'): number {
+function stepLevel(eR: number, eC: number, method: 'step' | 'box', level: 'mean' | 'log' | 'std' = 'mean'): number {
   const logMid = 0.5 * (eR + eC);
   const stdMid = 2 * Math.log(0.5 * (Math.exp(eR / 2) + Math.exp(eC / 2)));
-  return method === 'box' ? 0.5 * (eR + eC) : 0.5 * (logMid + stdMid);
+  if (method === 'box') return 0.5 * (eR + eC);
+  return level === 'log' ? logMid : level === 'std' ? stdMid : 0.5 * (logMid + stdMid);
 }
 
 /** 'box': the downward midpoint crossing in [k0, k1] nearest the coarse radius c (px), or null. */
@@ -352,7 +359,7 @@ export function refineBoundary(
     const eC = pooled(coreL, i, halfSector);
     let best: number | null = null;
     if (Number.isFinite(eR) && Number.isFinite(eC) && eC > eR) {
-      const mid = stepLevel(eR, eC, method);
+      const mid = stepLevel(eR, eC, method, opts.level);
       const k0 = Math.max(1, Math.floor(Math.max(0, c - search) / STEP));
       const k1 = Math.min(p.length - 1, Math.ceil(Math.min(o - 0.5 * W, c + search) / STEP));
       best = method === 'box' ? boxCrossing(p, mid, k0, k1, c) : stepFit(p, mid, k0, k1);

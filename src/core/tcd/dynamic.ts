@@ -16,6 +16,8 @@ import { linearRegression, rSquared } from 'simple-statistics';
 import { FractozoneError } from '../errors.js';
 import { studentTQuantile } from './studentT.js';
 
+const Z975 = 1.959963984540054;
+
 /** Statistics of a power-law fit, kept so that evaluations can carry an interval. */
 export interface PowerFitStats {
   n: number;
@@ -28,9 +30,22 @@ export interface PowerFitStats {
   rateRange: [number, number];
 }
 
+/**
+ * Scatter of a power law's parameters as a material sheet states it: standard deviations of A
+ * (same unit as A) and of B, or one relative standard deviation of the law's value. A and B are
+ * taken as uncorrelated (a sheet rarely gives their covariance; for a ln–ln fit they are
+ * correlated unless ln ε̇ is centred, so the interval is then approximate).
+ */
+export interface RateLawScatter {
+  sdA?: number;
+  sdB?: number;
+  /** Relative sd of the value (0.1 = 10 %). */
+  relSd?: number;
+}
+
 /** A strain-rate law for one quantity (L in µm or σ_0 in MPa). */
 export type RateLaw =
-  | { law: 'power'; A: number; B: number; fit?: PowerFitStats }
+  | { law: 'power'; A: number; B: number; fit?: PowerFitStats; scatter?: RateLawScatter }
   | { law: 'table'; points: { rate: number; value: number }[] };
 
 /** Result of {@link fitPowerLaw}. */
@@ -99,8 +114,20 @@ export interface RateValue {
   value: number;
   /** 95 % confidence interval of the fitted mean (power law with fit statistics only). */
   interval95: [number, number] | null;
+  /** Standard deviation of ln y behind `interval95` (fit or stated scatter), or null. */
+  sdLn?: number | null;
   extrapolated: boolean;
   warning?: string;
+}
+
+/**
+ * Standard deviation of ln y for y = A·ε̇^B with stated scatter of A and B, first-order law of
+ * propagation of uncertainty for uncorrelated inputs (JCGM 100:2008, GUM, eq. 10):
+ * ln y = ln A + B·ln ε̇ → sd²(ln y) = (sd_A/A)² + (ln ε̇)²·sd_B²; a stated relative sd is used as it is.
+ */
+export function rateLawSdLn(A: number, scatter: RateLawScatter, rate: number): number {
+  if (scatter.relSd !== undefined) return scatter.relSd;
+  return Math.hypot((scatter.sdA ?? 0) / A, Math.log(rate) * (scatter.sdB ?? 0));
 }
 
 /**
@@ -115,20 +142,26 @@ export function evaluateRateLaw(law: RateLaw, rate: number, allowExtrapolation =
   if (law.law === 'power') {
     const value = law.A * Math.pow(rate, law.B);
     let interval95: [number, number] | null = null;
+    let sdLn: number | null = null;
     let extrapolated = false;
     let warning: string | undefined;
+    if (!law.fit && law.scatter) {
+      sdLn = rateLawSdLn(law.A, law.scatter, rate);
+      if (sdLn > 0) interval95 = [value * Math.exp(-Z975 * sdLn), value * Math.exp(Z975 * sdLn)];
+    }
     if (law.fit) {
       const f = law.fit;
       const x0 = Math.log(rate);
       const half = studentTQuantile(0.975, f.n - 2) * f.residualSd * Math.sqrt(1 / f.n + (x0 - f.meanLnRate) ** 2 / f.sxx);
       interval95 = [value * Math.exp(-half), value * Math.exp(half)];
+      sdLn = half / studentTQuantile(0.975, f.n - 2);
       if (rate < f.rateRange[0] || rate > f.rateRange[1]) {
         extrapolated = true;
         warning = `strain rate ${rate} /s lies outside the fitted range ${f.rateRange[0]}–${f.rateRange[1]} /s`;
         if (!allowExtrapolation) throw new FractozoneError('BAD_PARAMETER', `${warning}; allow extrapolation explicitly to use the law there`);
       }
     }
-    return { value, interval95, extrapolated, warning };
+    return { value, interval95, sdLn, extrapolated, warning };
   }
   const pts = [...law.points].sort((a, b) => a.rate - b.rate);
   if (pts.length < 2) throw new FractozoneError('BAD_PARAMETER', 'a strain-rate table needs at least 2 points');

@@ -24,7 +24,7 @@
  * `inherentStrength`; fields with commas in double quotes; `#` lines are comments.
  */
 import { FractozoneError } from '../errors.js';
-import type { RateLaw } from './dynamic.js';
+import type { RateLaw, RateLawScatter } from './dynamic.js';
 import { toEngineUnit, unitFactor } from './quantities.js';
 
 /** Schema tag of the JSON material sheet. */
@@ -97,6 +97,18 @@ function parseValue(o: unknown, dim: 'toughness' | 'stress', file: string, where
   return out;
 }
 
+/** Optional scatter of a power law: `sdA` (unit of A), `sdB`, or `relSd` (fraction of the value). */
+function rateLawScatter(v: Obj, f: number, file: string, where: string): RateLawScatter | null {
+  const has = (k: string): boolean => v[k] !== undefined && v[k] !== null;
+  if (!has('sdA') && !has('sdB') && !has('relSd')) return null;
+  if (has('relSd') && (has('sdA') || has('sdB'))) bad(file, where, 'give either relSd or sdA/sdB, not both');
+  const out: RateLawScatter = {};
+  if (has('relSd')) out.relSd = posNum(v.relSd, file, `${where}.relSd`, true);
+  if (has('sdA')) out.sdA = posNum(v.sdA, file, `${where}.sdA`, true) * f;
+  if (has('sdB')) out.sdB = posNum(v.sdB, file, `${where}.sdB`, true);
+  return out;
+}
+
 function parseRateLaw(o: unknown, dim: 'distance' | 'stress', file: string, where: string): SheetRateLaw {
   if (typeof o !== 'object' || o === null) bad(file, where, 'must be an object');
   const v = o as Obj;
@@ -110,7 +122,8 @@ function parseRateLaw(o: unknown, dim: 'distance' | 'stress', file: string, wher
   if (v.law === 'power') {
     const A = posNum(v.A, file, `${where}.A`) * f;
     if (typeof v.B !== 'number' || !Number.isFinite(v.B)) bad(file, `${where}.B`, `must be a number, got ${JSON.stringify(v.B) ?? 'nothing'}`);
-    return { law: 'power', A, B: v.B, source };
+    const scatter = rateLawScatter(v, f as number, file, where);
+    return { law: 'power', A, B: v.B, ...(scatter ? { scatter } : {}), source };
   }
   if (v.law === 'table') {
     if (!Array.isArray(v.points) || v.points.length < 2) bad(file, `${where}.points`, 'must list at least 2 [rate, value] pairs');

@@ -48,6 +48,8 @@ export interface ResolvedDistance extends MethodDistances {
   L_um: number;
   /** Monte Carlo 95 % interval (static basis with scatter), null otherwise. */
   interval95_um: [number, number] | null;
+  /** Why L has no interval (in words), or null when it has one. */
+  intervalNote: string | null;
   median_um: number | null;
   /** First-order interval for comparison, null without scatter. */
   deltaInterval95_um: [number, number] | null;
@@ -126,6 +128,7 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
       return {
         L_um: r.value,
         interval95_um: r.interval95,
+        intervalNote: r.interval95 ? null : 'L has no interval: the law gives none (add sdA and sdB, or relSd, to the law in the material sheet)',
         median_um: null,
         deltaInterval95_um: null,
         ...methodDistances(r.value),
@@ -138,7 +141,8 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
     const s = evaluateRateLaw(dyn.sigma0 as NonNullable<typeof dyn.sigma0>, rate, input.allowExtrapolation);
     if (s.warning) warnings.push(warn('RATE_EXTRAPOLATED', s.warning));
     strength.value = s.value;
-    strength.sd = null;
+    // the law's interval as a normal sd of σ_0 (first order: sd ≈ value·sd_ln)
+    strength.sd = s.sdLn ? s.value * s.sdLn : null;
     strength.interval95 = null;
     strength.source = `${(dyn.sigma0 as { source: string }).source} (at ${rate} /s)`;
     warnings.push(warn('SIGMA0_FROM_RATE_LAW', 'σ_0 from its strain-rate law with the static fracture toughness'));
@@ -158,9 +162,14 @@ export function resolveCriticalDistance(input: ResolveInput): ResolvedDistance {
     deltaInterval95_um = u.deltaInterval95_um;
     monteCarlo = { draws: u.draws, seed: u.seed };
   }
+  const why =
+    input.strainRate !== undefined
+      ? 'L has no interval: the σ_0 law gives none and the fracture toughness has no scatter'
+      : 'L has no interval: neither the fracture toughness nor the inherent strength has a scatter (sd or interval)';
   return {
     L_um,
     interval95_um,
+    intervalNote: interval95_um ? null : why,
     median_um,
     deltaInterval95_um,
     ...methodDistances(L_um),

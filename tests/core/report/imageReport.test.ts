@@ -55,7 +55,7 @@ describe('single-image report', () => {
     const html = buildImageReportHtml({ result, overlayDataUrl: null });
     expect(result.criticalDistance!.basis).toBe('strain-rate law for L');
     expect(html).toContain('L from the strain-rate law');
-    expect(html).toContain('none: the strain-rate law carries no scatter');
+    expect(html).toContain('L has no interval: the law gives none');
     expect(html).toContain('rate law for L');
   });
 

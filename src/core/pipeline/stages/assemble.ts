@@ -105,7 +105,7 @@ function summariseSeparability(s: Separability | null): SeparabilitySummary | nu
 /** The band block with a measurement of its boundary applied: no width → not detected, with the reason. */
 export function withMeasurement(band: ResultBand, measured: MeasuredBand): ResultBand {
   const detected = measured.widthUm !== null;
-  return { detected, ...(detected ? {} : { reason: NO_CROSSING_REASON }), boundary: band.boundary, ...measured, separability: band.separability };
+  return { detected, ...(detected ? {} : { reason: NO_CROSSING_REASON }), boundary: band.boundary, ...measured, separability: band.separability, ...(band.uncertainty ? { uncertainty: band.uncertainty } : {}) };
 }
 
 /** The band block from the boundary stage and, when there is a boundary, its measurement. */

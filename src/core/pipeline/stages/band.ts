@@ -14,10 +14,10 @@ import { medianOf } from '../../measure/statistics.js';
 import type { FeatureName } from '../../texture/index.js';
 import { warn, type Warning } from '../../warnings.js';
 import type { WorkingFrame } from '../frame.js';
-import { classifyTexture } from './classify.js';
+import { classifyTexture, type Classification } from './classify.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 import { refineRimBoundary, type RimBoundary } from './refineBoundary.js';
-import { computeTexture, textureWindow, type TextureWindow } from './texture.js';
+import { computeTexture, textureWindow, type TextureMaps, type TextureWindow } from './texture.js';
 
 /** Input of {@link findRimBoundary}. */
 export interface BandInput {
@@ -41,6 +41,9 @@ export interface BandFinding {
   warnings: Warning[];
   /** 1 or 2. */
   pass: 1 | 2;
+  /** Texture maps and classification of the pass used (for the parameter range, stages/uncertainty.ts). */
+  texture: TextureMaps;
+  classification: Classification;
 }
 
 /** A first-pass band narrower than this many windows (median over the rays) is looked at again. */
@@ -51,11 +54,11 @@ export const SECOND_PASS_WINDOW_FRACTION = 0.5;
 const SECOND_PASS_MAX_WINDOWS = 2.5;
 
 /** One pass: texture, classification and refined boundary at one window, on `source` (the working copy, glints suppressed). */
-function pass(input: BandInput, window: TextureWindow, source: GrayRaster): { boundary: RimBoundary; warnings: Warning[] } {
+function pass(input: BandInput, window: TextureWindow, source: GrayRaster): { boundary: RimBoundary; warnings: Warning[]; texture: TextureMaps; classification: Classification } {
   const texture = computeTexture({ frame: input.frame, window, features: input.features, source });
   const classification = classifyTexture({ location: input.location, texture });
   const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays, source });
-  return { boundary, warnings: classification.warnings };
+  return { boundary, warnings: classification.warnings, texture, classification };
 }
 
 /** Median band width (full-resolution px) over 360 rays, or null. */
@@ -111,6 +114,8 @@ function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
   return {
     boundary: second.boundary,
     window: window2,
+    texture: second.texture,
+    classification: second.classification,
     warnings: [...second.warnings, warn('FINER_WINDOW_USED', `${why}: the band was found again with a ${window2.windowUm.toFixed(0)} µm window (${(width2 / window2.windowPxFull).toFixed(1)} of its windows wide)`)],
     pass: 2,
   };

@@ -15,6 +15,8 @@ import type { TextureMaps } from './texture.js';
 export interface ClassifyInput {
   location: SpecimenLocation;
   texture: TextureMaps;
+  /** Working px per feature-map px (default 1; 2 for maps binned 2 × 2). */
+  featureScale?: number;
 }
 
 /** Output of {@link classifyTexture}: the rim/core split in working px. */
@@ -32,7 +34,7 @@ export function classifyTexture(input: ClassifyInput): Classification {
     texture.maps.map((m) => m.raster),
     {
       windowPx: texture.window.windowPxWork,
-      featureScale: 1,
+      featureScale: input.featureScale ?? 1,
       center: location.centerWork,
       transforms: defs.map((d) => d.transform),
       brightness: texture.brightness,

@@ -34,6 +34,10 @@ export interface RefineInput {
   nRays: number;
   /** The working copy to refine on, when not frame.work (e.g. with glints suppressed). */
   source?: GrayRaster;
+  /** Where the step level sits in its tolerance (segment/refine.ts; default 'mean'). */
+  level?: 'mean' | 'log' | 'std';
+  /** Refine on exactly this many rays (the parameter range's quick runs); default max(nRays, 360). */
+  exactRays?: number;
 }
 
 /** Refines the classified boundary, or reports why there is none. */
@@ -45,7 +49,8 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
   }
   const refined = refineBoundary(input.source ?? frame.work, location.outer.map((q) => frame.toWork(q)), rc.boundary, location.centerWork, {
     windowPx: input.window.windowPxWork,
-    nRays: Math.max(input.nRays, 360),
+    nRays: input.exactRays ?? Math.max(input.nRays, 360),
+    level: input.level,
   });
   return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
 }
