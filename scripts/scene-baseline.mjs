@@ -65,7 +65,7 @@ function measureScene(dir, s) {
   const row = { scene: s.name, elements: s.elements.join('+') || '-', umPerPx: px };
   if (r.code !== 0) {
     const t = matchTruth(truth, null);
-    return [{ ...row, half: truth.specimens ? t.id : '', truthMeanUm: t.band.meanWidthUm, measuredMeanUm: null, errorPct: null, raysKept: null, radiusErrorPct: null, ciCovers: null, warnings: [(r.stderr.trim().split('\n').pop() ?? `exit ${r.code}`)] }];
+    return [{ ...row, quality: 'error', half: truth.specimens ? t.id : '', truthMeanUm: t.band.meanWidthUm, measuredMeanUm: null, errorPct: null, raysKept: null, radiusErrorPct: null, ciCovers: null, warnings: [(r.stderr.trim().split('\n').pop() ?? `exit ${r.code}`)] }];
   }
   const res = JSON.parse(r.stdout);
   // several specimens (both halves): one row per measured specimen, each against its own half's truth
@@ -83,6 +83,7 @@ function measureScene(dir, s) {
     return {
       ...row,
       half: truth.specimens ? `${t.id}${m.id ? `, measured ${m.id}` : ''}` : '',
+      quality: (m.quality ?? res.quality)?.verdict ?? '?',
       truthMeanUm: tMean,
       measuredMeanUm: mean,
       errorPct: mean !== null && tMean ? (100 * (mean - tMean)) / tMean : null,
@@ -98,9 +99,9 @@ const f = (v, d = 1) => (v === null || v === undefined ? '–' : v.toFixed(d));
 const signed = (v, d = 1) => (v === null || v === undefined ? '–' : `${v >= 0 ? '+' : ''}${v.toFixed(d)}`);
 
 function table(rows) {
-  const head = '| scene | elements | truth mean µm | measured mean µm | error % | rays kept | radius error % | CI covers truth | warnings |\n|---|---|---|---|---|---|---|---|---|';
+  const head = '| scene | elements | truth mean µm | measured mean µm | error % | rays kept | radius error % | CI covers truth | quality | warnings |\n|---|---|---|---|---|---|---|---|---|---|';
   const lines = rows.map((r) =>
-    `| ${r.scene}${r.half ? ` (half ${r.half})` : ''} | ${r.elements} | ${f(r.truthMeanUm)} | ${f(r.measuredMeanUm)} | ${signed(r.errorPct)} | ${r.raysKept === null ? '–' : `${(100 * r.raysKept).toFixed(0)} %`} | ${signed(r.radiusErrorPct)} | ${r.ciCovers === null ? '–' : r.ciCovers ? 'yes' : 'no'} | ${r.warnings.length ? r.warnings.join('; ').replace(/\|/g, '/') : 'none'} |`,
+    `| ${r.scene}${r.half ? ` (half ${r.half})` : ''} | ${r.elements} | ${f(r.truthMeanUm)} | ${f(r.measuredMeanUm)} | ${signed(r.errorPct)} | ${r.raysKept === null ? '–' : `${(100 * r.raysKept).toFixed(0)} %`} | ${signed(r.radiusErrorPct)} | ${r.ciCovers === null ? '–' : r.ciCovers ? 'yes' : 'no'} | ${r.quality} | ${r.warnings.length ? r.warnings.join('; ').replace(/\|/g, '/') : 'none'} |`,
   );
   return [head, ...lines].join('\n');
 }
@@ -133,6 +134,13 @@ function main() {
   process.stdout.write(table(rows) + '\n');
   const errs = rows.filter((r) => r.errorPct !== null).map((r) => Math.abs(r.errorPct)).sort((x, y) => x - y);
   if (errs.length) process.stdout.write(`\n${rows.length} rows (one per measured specimen); |error| median ${f(errs[Math.floor(errs.length / 2)])} %, max ${f(errs[errs.length - 1])} %; ${rows.length - errs.length} without a measured width.\n`);
+  // the rule of the issue "no silent wrong numbers": an error above 5 % carries a warning that sets the
+  // verdict to check or unreliable (stricter than "a warning"), above 10 % the verdict is not ok
+  const silent5 = rows.filter((r) => r.errorPct !== null && Math.abs(r.errorPct) > 5 && r.quality === 'ok');
+  const okWide = rows.filter((r) => r.errorPct !== null && Math.abs(r.errorPct) > 10 && r.quality === 'ok');
+  process.stdout.write(`rule "no silent wrong numbers": ${silent5.length} rows with |error| > 5 % and verdict ok${silent5.length ? ` (${silent5.map((r) => r.scene).join(', ')})` : ''}; ${okWide.length} with |error| > 10 % and verdict ok.\n`);
+  const within = (t) => errs.filter((e) => e <= t).length;
+  if (errs.length) process.stdout.write(`within 2 %: ${within(2)}/${rows.length} rows, within 4 %: ${within(4)}/${rows.length}; CI covers truth on ${rows.filter((r) => r.ciCovers).length}/${errs.length}.\n`);
   if (a.json) writeFileSync(a.json, JSON.stringify(rows, null, 2) + '\n');
   if (tmp) rmSync(tmp, { recursive: true, force: true });
 }
