@@ -193,6 +193,7 @@ function measureParams(v: unknown): MeasureParams {
     strainRatePerS: o.strainRatePerS === undefined || o.strainRatePerS === null ? null : positive(o.strainRatePerS, 'params.strainRatePerS'),
     reference: o.reference === 'L/2' || o.reference === '2L' ? o.reference : o.reference === undefined || o.reference === 'L' ? 'L' : bad('params.reference must be L, L/2 or 2L'),
     tolerancePct: o.tolerancePct === undefined ? d.tolerancePct : positive(o.tolerancePct, 'params.tolerancePct'),
+    ...(o.verdictBasis === undefined ? (d.verdictBasis === undefined ? {} : { verdictBasis: d.verdictBasis }) : { verdictBasis: o.verdictBasis as MeasureParams['verdictBasis'] }),
   };
   return validateParams(p);
 }

@@ -17,7 +17,8 @@ export function paramsOf(doc: Doc, series: Series, opts: { fullRun?: boolean } =
   const p = defaultParams();
   const s = settingsOf(doc, series);
   const m = materialOf(doc, series);
-  p.scale = scaleParamsOf(doc.scale);
+  const tol = p.scale.pixelSizeTolerancePct;
+  p.scale = { ...scaleParamsOf(doc.scale), ...(tol === undefined ? {} : { pixelSizeTolerancePct: tol }) };
   p.windowUm = s.windowUm;
   p.features = [...s.features];
   p.nRays = s.nRays;

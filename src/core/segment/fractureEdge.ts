@@ -54,8 +54,9 @@ function counts(r: Ring): boolean {
   return (r.coverage >= 0.6 && r.prominence >= 0.3) || (r.coverage >= 0.75 && r.roundnessPx <= 1.5 && r.prominence >= 0.15);
 }
 
+/** Machined-looking annulus (turning marks); an annulus narrower than 8 px (a narrow band between two edges) is too thin to tell. */
 function machined(a: Ring['outer']): boolean {
-  return a.radialShare >= MACHINED_RADIAL || a.concentricity >= MACHINED_CONCENTRIC;
+  return a.widthPx >= 8 && (a.radialShare >= MACHINED_RADIAL || a.concentricity >= MACHINED_CONCENTRIC);
 }
 
 /** Roughness drops outward across it, from about the core's own level (not from a smooth band). */

@@ -6,6 +6,7 @@
 import { FractozoneError } from '../errors.js';
 import { warn, type Warning } from '../warnings.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
+import { markAboveSectors, sectorPositions, sectorThresholds } from './rimCoreSectors.js';
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
@@ -110,7 +111,7 @@ function dilateMask(m: Mask, r: number): Mask {
   }
 }
 
-function meanVar(vals: ArrayLike<number>): [number, number] {
+export function meanVar(vals: ArrayLike<number>): [number, number] {
   const n = vals.length;
   if (!n) return [NaN, NaN];
   let s = 0;
@@ -138,7 +139,7 @@ function indicesOf(m: Uint8Array): Int32Array {
 }
 
 /** [Σ v > t, count v > t, Σ v ≤ t]. */
-function splitSums(vals: Float32Array, t: number): [number, number, number] {
+export function splitSums(vals: Float32Array, t: number): [number, number, number] {
   let sa = 0;
   let na = 0;
   let sb = 0;
@@ -271,104 +272,6 @@ function otsuSplit(comb: Float32Array, idx: Int32Array): { t: number; lo: number
   return { t, lo, hi, eta };
 }
 
-/** Number of angular sectors of the per-sector threshold. */
-const N_SECTORS = 12;
-/** Otsu's η a sector needs for its own threshold (one Gaussian gives ≈ 0.64; our choice, tuned on rendered scenes). */
-const SECTOR_MIN_ETA = 0.55;
-/** Smallest share of each class in a sector for its own threshold. */
-const SECTOR_MIN_CLASS = 0.08;
-/**
- * How much farther out (as a fraction of the sector's largest interior radius) the smooth class of a
- * sector must lie on average than its rough class for the sector's own threshold to be used: the
- * smooth rim lies outside the rough core; a split of a sector without that order (no band there, or
- * noise) is not a rim/core split.
- */
-const SECTOR_MIN_RADIAL_ORDER = 0.06;
-/**
- * How much the sector's own threshold must raise Otsu's η on that sector over the global threshold:
- * where the global one splits the sector about as well, it is kept (so an image evenly lit and sharp
- * is classified exactly as with one threshold).
- */
-const SECTOR_MIN_ETA_GAIN = 0.035;
-
-/** Sector position (0 … N_SECTORS, fractional, sector centres at k + 0.5) and radius (feature px) of every interior pixel. */
-function sectorPositions(idx: Int32Array, fw: number, centre: PointPx): { pos: Float32Array; rad: Float32Array } {
-  const pos = new Float32Array(idx.length);
-  const rad = new Float32Array(idx.length);
-  const k = N_SECTORS / (2 * Math.PI);
-  for (let i = 0; i < idx.length; i++) {
-    const x = (idx[i] % fw) - centre.x;
-    const y = centre.y - Math.floor(idx[i] / fw);
-    const a = Math.atan2(y, x);
-    pos[i] = (a < 0 ? a + 2 * Math.PI : a) * k;
-    rad[i] = Math.hypot(x, y);
-  }
-  return { pos, rad };
-}
-
-/** Otsu's threshold of one sector's values, its η, the share above it, and the mean radii below and above it. */
-function etaAt(vals: Float32Array, t: number, mAll: number, vAll: number): [number, number, number] {
-  const [sa, na, sb] = splitSums(vals, t);
-  const nb0 = vals.length - na;
-  return [vAll > 0 && na && nb0 ? ((na / vals.length) * (sa / na - mAll) ** 2 + (nb0 / vals.length) * (sb / nb0 - mAll) ** 2) / vAll : 0, na, nb0];
-}
-
-function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: number, tGlobal: number): { t: number; eta: number; gain: number; above: number; order: number } {
-  const t = otsuThreshold(vals, lo, hi);
-  const [mAll, vAll] = meanVar(vals);
-  const [eta, na, nb0] = etaAt(vals, t, mAll, vAll);
-  const gain = eta - etaAt(vals, tGlobal, mAll, vAll)[0];
-  let rA = 0;
-  let rB = 0;
-  let rMax = 0;
-  for (let i = 0; i < vals.length; i++) {
-    if (vals[i] > t) rA += rad[i];
-    else rB += rad[i];
-    if (rad[i] > rMax) rMax = rad[i];
-  }
-  const order = na && nb0 && rMax > 0 ? (rB / nb0 - rA / na) / rMax : 0;
-  return { t, eta, gain, above: vals.length ? na / vals.length : 0, order };
-}
-
-/**
- * Per-sector thresholds: Otsu's threshold of each of N_SECTORS angular sectors where that sector is
- * split into a rough inner and a smooth outer class (η ≥ SECTOR_MIN_ETA, each class ≥
- * SECTOR_MIN_CLASS, the smooth class farther out by SECTOR_MIN_RADIAL_ORDER), else the global one.
- * Under a light that darkens one side (signal-independent noise then reads as roughness there) or a
- * one-sided defocus (the core reads smoother there) one global threshold cuts the wrong class in
- * part of the circumference; the sector's own split follows it.
- */
-function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, split: { t: number; lo: number; hi: number }): Float64Array {
-  const counts = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) counts[Math.min(N_SECTORS - 1, Math.floor(pos[i]))]++;
-  const vals = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const rads = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const fill = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) {
-    const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
-    rads[s][fill[s]] = rad[i];
-    vals[s][fill[s]++] = comb[idx[i]];
-  }
-  const ts = new Float64Array(N_SECTORS);
-  for (let s = 0; s < N_SECTORS; s++) {
-    const o = vals[s].length > 50 ? sectorSplit(vals[s], rads[s], split.lo, split.hi, split.t) : null;
-    const own = o !== null && o.eta >= SECTOR_MIN_ETA && o.above >= SECTOR_MIN_CLASS && o.above <= 1 - SECTOR_MIN_CLASS && o.order >= SECTOR_MIN_RADIAL_ORDER && o.gain >= SECTOR_MIN_ETA_GAIN;
-    ts[s] = own ? o.t : split.t;
-  }
-  return ts;
-}
-
-/** out[idx[k]] = (v[idx[k]] > threshold interpolated between the sector centres at pos[k]). */
-function markAboveSectors(v: Float32Array, idx: Int32Array, pos: Float32Array, ts: Float64Array, out: Uint8Array): void {
-  const n = ts.length;
-  for (let k = 0; k < idx.length; k++) {
-    const p = pos[k] - 0.5;
-    const f = Math.floor(p);
-    const w = p - f;
-    const t = ts[(f + n) % n] * (1 - w) + ts[(f + 1) % n] * w;
-    out[idx[k]] = v[idx[k]] > t ? 1 : 0;
-  }
-}
 
 /**
  * The rough class (combined feature above the per-sector threshold, interior only), cleaned by a
