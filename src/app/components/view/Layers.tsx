@@ -4,6 +4,9 @@ import type { PointPx } from '../../../core/index.js';
 import { sectorFromDrag } from '../../state/geometry.js';
 import { wedge, type Shapes } from '../../render/layers.js';
 import type { Drag } from './drag.js';
+import type { Doc, LabelClass } from '../../state/document.js';
+import { LABEL_COLOURS } from '../../state/labels.js';
+import type { Tool } from '../../state/store.js';
 
 const OUTER = '#2aa6ff';
 const BOUNDARY = '#ffb020';
@@ -78,6 +81,29 @@ export function HandleLayer({ s, k }: { s: Shapes; k: number }) {
           ))}
         </>
       )}
+    </Layer>
+  );
+}
+
+const css = (c: [number, number, number], a = 1): string => `rgba(${c[0]},${c[1]},${c[2]},${a})`;
+const TOOL_CLASS: Partial<Record<Tool, LabelClass>> = { 'teach-outside': 1, 'teach-rim': 2, 'teach-core': 3 };
+
+/** Teach mode: the class map (stretched from the working copy to the image) and the strokes painted. */
+export function LabelLayer(p: { doc: Doc; classMap: HTMLCanvasElement | null; opacity: number; pointer: PointPx | null; tool: Tool; r: number; k: number }) {
+  const w = p.doc.image.widthPx;
+  const h = p.doc.image.heightPx;
+  const cls = TOOL_CLASS[p.tool];
+  return (
+    <Layer listening={false}>
+      {p.classMap && <KImage image={p.classMap} x={-0.5} y={-0.5} width={w} height={h} opacity={p.opacity} />}
+      {p.doc.labels.map((s, i) =>
+        s.points.length === 1 ? (
+          <Circle key={i} x={s.points[0].x} y={s.points[0].y} radius={s.radiusPx} fill={css(LABEL_COLOURS[s.cls], 0.85)} />
+        ) : (
+          <Line key={i} points={s.points.flatMap((q) => [q.x, q.y])} stroke={css(LABEL_COLOURS[s.cls], 0.85)} strokeWidth={2 * s.radiusPx} lineCap="round" lineJoin="round" />
+        ),
+      )}
+      {p.pointer && cls && <Circle x={p.pointer.x} y={p.pointer.y} radius={p.r} stroke={css(LABEL_COLOURS[cls])} strokeWidth={p.k} />}
     </Layer>
   );
 }
