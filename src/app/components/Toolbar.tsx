@@ -42,11 +42,10 @@ function ToolOptions({ state, doc, update, act }: ToolbarProps) {
   if (isTeachTool(tool) || (state.view.teach.on && tool === 'pan')) {
     return (
       <span className="tool-options">
-        radius
-        <NumberField value={state.view.teach.radiusUm || null} placeholder="auto" className="narrow" testId="teach-um" onCommit={(v) => update((s) => setView(s, { teach: { ...s.view.teach, radiusUm: v !== null && v > 0 ? v : 0 } }))} />
+        <NumberField value={state.view.teach.radiusUm || null} placeholder="radius" className="narrow" testId="teach-um" onCommit={(v) => update((s) => setView(s, { teach: { ...s.view.teach, radiusUm: v !== null && v > 0 ? v : 0 } }))} />
         µm
         <button onClick={() => act('teach', (d) => clearLabels(d))} disabled={doc.labels.length === 0} data-testid="clear-strokes" title="Remove every stroke of this image">
-          Clear strokes
+          Clear
         </button>
       </span>
     );
@@ -91,7 +90,6 @@ export function Toolbar(p: ToolbarProps) {
   const tool = p.state.view.tool;
   return (
     <div className="toolbar" role="toolbar" aria-label="edit tools">
-      {p.state.view.teach.on && <span className="mode-label">Teach:</span>}
       {(p.state.view.teach.on ? TEACH_TOOLS : TOOLS).map((t) => (
         <button key={t.tool} className={tool === t.tool ? 'on' : ''} onClick={() => p.update((s) => setView(s, { tool: t.tool }))} title={t.key ? `${t.title} (${t.key})` : t.title} data-testid={`tool-${t.tool}`}>
           {t.label}

@@ -50,8 +50,14 @@ export function TeachPanel({ state, doc, update, flows }: { state: AppState; doc
     <section data-testid="teach-panel">
       <h2>Teach by example</h2>
       <div className="row">
-        <button className={on ? 'on' : ''} data-testid="teach-toggle" onClick={() => update((s) => setView(s, { teach: { ...s.view.teach, on: !on }, tool: on ? 'vertex' : 'teach-outside' }))}>
-          {on ? 'Stop teaching' : 'Teach'}
+        <button
+          className={on ? 'on' : ''}
+          aria-pressed={on}
+          data-testid="teach-toggle"
+          title={on ? 'Leave teach mode (the strokes and the model stay)' : 'Paint strokes of each class; a model learns from them'}
+          onClick={() => update((s) => setView(s, { teach: { ...s.view.teach, on: !on }, tool: on ? 'vertex' : 'teach-outside' }))}
+        >
+          Teach
         </button>
         <FileButton label="Open model…" accept=".json,application/json" testId="model-input" onFiles={(f) => flows.openModel(f[0])} />
       </div>
@@ -78,7 +84,7 @@ export function TeachPanel({ state, doc, update, flows }: { state: AppState; doc
               Save model
             </button>
             <button onClick={() => flows.applyModel(true)} data-testid="apply-model" disabled={inUse?.sha256 === t.model.sha256} title="Measure every open image with this model">
-              Apply to all images
+              Apply to all
             </button>
           </div>
         </>

@@ -96,13 +96,16 @@ export function LabelLayer(p: { doc: Doc; classMap: HTMLCanvasElement | null; op
   return (
     <Layer listening={false}>
       {p.classMap && <KImage image={p.classMap} x={-0.5} y={-0.5} width={w} height={h} opacity={p.opacity} />}
-      {p.doc.labels.map((s, i) =>
-        s.points.length === 1 ? (
-          <Circle key={i} x={s.points[0].x} y={s.points[0].y} radius={s.radiusPx} fill={css(LABEL_COLOURS[s.cls], 0.85)} />
-        ) : (
-          <Line key={i} points={s.points.flatMap((q) => [q.x, q.y])} stroke={css(LABEL_COLOURS[s.cls], 0.85)} strokeWidth={2 * s.radiusPx} lineCap="round" lineJoin="round" />
-        ),
-      )}
+      {p.doc.labels.map((s, i) => {
+        // a dark rim under each stroke keeps it visible over the class map of its own colour
+        const pts = s.points.length === 1 ? [s.points[0].x, s.points[0].y, s.points[0].x + 0.01, s.points[0].y] : s.points.flatMap((q) => [q.x, q.y]);
+        return (
+          <Group key={i}>
+            <Line points={pts} stroke="rgba(10,14,22,0.8)" strokeWidth={2 * s.radiusPx + 3 * p.k} lineCap="round" lineJoin="round" />
+            <Line points={pts} stroke={css(LABEL_COLOURS[s.cls])} strokeWidth={2 * s.radiusPx} lineCap="round" lineJoin="round" />
+          </Group>
+        );
+      })}
       {p.pointer && cls && <Circle x={p.pointer.x} y={p.pointer.y} radius={p.r} stroke={css(LABEL_COLOURS[cls])} strokeWidth={p.k} />}
     </Layer>
   );
