@@ -25,6 +25,7 @@ export interface MeasureCliOptions {
   twoPoint?: string;
   metadata?: boolean;
   window?: string;
+  sectionDiameter?: string;
   features?: string;
   rays?: string;
   exclude?: string[];
@@ -54,6 +55,7 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--bar-length <length>', 'real length of the burned-in scale bar, e.g. 500um (bar found automatically)')
     .option('--two-point <x0,y0,x1,y1,length>', 'two image points (px) and their real distance, e.g. 100,900,600,900,2mm')
     .option('--no-metadata', 'ignore the pixel size in TIFF/PNG metadata')
+    .option('--section-diameter <length>', 'net-section diameter at the notch root from the specimen drawing, e.g. 5mm: guides the outline and cross-checks the scale (warning above 3 %)')
     .option('--window <length>', 'texture window side, e.g. 40um (default: automatic from the specimen size)')
     .option('--features <list>', `roughness features to combine, comma-separated (default ${DEFAULT_FEATURES.join(',')}; known: ${FEATURE_NAMES.join(', ')})`)
     .option('--rays <n>', 'number of rays around the circumference', '360')
@@ -162,6 +164,7 @@ export function paramsFromOptions(o: MeasureCliOptions, base: MeasureParams = de
   if (o.twoPoint !== undefined) p.scale.twoPoint = parseTwoPoint(o.twoPoint);
   if (o.metadata === false) p.scale.useMetadata = false;
   if (o.window !== undefined) p.windowUm = parseLengthUm(o.window, '--window');
+  if (o.sectionDiameter !== undefined) p.sectionDiameterUm = parseLengthUm(o.sectionDiameter, '--section-diameter');
   if (o.features !== undefined) p.features = parseFeatureList(o.features);
   if (o.rays !== undefined) p.nRays = num(o.rays, '--rays', true) as number;
   if (o.exclude && o.exclude.length) p.exclude = o.exclude.flatMap((s) => s.split(',')).filter((s) => s.trim()).map(parseSector);

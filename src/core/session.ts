@@ -186,6 +186,7 @@ function measureParams(v: unknown): MeasureParams {
     outlierK: o.outlierK === undefined ? d.outlierK : positive(o.outlierK, 'params.outlierK'),
     bootstrap: o.bootstrap === undefined ? d.bootstrap : integer(o.bootstrap, 'params.bootstrap'),
     seed: o.seed === undefined ? d.seed : integer(o.seed, 'params.seed'),
+    ...(o.sectionDiameterUm === undefined || o.sectionDiameterUm === null ? {} : { sectionDiameterUm: positive(o.sectionDiameterUm, 'params.sectionDiameterUm') }),
     boundaryPolygon: o.boundaryPolygon === undefined || o.boundaryPolygon === null ? null : points(o.boundaryPolygon, 'params.boundaryPolygon'),
     maxPixels: o.maxPixels === undefined ? d.maxPixels : positive(o.maxPixels, 'params.maxPixels'),
     material: materialParams(o.material),

@@ -29,6 +29,11 @@ export const WARNINGS = {
   // specimen
   SPECIMEN_CUT_BY_FRAME: { severity: 'check', description: 'the specimen is cut by the image frame; rays reaching the frame are not measured' },
   SCALE_MARK_ON_OUTLINE: { severity: 'check', description: 'the scale bar or its plate touches the specimen outline; rays ending there are not measured' },
+  OUTLINE_FROM_SILHOUETTE: { severity: 'check', description: 'no closed edge was found around the rough core; the outline is the silhouette of the part, which may include a notch flank or a shadow' },
+  OUTLINE_AMBIGUOUS: { severity: 'check', description: 'two or more closed edges could bound the fracture surface and the cues do not single one out; the outline may be the wrong one (the candidates are listed in specimen.edgeSearch)' },
+  OUTLINE_INNER_ROUND_EDGE: { severity: 'check', description: 'a strong round edge lies inside the outline taken; if it is the notch root, the band width is too large' },
+  SECTION_DIAMETER_NOT_FOUND: { severity: 'check', description: 'no closed edge lies within 12 % of the given section diameter; the outline was chosen without it' },
+  SECTION_DIAMETER_MISMATCH: { severity: 'check', description: 'the measured diameter of the fracture surface differs from the given section diameter by more than 3 %: check the pixel size' },
   OUTLINE_CORRECTED: { severity: 'info', description: 'the specimen outline was corrected by hand; centre, radius, ellipse and area are fitted to the corrected outline' },
   // rim/core classification
   WEAK_TEXTURE_CONTRAST: { severity: 'check', description: 'rim and core textures differ weakly (Fisher ratio below 4)' },

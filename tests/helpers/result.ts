@@ -68,6 +68,7 @@ export function makeResult(o: ResultOptions = {}): MeasureResult {
       background: 'dark',
       touchesFrame: false,
       frameContactFraction: 0,
+      edgeSearch: null,
       outline: [{ x: 0, y: 0 }, { x: 10, y: 0 }, { x: 10, y: 10 }],
     },
     band:

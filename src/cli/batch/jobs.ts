@@ -72,6 +72,7 @@ function applySettings(defaults: MeasureParams, s: ImageSettings, materialRef: s
   const p = structuredClone(defaults);
   if (s.pixelSizeUm !== undefined) p.scale.pixelSizeUm = s.pixelSizeUm;
   if (s.barLengthUm !== undefined) p.scale.barLengthUm = s.barLengthUm;
+  if (s.sectionDiameterUm !== undefined) p.sectionDiameterUm = s.sectionDiameterUm;
   if (s.strainRatePerS !== undefined) p.strainRatePerS = s.strainRatePerS;
   const ref = s.material ?? materialRef;
   if (ref) p.material = materials.resolve(ref);

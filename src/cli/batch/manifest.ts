@@ -1,6 +1,6 @@
 /**
  * Per-image settings for `batch`: from a manifest CSV (header
- * `file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,material,model`,
+ * `file,specimen_id,notch,notch_root_radius_mm,strain_rate_per_s,pixel_size_um,bar_length_um,section_diameter_mm,material,model`,
  * `file` relative to the manifest's folder, unknown columns kept as metadata) or from a sidecar
  * `IMAGE.json` next to the image (`img.png.json`, else `img.json`; same keys). A manifest row wins
  * over a sidecar, both win over the command-line defaults.
@@ -18,16 +18,19 @@ export const MANIFEST_COLUMNS = [
   'strain_rate_per_s',
   'pixel_size_um',
   'bar_length_um',
+  'section_diameter_mm',
   'material',
   'model',
 ] as const;
 
-const NUMERIC = new Set(['notch_root_radius_mm', 'strain_rate_per_s', 'pixel_size_um', 'bar_length_um']);
+const NUMERIC = new Set(['notch_root_radius_mm', 'strain_rate_per_s', 'pixel_size_um', 'bar_length_um', 'section_diameter_mm']);
 
 /** Settings of one image. Lengths in µm, strain rate in 1/s. */
 export interface ImageSettings {
   pixelSizeUm?: number;
   barLengthUm?: number;
+  /** Net-section diameter, µm (manifest column section_diameter_mm). */
+  sectionDiameterUm?: number;
   strainRatePerS?: number;
   /** Material reference `SHEET:NAME` (sheet path already resolved against the manifest folder). */
   material?: string;
@@ -74,6 +77,7 @@ function settingsFrom(values: Record<string, string>, where: (col: string) => st
       if (col === 'strain_rate_per_s') s.strainRatePerS = x;
       else if (col === 'pixel_size_um') s.pixelSizeUm = x;
       else if (col === 'bar_length_um') s.barLengthUm = x;
+      else if (col === 'section_diameter_mm') s.sectionDiameterUm = x * 1000;
       else s.metadata[col] = v;
     } else if (col === 'material') s.material = resolveMaterialRef(v, baseDir);
     else if (col === 'model') s.model = resolve(baseDir, v);

@@ -48,6 +48,7 @@ export function validateParams(p: MeasureParams): MeasureParams {
     for (const v of [t.p0.x, t.p0.y, t.p1.x, t.p1.y]) if (!Number.isFinite(v)) bad('two-point scale: coordinates must be finite numbers');
   }
   if (p.windowUm !== null) positive(p.windowUm, 'texture window (µm)');
+  positive(p.sectionDiameterUm, 'section diameter (µm)');
   if (!Array.isArray(p.features) || p.features.length === 0) bad('at least one roughness feature is needed');
   checkFeatureNames(p.features);
   if (!Number.isInteger(p.nRays) || p.nRays < 8 || p.nRays > 36000) bad(`number of rays must be an integer 8..36000, got ${p.nRays}`);

@@ -51,6 +51,9 @@ function typedWindowPx(p: MeasureParams, umPerPx: number): number | null {
 export function fullRunReason(base: MeasureResult, params: MeasureParams): string | null {
   const prev = base.params;
   if (tracedRays(params) !== tracedRays(prev)) return 'the number of rays above 360 changes how finely the outline and the boundary are traced';
+  const section = params.sectionDiameterUm ?? null;
+  if (section !== (prev.sectionDiameterUm ?? null)) return 'another section diameter changes which edge is taken as the outline and its cross-check';
+  if (section !== null && canonicalJson(params.scale) !== canonicalJson(prev.scale)) return 'with a section diameter set, another scale changes which edge is taken as the outline';
   const autoBoundary = params.boundaryPolygon === null;
   if (!autoBoundary) return null;
   if (canonicalJson(params.features) !== canonicalJson(prev.features)) return 'other roughness features change the automatic boundary';

@@ -96,6 +96,35 @@ export interface EllipseSummary {
   rmsResidualPx: number;
 }
 
+/** One closed edge around the rough core found by the outline search (segment/fractureEdge.ts). */
+export interface EdgeCandidate {
+  /** Equivalent diameter of the edge (2 × mean radius), µm. */
+  diameterUm: number;
+  /** Its centre, full-resolution px. */
+  center: PointPx;
+  /** Edge strength: mean step across the edge relative to the texture scatter (0..~5). */
+  prominence: number;
+  /** Fraction of the rays on which the edge was found. */
+  coverage: number;
+  /** RMS deviation of the edge from its fitted ellipse, px: small for a turned or fractured round edge. */
+  roundnessPx: number;
+  /** What the search made of it. */
+  role: 'chosen' | 'candidate' | 'rejected';
+  /** Why, in a few words (e.g. "smooth machined ring outside the fracture surface: notch flank"). */
+  note: string;
+  /** The edge, 72 points, full-resolution px. */
+  outline: PointPx[];
+}
+
+/** How the outline was chosen: every closed edge considered, and the rule that picked one. */
+export interface EdgeSearch {
+  /** The rule that decided, e.g. "outermost-rough-edge", "notch-flank", "section-diameter". */
+  rule: string;
+  /** True when the outline is the silhouette of the part (the chosen edge follows it). */
+  outlineFromSilhouette: boolean;
+  candidates: EdgeCandidate[];
+}
+
 /** The specimen (fracture surface) outline. */
 export interface ResultSpecimen {
   /** Ray origin: the fitted circle's centre, px. */
@@ -118,6 +147,8 @@ export interface ResultSpecimen {
   scaleMarksPx?: BoxPx[];
   /** Outer edge used for the rays (px). */
   outline: PointPx[];
+  /** The edges the outline was chosen from and why; null when the outline was not searched (model, hand-drawn). */
+  edgeSearch: EdgeSearch | null;
 }
 
 /**

@@ -54,6 +54,12 @@ export interface MeasureParams {
    * itself is passed to `analyseDecoded` beside the parameters). Absent: the fixed rules.
    */
   modelSha256?: string;
+  /**
+   * Net-section diameter of the specimen at the notch root, µm, when the user knows it from the
+   * specimen drawing (`--section-diameter`): a prior for choosing the fracture surface's own edge among
+   * concentric edges, and a cross-check of the scale (warning above 3 % difference). Absent: no prior.
+   */
+  sectionDiameterUm?: number;
   /** Manual boundary polygon (px) in place of the automatic one: re-measured without re-segmenting. */
   boundaryPolygon: PointPx[] | null;
   /** Pixel budget for decoding. */

@@ -184,6 +184,7 @@ function assembleSpecimen(frame: WorkingFrame, location: SpecimenLocation, calib
     frameContactFraction: round(sp.frameContactFraction, 4),
     ...(geometry.marks.length ? { scaleMarksPx: geometry.marks } : {}),
     outline: geometry.outline,
+    edgeSearch: location.edgeSearch ?? null,
   };
 }
 

@@ -8,6 +8,7 @@ import type { Scale } from '../../calibrate/index.js';
 import type { PointPx } from '../../image/geometry.js';
 import { findSpecimen, refineOuterEdge, type Specimen } from '../../segment/index.js';
 import type { WorkingFrame } from '../frame.js';
+import type { EdgeSearch } from '../result.js';
 
 /** Input of {@link locateSpecimen}. */
 export interface LocateInput {
@@ -29,6 +30,8 @@ export interface SpecimenLocation {
   /** Fitted circle radius, full-resolution px and µm. */
   radiusPx: number;
   radiusUm: number;
+  /** Edges considered for the outline and the rule that chose (absent: not searched). */
+  edgeSearch?: EdgeSearch | null;
   warnings: Warning[];
 }
 
