@@ -109,6 +109,8 @@ export interface Doc {
   boundary: PointPx[] | null;
   /** Outer edge corrected by hand (px), or null for the one of the base run. */
   outline: PointPx[] | null;
+  /** Net-section diameter from the specimen drawing, µm (typed in mm), or null when not known. */
+  sectionDiameterUm: number | null;
   /** Teach-mode strokes painted on this image (oldest first; a later stroke paints over an earlier one). */
   labels: LabelStroke[];
   /** The last full run. */
@@ -168,6 +170,7 @@ export function newDoc(id: string, image: ImageInfo): Doc {
     exclude: [],
     boundary: null,
     outline: null,
+    sectionDiameterUm: null,
     labels: [],
     base: null,
     result: null,
@@ -199,6 +202,14 @@ export function boundaryOf(doc: Doc): PointPx[] | null {
 /** The outer edge in use (px): the corrected one, else the one of the base run. */
 export function outlineOf(doc: Doc): PointPx[] | null {
   return doc.outline ?? doc.base?.result.specimen.outline ?? null;
+}
+
+/** One closed edge the outline search considered (core's result, `specimen.edgeSearch.candidates`). */
+export type EdgeCandidate = NonNullable<MeasureResult['specimen']['edgeSearch']>['candidates'][number];
+
+/** The closed edges the base run chose its outline from (none when it did not search). */
+export function edgeCandidatesOf(doc: Doc): EdgeCandidate[] {
+  return doc.base?.result.specimen.edgeSearch?.candidates ?? [];
 }
 
 /** The centre of the rays (px): of the current result, else of the base run. */

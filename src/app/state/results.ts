@@ -32,6 +32,7 @@ export function paramsOf(doc: Doc, series: Series, opts: { fullRun?: boolean } =
   p.tolerancePct = m.tolerancePct;
   p.boundaryPolygon = !opts.fullRun && doc.boundary ? doc.boundary.map((q) => ({ x: q.x, y: q.y })) : null;
   if (series.model) p.modelSha256 = series.model.sha256;
+  if (doc.sectionDiameterUm !== null) p.sectionDiameterUm = doc.sectionDiameterUm;
   return p;
 }
 

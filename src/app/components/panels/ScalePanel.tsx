@@ -2,7 +2,10 @@
 import { ApplyField } from '../fields.js';
 import { Messages } from '../Messages.js';
 import { scaleOf } from '../../state/scale.js';
-import { setTwoPointScale, setTypedScale, applyMetadataScale } from '../../state/actions/scale.js';
+import { setTwoPointScale, setTypedScale, applyMetadataScale, setSectionDiameter } from '../../state/actions/scale.js';
+import { chooseEdge } from '../../state/actions/edit.js';
+import { edgeCandidatesOf, type Doc } from '../../state/document.js';
+import { edgeLabel } from '../../render/layers.js';
 import { num, type PanelProps } from './types.js';
 
 export interface ScalePanelProps extends PanelProps {
@@ -64,7 +67,56 @@ export function ScalePanel(p: ScalePanelProps) {
           Use the file’s pixel size ({num(Math.sqrt(meta.umPerPxX * meta.umPerPxY), 5)} µm/px)
         </button>
       )}
+      <SectionDiameter {...p} />
       <Messages doc={doc} area="scale" />
     </section>
+  );
+}
+
+/** The measured diameter of the fracture surface (equivalent circle) against the drawing's, when both are known. */
+function diameterEcho(doc: Doc): string | null {
+  const r = doc.result;
+  if (!r) return null;
+  const measured = 2 * r.specimen.equivalentRadiusUm;
+  const given = r.params.sectionDiameterUm;
+  const head = `Measured ⌀ ${num(measured / 1000, 4)} mm (equivalent circle)`;
+  if (given === undefined) return `${head}.`;
+  const d = (100 * (measured - given)) / given;
+  return `${head}, ${d >= 0 ? '+' : '−'}${num(Math.abs(d), 2)} % against the drawing's ${num(given / 1000, 4)} mm.`;
+}
+
+/** Net-section diameter from the specimen drawing (mm) and the closed edges the outline was chosen from. */
+function SectionDiameter({ doc, act }: ScalePanelProps) {
+  const edges = edgeCandidatesOf(doc);
+  const echo = diameterEcho(doc);
+  return (
+    <>
+      <div className="sub">Section diameter at the notch root (from the drawing)</div>
+      <ApplyField
+        value={doc.sectionDiameterUm === null ? null : doc.sectionDiameterUm / 1000}
+        unit="mm"
+        placeholder="e.g. 5"
+        testId="section-mm"
+        buttonTestId="section-mm-apply"
+        button="Apply"
+        title="Helps pick the fracture surface's own edge and cross-checks the scale (warning above 3 %); empty: not known"
+        onApply={(v) => act('scale', (d) => setSectionDiameter(d, v))}
+      />
+      {echo && (
+        <p className="hint" data-testid="section-echo">
+          {echo}
+        </p>
+      )}
+      {edges.length > 0 && (
+        <div className="edge-list" data-testid="edge-list">
+          <div className="sub">Closed edges found (click one to take it as the outline)</div>
+          {edges.map((e, i) => (
+            <button key={i} className={`edge ${e.role}`} data-testid="edge-candidate" data-role={e.role} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
+              {edgeLabel(e.diameterUm, e.role)}
+            </button>
+          ))}
+        </div>
+      )}
+    </>
   );
 }

@@ -1,5 +1,5 @@
 /** The Konva layers of the image view, drawn from `shapesOf` (pure) and the drag in progress. */
-import { Circle, Group, Image as KImage, Layer, Line } from 'react-konva';
+import { Circle, Group, Image as KImage, Layer, Line, Text } from 'react-konva';
 import type { PointPx } from '../../../core/index.js';
 import { sectorFromDrag } from '../../state/geometry.js';
 import { wedge, type Shapes } from '../../render/layers.js';
@@ -50,6 +50,12 @@ export function ShapeLayer({ s, k, drag, brush }: { s: Shapes; k: number; drag: 
           ))}
         </Group>
       )}
+      {s.edges.map((e) => (
+        <Group key={`edge-${e.index}`}>
+          <Line points={e.points} closed stroke={e.role === 'chosen' ? OUTER : e.role === 'rejected' ? '#9aa3b2' : '#f2f2f2'} strokeWidth={k} dash={[6 * k, 4 * k]} />
+          <Text x={e.at.x + 4 * k} y={e.at.y - 14 * k} text={e.label + (e.inUse ? ' ✓' : '')} fontSize={12 * k} fontStyle={e.inUse ? 'bold' : 'normal'} fill={e.role === 'chosen' ? '#9fd8ff' : '#f2f2f2'} shadowColor="#000" shadowBlur={2 * k} shadowOpacity={0.9} />
+        </Group>
+      ))}
       {outline && <Line points={outline} closed stroke={OUTER} strokeWidth={1.5 * k} />}
       {s.boundary && <Line points={s.boundary} closed stroke={BOUNDARY} strokeWidth={1.5 * k} />}
       {c && <Line points={[c.x - 6 * k, c.y, c.x + 6 * k, c.y, c.x, c.y, c.x, c.y - 6 * k, c.x, c.y + 6 * k]} stroke={OUTER} strokeWidth={k} />}

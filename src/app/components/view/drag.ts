@@ -12,8 +12,8 @@ import type { LabelClass } from '../../state/document.js';
 import { extendLabelStroke, startLabelStroke } from '../../state/actions/teach.js';
 import type { HistoryMode } from '../../state/history.js';
 import type { Change } from '../../state/actions/types.js';
-import { addBoundaryPoint, addSector, brush, moveBoundaryPoint, moveOutline, removeBoundaryPoint, reshape } from '../../state/actions/edit.js';
-import { OUTLINE_HANDLES, PICK_PX, type View } from '../../render/layers.js';
+import { addBoundaryPoint, addSector, brush, chooseEdge, moveBoundaryPoint, moveOutline, removeBoundaryPoint, reshape } from '../../state/actions/edit.js';
+import { edgeRings, OUTLINE_HANDLES, pickEdge, PICK_PX, type View } from '../../render/layers.js';
 
 export type Drag =
   | { kind: 'pan'; from: PointPx; view: View }
@@ -81,8 +81,13 @@ export function press(c: PointerContext): { drag: Drag | null; change: Change | 
       return { drag: centreOf(c.doc) ? { kind: 'sector', from: c.p, to: c.p } : null, change: null };
     case 'scale-line':
       return { drag: { kind: 'line', from: c.p, to: c.p }, change: null };
-    case 'outline':
-      return { drag: outlinePress(c) ?? pan, change: null };
+    case 'outline': {
+      const handle = outlinePress(c);
+      if (handle) return { drag: handle, change: null };
+      // one click on a dashed ring takes that edge as the outline
+      const i = pickEdge(edgeRings(c.doc), c.p, (PICK_PX / 2) * k);
+      return i >= 0 ? { drag: null, change: chooseEdge(c.doc, i) } : { drag: pan, change: null };
+    }
     case 'teach-outside':
     case 'teach-rim':
     case 'teach-core':
@@ -136,7 +141,7 @@ export function hint(tool: Tool, doc: Doc): string {
     case 'sector':
       return 'drag around the centre to leave a sector out';
     case 'outline':
-      return measured ? 'drag the centre to move the outline, a handle to reshape it' : 'find the boundary first';
+      return measured ? `drag the centre to move the outline, a handle to reshape it${doc.base?.result.specimen.edgeSearch?.candidates.length ? '; click a dashed ring to take that edge' : ''}` : 'find the boundary first';
     case 'scale-line':
       return 'drag along a known length (type it in the scale panel)';
     case 'teach-outside':
