@@ -38,6 +38,8 @@ export interface TeachView {
   model: TeachModel | null;
   /** The strokes (and scales) the model was taught from; a change teaches again. */
   taughtKey: string | null;
+  /** Models taught before, by the key of their strokes (undo / redo show them again without teaching). */
+  byKey: Record<string, TeachModel>;
   maps: Record<string, ClassMapShown>;
   busy: 'teaching' | 'mapping' | null;
   /** When the teaching in progress (or the last one) started (performance.now()). */
@@ -45,7 +47,7 @@ export interface TeachView {
   error: string | null;
 }
 
-export const emptyTeach = (): TeachView => ({ model: null, taughtKey: null, maps: {}, busy: null, startedAt: null, error: null });
+export const emptyTeach = (): TeachView => ({ model: null, taughtKey: null, byKey: {}, maps: {}, busy: null, startedAt: null, error: null });
 
 /** What the engine teaches from: the images with strokes and a scale. */
 export function teachInputs(s: AppState): { inputs: TeachInput[]; unscaled: string[] } {
@@ -100,12 +102,18 @@ export async function teachStep(ctx: TeachContext): Promise<boolean> {
   const step = nextTeachStep(ctx.get(), ctx.getTeach());
   if (!step) return false;
   if (step.kind === 'teach') {
+    const known = ctx.getTeach().byKey[step.key];
+    if (known) {
+      ctx.setTeach((t) => ({ ...t, taughtKey: step.key, error: null, model: known, startedAt: null }));
+      return true;
+    }
     const startedAt = performance.now();
     ctx.setTeach((t) => ({ ...t, busy: 'teaching', startedAt }));
     try {
       const info = await ctx.engine.request({ type: 'teach', images: step.inputs });
       const names = step.inputs.map((i) => ctx.get().docs.find((d) => d.id === i.docId)?.image.name ?? '?');
-      ctx.setTeach((t) => ({ ...t, busy: null, taughtKey: step.key, error: null, model: { ...info, name: `taught on ${names.join(', ')}`, origin: 'taught' } }));
+      const model: TeachModel = { ...info, name: `taught on ${names.join(', ')}`, origin: 'taught' };
+      ctx.setTeach((t) => ({ ...t, busy: null, taughtKey: step.key, error: null, model, byKey: { ...t.byKey, [step.key]: model } }));
     } catch (e) {
       ctx.setTeach((t) => ({ ...t, busy: null, taughtKey: step.key, error: wordsOf(e) }));
     } finally {
