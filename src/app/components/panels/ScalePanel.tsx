@@ -91,7 +91,7 @@ function SectionDiameter({ doc, act }: ScalePanelProps) {
   const echo = diameterEcho(doc);
   return (
     <>
-      <div className="sub">Section diameter at the notch root (from the drawing)</div>
+      <div className="sub" title="Net-section diameter at the notch root, from the specimen drawing">Section diameter (from the drawing)</div>
       <ApplyField
         value={doc.sectionDiameterUm === null ? null : doc.sectionDiameterUm / 1000}
         unit="mm"
