@@ -52,8 +52,11 @@ export function ShapeLayer({ s, k, drag, brush }: { s: Shapes; k: number; drag: 
       )}
       {s.edges.map((e) => (
         <Group key={`edge-${e.index}`}>
-          <Line points={e.points} closed stroke={e.role === 'chosen' ? OUTER : e.role === 'rejected' ? '#9aa3b2' : '#f2f2f2'} strokeWidth={k} dash={[6 * k, 4 * k]} />
-          <Text x={e.at.x + 4 * k} y={e.at.y - 14 * k} text={e.label + (e.inUse ? ' ✓' : '')} fontSize={12 * k} fontStyle={e.inUse ? 'bold' : 'normal'} fill={e.role === 'chosen' ? '#9fd8ff' : '#f2f2f2'} shadowColor="#000" shadowBlur={2 * k} shadowOpacity={0.9} />
+          {/* rejected edges faint and unlabelled (the scale panel lists them with the reason) */}
+          <Line points={e.points} closed stroke={e.role === 'chosen' ? OUTER : e.role === 'rejected' ? 'rgba(190,198,210,0.45)' : '#f2f2f2'} strokeWidth={k} dash={[6 * k, 4 * k]} />
+          {(e.role !== 'rejected' || e.inUse) && (
+            <Text x={e.at.x + 4 * k} y={e.at.y - 14 * k} text={e.label + (e.inUse ? ' ✓' : '')} fontSize={12 * k} fontStyle={e.inUse ? 'bold' : 'normal'} fill={e.role === 'chosen' ? '#9fd8ff' : '#f2f2f2'} shadowColor="#000" shadowBlur={2 * k} shadowOpacity={0.9} />
+          )}
         </Group>
       ))}
       {outline && <Line points={outline} closed stroke={OUTER} strokeWidth={1.5 * k} />}
