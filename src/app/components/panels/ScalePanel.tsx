@@ -5,7 +5,7 @@ import { scaleOf } from '../../state/scale.js';
 import { setTwoPointScale, setTypedScale, applyMetadataScale, setSectionDiameter } from '../../state/actions/scale.js';
 import { chooseEdge } from '../../state/actions/edit.js';
 import { edgeCandidatesOf, type Doc } from '../../state/document.js';
-import { edgeLabel } from '../../render/layers.js';
+import { edgeLabel, edgeRings } from '../../render/layers.js';
 import { num, type PanelProps } from './types.js';
 
 export interface ScalePanelProps extends PanelProps {
@@ -88,6 +88,7 @@ function diameterEcho(doc: Doc): string | null {
 /** Net-section diameter from the specimen drawing (mm) and the closed edges the outline was chosen from. */
 function SectionDiameter({ doc, act }: ScalePanelProps) {
   const edges = edgeCandidatesOf(doc);
+  const inUse = edgeRings(doc).map((r) => r.inUse);
   const echo = diameterEcho(doc);
   return (
     <>
@@ -111,8 +112,9 @@ function SectionDiameter({ doc, act }: ScalePanelProps) {
         <div className="edge-list" data-testid="edge-list">
           <div className="sub">Closed edges found (click one to take it as the outline)</div>
           {edges.map((e, i) => (
-            <button key={i} className={`edge ${e.role}`} data-testid="edge-candidate" data-role={e.role} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
+            <button key={i} className={`edge ${e.role}${inUse[i] ? ' in-use' : ''}`} data-testid="edge-candidate" data-role={e.role} data-in-use={inUse[i]} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
               {edgeLabel(e.diameterUm, e.role)}
+              {inUse[i] ? ' ✓' : ''}
             </button>
           ))}
         </div>
