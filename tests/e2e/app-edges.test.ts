@@ -91,7 +91,7 @@ describe.skipIf(SKIP_E2E)('section diameter and edge candidates', () => {
     await expect.poll(() => currentMean(page)).not.toBe(before);
     const after = JSON.parse(readFileSync(await downloadOf(page, 'export-json'), 'utf8')) as { specimen: { outline: { x: number; y: number }[] } };
     expect(after.specimen.outline).toEqual(cands[other].outline);
-    expect(await page.getByTestId('edge-candidate').nth(other).getAttribute('data-in-use')).toBe('true');
+    expect(await page.locator('[data-testid=edge-candidate][data-in-use=true]').getAttribute('data-diameter-um')).toBe(String(cands[other].diameterUm));
     await page.keyboard.press('Control+z');
     await expect.poll(() => currentMean(page)).toBe(before);
     expect(s.consoleErrors).toEqual([]);

@@ -89,6 +89,16 @@ function diameterEcho(doc: Doc): string | null {
 function SectionDiameter({ doc, act }: ScalePanelProps) {
   const edges = edgeCandidatesOf(doc);
   const inUse = edgeRings(doc).map((r) => r.inUse);
+  const rejected = edges.flatMap((e, i) => (e.role === 'rejected' && !inUse[i] ? [i] : []));
+  const edgeButton = (i: number) => {
+    const e = edges[i];
+    return (
+      <button key={i} className={`edge ${e.role}${inUse[i] ? ' in-use' : ''}`} data-testid="edge-candidate" data-role={e.role} data-in-use={inUse[i]} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
+        {edgeLabel(e.diameterUm, e.role)}
+        {inUse[i] ? ' ✓' : ''}
+      </button>
+    );
+  };
   const echo = diameterEcho(doc);
   return (
     <>
@@ -111,12 +121,13 @@ function SectionDiameter({ doc, act }: ScalePanelProps) {
       {edges.length > 0 && (
         <div className="edge-list" data-testid="edge-list">
           <div className="sub">Closed edges found (click one to take it as the outline)</div>
-          {edges.map((e, i) => (
-            <button key={i} className={`edge ${e.role}${inUse[i] ? ' in-use' : ''}`} data-testid="edge-candidate" data-role={e.role} data-in-use={inUse[i]} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
-              {edgeLabel(e.diameterUm, e.role)}
-              {inUse[i] ? ' ✓' : ''}
-            </button>
-          ))}
+          {edges.map((e, i) => (e.role !== 'rejected' || inUse[i] ? edgeButton(i) : null))}
+          {rejected.length > 0 && (
+            <details className="edge-rejected">
+              <summary>{rejected.length} more, rejected by the search</summary>
+              {rejected.map((i) => edgeButton(i))}
+            </details>
+          )}
         </div>
       )}
     </>
