@@ -61,6 +61,13 @@ export function summaryText(r: MeasureResult): string {
   for (const w of s.quality.reasons) lines.push(`                 - ${w.message} [${w.code}]`);
   lines.push(`  scale          ${(s.scale.umPerPx.value ?? NaN).toPrecision(5)} µm/px  [${s.scale.source}: ${s.scale.detail}]`);
   lines.push(`  specimen       centre (${f1(s.specimen.centerPx.x)}, ${f1(s.specimen.centerPx.y)}) px, radius ${f1(s.specimen.radius)} µm` + (s.specimen.cutByFrame ? ' (cut by the frame)' : ''));
+  const es = r.specimen.edgeSearch;
+  if (es) {
+    const others = es.candidates.filter((c) => c.role !== 'chosen' && c.coverage >= 0.5).map((c) => `⌀${(c.diameterUm / 1000).toFixed(2)} mm`);
+    const chosen = es.candidates.find((c) => c.role === 'chosen');
+    const what = es.outlineFromSilhouette ? 'silhouette of the part' : 'the chosen edge';
+    lines.push(`  outline        ${what}${chosen ? `, ⌀${(chosen.diameterUm / 1000).toFixed(3)} mm (${es.rule})` : ` (${es.rule})`}` + (others.length ? `; other closed edges ${others.join(', ')}` : ''));
+  }
   if (r.model) {
     const c = r.model.confidence;
     lines.push(`  model          ${r.model.sha256.slice(0, 12)}… (pixel classifier, out-of-bag accuracy ${(r.model.oobAccuracy * 100).toFixed(1)} %); confidence along the boundary ${c.boundary === null ? '—' : c.boundary.toFixed(2)}, outer edge ${c.outerEdge.toFixed(2)}`);

@@ -88,7 +88,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   T.lap('scale', 'specimen outline', 0.12);
   const frame = new WorkingFrame(decoded.raster, calibration.marks);
   const seg = modelBranch(p, options, (loaded) => segmentWithModel({ frame, scale: calibration.scale, loaded, nRays: p.nRays }));
-  const location = seg ? seg.location : locateSpecimen({ frame, scale: calibration.scale, nRays: p.nRays });
+  const location = seg ? seg.location : locateSpecimen({ frame, scale: calibration.scale, nRays: p.nRays, sectionDiameterUm: p.sectionDiameterUm });
   T.lap('specimen', 'texture', 0.25);
   const windowUm = p.windowUm ?? (seg ? seg.windowUm : null);
   const window = textureWindow({ frame, scale: calibration.scale, location, windowUm, features: p.features });

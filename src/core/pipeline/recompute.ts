@@ -137,6 +137,7 @@ export function rescaleResult(base: MeasureResult, s: ScaleParams): MeasureResul
     sp.ellipse.semiMinorUm = round(sp.ellipse.semiMinorUm * k, 3);
     sp.areaMm2 = round((sp.areaMm2 * scale.umPerPxX * scale.umPerPxY) / (old.umPerPxX * old.umPerPxY), 5);
     sp.equivalentRadiusUm = round(sp.equivalentRadiusUm * k, 3);
+    for (const c of sp.edgeSearch?.candidates ?? []) c.diameterUm = round(c.diameterPx * scale.umPerPx, 1);
   }
   const w = r.params.windowUm;
   r.resolved.windowUm = w === null ? (changed ? round(base.resolved.windowUm * k, 3) : base.resolved.windowUm) : round(w, 3);

@@ -98,7 +98,8 @@ export interface EllipseSummary {
 
 /** One closed edge around the rough core found by the outline search (segment/fractureEdge.ts). */
 export interface EdgeCandidate {
-  /** Equivalent diameter of the edge (2 × mean radius), µm. */
+  /** Equivalent diameter of the edge (2 × mean distance from the centre), full-resolution px and µm. */
+  diameterPx: number;
   diameterUm: number;
   /** Its centre, full-resolution px. */
   center: PointPx;

@@ -1,0 +1,210 @@
+/**
+ * The fracture surface's own edge (the notch root), chosen among the closed edges around the rough
+ * core (rings.ts), instead of the silhouette of the part, which also holds a visible notch flank, a
+ * shadow or a holder.
+ *
+ * Rules (our own, validated on the rendered scene sets; DEVELOPERS.md "Outline"):
+ * - a ring "counts" when it is found on ≥ 60 % of the rays with prominence ≥ 0.3, or on ≥ 75 % when
+ *   it is very round (RMS ≤ 1.5 px);
+ * - the core edge is the innermost ring on ≥ 50 % of the rays where the roughness drops outward by
+ *   more than 0.8 (ln units) from a rough inside: the rim/core boundary, or the outer edge itself on a
+ *   surface without a band;
+ * - if the annulus outside the core edge is machined-looking (radial share of fine-texture gradients ≥
+ *   0.68 or concentric profiles ≥ 0.3: turning marks of a notch flank) or lies outside the silhouette,
+ *   the core edge is the fracture edge (no band) — rule `core-is-edge`;
+ * - otherwise the fracture edge is the first counted ring outside the core edge (the rim band lies
+ *   between) — rule `first-edge-outside-core`; without a core edge, the innermost counted ring — rule
+ *   `innermost-edge`;
+ * - with a section diameter given, the ring nearest it within 12 % wins — rule `section-diameter`;
+ * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
+ * Every ring is reported with its role and a note.
+ */
+import type { PointPx } from '../image/geometry.js';
+import type { GrayRaster, Mask } from '../image/raster.js';
+import { edgeCues } from './polar.js';
+import { findRings, voteCentre, type Ring } from './rings.js';
+import type { Specimen } from './specimen.js';
+
+/** A ring with what the search made of it. */
+export interface RingVerdict {
+  ring: Ring;
+  role: 'chosen' | 'candidate' | 'rejected';
+  note: string;
+}
+
+/** Outcome of {@link findFractureEdge}. */
+export interface FractureEdge {
+  /** The chosen ring, or null (then the silhouette stands). */
+  chosen: Ring | null;
+  rule: string;
+  rings: RingVerdict[];
+  center: PointPx;
+  /** A counted round ring lies inside the chosen one (not the core edge). */
+  innerRoundEdge: boolean;
+  /** More than one ring could be the edge and the cues do not single one out. */
+  ambiguous: boolean;
+  /** The section diameter was given and no ring lies within 12 % of it. */
+  sectionNotFound: boolean;
+}
+
+const MACHINED_RADIAL = 0.68;
+const MACHINED_CONCENTRIC = 0.6;
+
+function counts(r: Ring): boolean {
+  return (r.coverage >= 0.6 && r.prominence >= 0.3) || (r.coverage >= 0.75 && r.roundnessPx <= 1.5 && r.prominence >= 0.15);
+}
+
+function machined(a: Ring['outer']): boolean {
+  return a.radialShare >= MACHINED_RADIAL || a.concentricity >= MACHINED_CONCENTRIC;
+}
+
+/** Roughness drops outward across it, from about the core's own level (not from a smooth band). */
+function isCoreEdge(r: Ring, coreRoughness: number): boolean {
+  return r.coverage >= 0.5 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.8 && !(r.inner.roughness < coreRoughness - 0.6);
+}
+
+/** Options of {@link findFractureEdge}. */
+export interface FractureEdgeOptions {
+  /** Silhouette of the part (working px). */
+  silhouette: Specimen;
+  /** Net-section radius from the user, working px, or null. */
+  sectionRadiusPx: number | null;
+}
+
+/**
+ * Searches the closed edges around the core and chooses the fracture surface's own edge.
+ * @param work - working copy (gray 0..1)
+ */
+export function findFractureEdge(work: GrayRaster, o: FractureEdgeOptions): FractureEdge {
+  const W = work.width;
+  const H = work.height;
+  const cues = edgeCues(work, Math.max(5, Math.max(W, H) / 120));
+  const sil = o.silhouette;
+  const minSide = Math.min(W, H);
+  // a silhouette whose circle is not a specimen-sized circle in the frame (a rule or a holder taken
+  // for the part) says nothing of the centre or size
+  const silUsable = sil.circle.cx >= 0 && sil.circle.cy >= 0 && sil.circle.cx < W && sil.circle.cy < H && sil.circle.radiusPx < 0.75 * Math.max(W, H);
+  const near = silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
+  // a clean elliptic silhouette (a tidy picture, or the bar edge around a flank: concentric with the
+  // notch root) gives the centre; otherwise the vote of the concentric edges (normals of a tilted,
+  // elliptic outline do not meet at its centre, so the vote is the second choice)
+  const silGood = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
+  const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, 0.45 * Math.max(W, H));
+  const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
+  // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
+  const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
+  const shape = { center, ratio: offCentre || !(ratio > 0.3) ? 1 : ratio, angleDeg: offCentre ? 0 : -sil.ellipse.angleDeg };
+  const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
+  const rMax = Math.max(1.3 * R, 0.5 * Math.max(W, H));
+  const search = findRings(cues, shape, { rMin: 0.15 * Math.min(R, minSide / 2), rMax, silhouette: offCentre ? null : sil.mask });
+  return choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
+}
+
+function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, coreRoughness: number): FractureEdge {
+  const verdicts: RingVerdict[] = rings.map((ring) => ({ ring, role: counts(ring) ? 'candidate' : 'rejected', note: counts(ring) ? 'closed round edge' : `weak or partial edge (found on ${Math.round(ring.coverage * 100)} % of the rays)` }));
+  let chosen = -1;
+  let rule = 'none';
+  let sectionNotFound = false;
+  if (sectionRadiusPx !== null) {
+    let best = -1;
+    for (let i = 0; i < rings.length; i++) {
+      const d = Math.abs(rings[i].radiusPx - sectionRadiusPx) / sectionRadiusPx;
+      if (d <= 0.12 && rings[i].coverage >= 0.3 && (best < 0 || d < Math.abs(rings[best].radiusPx - sectionRadiusPx) / sectionRadiusPx)) best = i;
+    }
+    if (best >= 0) {
+      chosen = best;
+      rule = 'section-diameter';
+    } else sectionNotFound = true;
+  }
+  const core = rings.findIndex((r) => isCoreEdge(r, coreRoughness));
+  if (core >= 0) verdicts[core].note = 'roughness drops outward across it: the rim/core boundary, or the edge of a surface without a band';
+  let confirmed = rule === 'section-diameter';
+  let stepped = false;
+  if (chosen < 0) {
+    // walk outward from the core edge (else the innermost clear ring) to the first ring beyond which
+    // the surface is not fracture surface: a machined flank or the background; at most one step
+    // across a rim band from the core edge, two without one
+    const start = core >= 0 ? core : rings.findIndex(counts);
+    let i = start;
+    let steps = 0;
+    while (i >= 0) {
+      const r = rings[i];
+      const strong = i === core ? (r.outer.widthPx >= 6 && r.outer.radialShare >= 0.8) || r.outer.inSilhouette < 0.3 : machined(r.outer) || r.outer.inSilhouette < 0.5;
+      if (strong) {
+        chosen = i;
+        confirmed = true;
+        break;
+      }
+      const next = rings.findIndex((q, k) => k > i && counts(q));
+      if (next < 0 || steps >= (core >= 0 ? 1 : 2)) {
+        if (i !== core) chosen = i;
+        break;
+      }
+      i = next;
+      steps++;
+    }
+    stepped = steps > 0;
+    if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
+  }
+  let ambiguous = false;
+  let innerRoundEdge = false;
+  if (chosen >= 0) {
+    const ch = rings[chosen];
+    verdicts[chosen].role = 'chosen';
+    verdicts[chosen].note = noteFor(rule, ch);
+    for (let i = 0; i < rings.length; i++) {
+      if (i === chosen || verdicts[i].role !== 'candidate') continue;
+      if (i > chosen) verdicts[i].note = outsideNote(rings[i], rings[i - 1]);
+      else if (i !== core) innerRoundEdge = innerRoundEdge || rings[i].roundnessPx <= 1.5;
+    }
+    const further = rings.some((r, i) => i > chosen && counts(r) && r.outer.inSilhouette >= 0.5 && !machined(r.inner));
+    ambiguous = (!confirmed && further) || (core < 0 && stepped);
+  }
+  return { chosen: chosen >= 0 ? rings[chosen] : null, rule, rings: verdicts, center, innerRoundEdge, ambiguous, sectionNotFound };
+}
+
+function noteFor(rule: string, r: Ring): string {
+  const outside = machined(r.outer) ? 'a smooth machined ring (notch flank) lies outside it' : r.outer.inSilhouette < 0.5 ? 'background lies outside it' : 'the surface outside it differs';
+  switch (rule) {
+    case 'section-diameter':
+      return 'nearest to the given section diameter';
+    case 'core-is-edge':
+      return `the rough core reaches this edge (no band); ${outside}`;
+    case 'first-edge-outside-core':
+      return `first closed edge outside the rough core, the rim band between; ${outside}`;
+    default:
+      return `innermost closed round edge; ${outside}`;
+  }
+}
+
+function outsideNote(r: Ring, inner: Ring): string {
+  if (r.outer.inSilhouette < 0.5) return 'outer edge of the part (bar edge or silhouette): outside the fracture surface';
+  if (machined(inner.outer)) return 'edge beyond a machined ring: outside the fracture surface';
+  return 'edge outside the fracture surface (holder, shadow or flank)';
+}
+
+/** The chosen ring as a polygon in working px (one vertex per ray). */
+export function ringPolygon(r: Ring): PointPx[] {
+  return r.points;
+}
+
+/** Pixels inside a polygon (even-odd scanline fill), as a mask of the given size. */
+export function polygonMask(poly: readonly PointPx[], width: number, height: number): Mask {
+  const data = new Uint8Array(width * height);
+  const xs: number[] = [];
+  for (let y = 0; y < height; y++) {
+    xs.length = 0;
+    for (let i = 0, j = poly.length - 1; i < poly.length; j = i++) {
+      const a = poly[i];
+      const b = poly[j];
+      if ((a.y > y) !== (b.y > y)) xs.push(a.x + ((y - a.y) * (b.x - a.x)) / (b.y - a.y));
+    }
+    xs.sort((p, q) => p - q);
+    for (let k = 0; k + 1 < xs.length; k += 2) {
+      const x0 = Math.max(0, Math.ceil(xs[k]));
+      const x1 = Math.min(width - 1, Math.floor(xs[k + 1]));
+      for (let x = x0; x <= x1; x++) data[y * width + x] = 1;
+    }
+  }
+  return { width, height, data };
+}
