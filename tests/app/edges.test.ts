@@ -22,7 +22,7 @@ async function withEdges(): Promise<Doc> {
   const base = doc.base;
   if (!base) throw new Error('no base run');
   const sp = base.result.specimen;
-  const cand = (role: EdgeCandidate['role'], r: number, outline: PointPx[]): EdgeCandidate => ({ diameterUm: 2 * r * 8.5, center: sp.center, prominence: 2, coverage: 0.9, roundnessPx: 1, role, note: role, outline });
+  const cand = (role: EdgeCandidate['role'], r: number, outline: PointPx[]): EdgeCandidate => ({ diameterUm: 2 * r * 8.5, diameterPx: 2 * r, center: sp.center, prominence: 2, coverage: 0.9, roundnessPx: 1, role, note: role, outline });
   const edgeSearch = { rule: 'outermost-rough-edge', outlineFromSilhouette: false, candidates: [cand('chosen', sp.radiusPx, sp.outline), cand('candidate', sp.radiusPx * 0.8, ring(sp.center.x, sp.center.y, sp.radiusPx * 0.8))] };
   const result = { ...base.result, specimen: { ...sp, edgeSearch } };
   return { ...doc, base: { ...base, result }, result };
