@@ -10,6 +10,7 @@ import { apply, type Change } from './state/actions/types.js';
 import { setTwoPointScale } from './state/actions/scale.js';
 import { settingsOf, type Doc, type MessageArea, type Series } from './state/document.js';
 import { scaleOf, umPerPxOf } from './state/scale.js';
+import { defaultLabelRadiusPx } from './state/labels.js';
 import { useStore, type Update } from './hooks/useStore.js';
 import { useEngine } from './hooks/useEngine.js';
 import { useRecompute } from './hooks/useRecompute.js';
@@ -23,6 +24,7 @@ import { TexturePanel } from './components/panels/TexturePanel.js';
 import { Plots, ResultsPanel } from './components/panels/ResultsPanel.js';
 import { MaterialPanel } from './components/panels/MaterialPanel.js';
 import { SavePanel } from './components/panels/SavePanel.js';
+import { TeachPanel } from './components/panels/TeachPanel.js';
 import { Toolbar } from './components/Toolbar.js';
 import { HelpDialog } from './components/HelpDialog.js';
 import { ImageView } from './components/view/ImageView.js';
@@ -45,6 +47,12 @@ function useSize(): [React.RefObject<HTMLDivElement | null>, { w: number; h: num
 function brushRadiusPx(state: AppState, doc: Doc): number {
   const u = umPerPxOf(doc);
   return state.view.brushRadiusUm > 0 && u ? state.view.brushRadiusUm / u : Math.max(4, Math.min(doc.image.widthPx, doc.image.heightPx) / 40);
+}
+
+/** Teach-brush radius (px): typed in µm, else 1/150 of the smaller image side. */
+function labelRadiusPx(state: AppState, doc: Doc): number {
+  const u = umPerPxOf(doc);
+  return state.view.teach.radiusUm > 0 && u ? state.view.teach.radiusUm / u : defaultLabelRadiusPx(doc.image.widthPx, doc.image.heightPx);
 }
 
 function Centre(p: { state: AppState; doc: Doc | null; update: Update; act: Act; flows: AppFlows; lineUm: number | null }) {
@@ -71,6 +79,8 @@ function Centre(p: { state: AppState; doc: Doc | null; update: Update; act: Act;
             width={size.w}
             height={size.h - 26}
             brushRadiusPx={brushRadiusPx(state, doc)}
+            labelRadiusPx={labelRadiusPx(state, doc)}
+            teach={state.view.teach.on ? { classMap: p.flows.teach.model && p.flows.teach.maps[doc.id]?.sha256 === p.flows.teach.model.sha256 ? p.flows.teach.maps[doc.id].canvas : null, opacity: state.view.teach.opacity } : null}
             nRays={settingsOf(doc, state.series).nRays}
             pitch={scale?.ok ? { x: scale.scale.umPerPxX, y: scale.scale.umPerPxY } : null}
             act={(c) => p.act('edit', () => c)}
@@ -145,6 +155,7 @@ export function App() {
         <ImagesPanel state={state} update={update} onOpen={flows.openFiles} onClose={flows.forget} />
         {panel && <ScalePanel key={`scale-${panel.doc.id}`} {...panel} lineUm={lineUm} onDrawLine={(v) => (setLineUm(v), update((s) => setView(s, { tool: 'scale-line' })))} />}
         {panel && <AnalysisPanel key={`analysis-${panel.doc.id}`} {...panel} />}
+        {panel && <TeachPanel state={state} doc={panel.doc} update={update} flows={flows} />}
         {panel && <TexturePanel key={`texture-${panel.doc.id}`} {...panel} view={state.view} update={update} shown={flows.textures[panel.doc.id]?.label ?? null} />}
       </nav>
       <Centre state={state} doc={doc} update={update} act={act} flows={flows} lineUm={lineUm} />

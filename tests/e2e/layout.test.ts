@@ -2,7 +2,8 @@
  * The layout keeps the image usable: at 1024×768 and 1440×900 the image view takes at least half of
  * the window's width and most of its height, nothing scrolls sideways, and the tools sit in one row.
  * Screenshots go to /tmp/fractozone-layout-<width>.png; with FRACTOZONE_README_SCREENSHOT=1 the
- * 1440×900 one also replaces src/app/assets/screenshot.png (the README's picture).
+ * 1440×900 one also replaces src/app/assets/screenshot.png (the README's picture); teach mode's
+ * toolbar fits its row too (/tmp/fractozone-layout-teach-<width>.png).
  */
 import { copyFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -44,6 +45,11 @@ describe.skipIf(SKIP_E2E)('layout', () => {
       await page.mouse.move(stage.x + stage.width * 0.62, stage.y + stage.height * 0.4);
       await page.screenshot({ path: shot });
       if (size.width === 1440 && process.env.FRACTOZONE_README_SCREENSHOT === '1') copyFileSync(shot, join(repoRoot, 'src/app/assets/screenshot.png'));
+      // teach mode: its brushes and options fit the same row
+      await page.getByTestId('teach-toggle').click();
+      expect((await page.getByRole('toolbar').boundingBox())?.height ?? 999).toBeLessThan(40);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(size.width);
+      await page.screenshot({ path: `/tmp/fractozone-layout-teach-${size.width}.png` });
       expect(s.consoleErrors).toEqual([]);
       expect(s.foreignRequests).toEqual([]);
     });

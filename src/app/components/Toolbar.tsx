@@ -1,12 +1,23 @@
 /** Edit tools above the image, the options of the tool in use, and undo/redo. */
-import { canRedo, canUndo, redo, setView, undo, type AppState, type Tool } from '../state/store.js';
+import { canRedo, canUndo, isTeachTool, redo, setView, undo, type AppState, type Tool } from '../state/store.js';
+import { clearLabels } from '../state/actions/teach.js';
 import { resetBoundary, resetOutline } from '../state/actions/edit.js';
 import type { Update } from '../hooks/useStore.js';
 import type { Doc } from '../state/document.js';
 import { NumberField } from './fields.js';
 import type { Act } from './panels/types.js';
 
-const TOOLS: { tool: Tool; label: string; key: string; title: string }[] = [
+type ToolButton = { tool: Tool; label: string; key: string; title: string };
+
+/** Teach mode's brushes (and panning). */
+const TEACH_TOOLS: ToolButton[] = [
+  { tool: 'pan', label: 'Pan', key: 'H', title: 'Drag the image' },
+  { tool: 'teach-outside', label: 'Outside', key: '', title: 'Brush: paint what lies outside the fracture surface (background, holder, notch flank)' },
+  { tool: 'teach-rim', label: 'Rim band', key: '', title: 'Brush: paint the smooth rim band' },
+  { tool: 'teach-core', label: 'Core', key: '', title: 'Brush: paint the rough core' },
+];
+
+const TOOLS: ToolButton[] = [
   { tool: 'pan', label: 'Pan', key: 'H', title: 'Drag the image' },
   { tool: 'vertex', label: 'Move', key: 'V', title: 'Drag a boundary point' },
   { tool: 'add-vertex', label: 'Add', key: 'A', title: 'Click: the boundary passes through that point' },
@@ -28,6 +39,17 @@ export interface ToolbarProps {
 function ToolOptions({ state, doc, update, act }: ToolbarProps) {
   const tool = state.view.tool;
   if (!doc) return null;
+  if (isTeachTool(tool) || (state.view.teach.on && tool === 'pan')) {
+    return (
+      <span className="tool-options">
+        <NumberField value={state.view.teach.radiusUm || null} placeholder="radius" className="narrow" testId="teach-um" onCommit={(v) => update((s) => setView(s, { teach: { ...s.view.teach, radiusUm: v !== null && v > 0 ? v : 0 } }))} />
+        µm
+        <button onClick={() => act('teach', (d) => clearLabels(d))} disabled={doc.labels.length === 0} data-testid="clear-strokes" title="Remove every stroke of this image">
+          Clear
+        </button>
+      </span>
+    );
+  }
   if (tool === 'brush-add' || tool === 'brush-remove') {
     return (
       <span className="tool-options">
@@ -68,8 +90,8 @@ export function Toolbar(p: ToolbarProps) {
   const tool = p.state.view.tool;
   return (
     <div className="toolbar" role="toolbar" aria-label="edit tools">
-      {TOOLS.map((t) => (
-        <button key={t.tool} className={tool === t.tool ? 'on' : ''} onClick={() => p.update((s) => setView(s, { tool: t.tool }))} title={`${t.title} (${t.key})`} data-testid={`tool-${t.tool}`}>
+      {(p.state.view.teach.on ? TEACH_TOOLS : TOOLS).map((t) => (
+        <button key={t.tool} className={tool === t.tool ? 'on' : ''} onClick={() => p.update((s) => setView(s, { tool: t.tool }))} title={t.key ? `${t.title} (${t.key})` : t.title} data-testid={`tool-${t.tool}`}>
           {t.label}
         </button>
       ))}

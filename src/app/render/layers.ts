@@ -4,7 +4,7 @@
  * component only maps these to nodes.
  */
 import type { PointPx } from '../../core/index.js';
-import { boundaryOf, centreOf, outlineOf, type Doc } from '../state/document.js';
+import { boundaryOf, centreOf, edgeCandidatesOf, outlineOf, type Doc } from '../state/document.js';
 import { nearestVertex } from '../state/geometry.js';
 import { outlineHandles } from '../state/outline.js';
 import type { Tool } from '../state/store.js';
@@ -29,6 +29,73 @@ export interface Shapes {
   outlineHandles: { centre: PointPx; points: PointPx[] } | null;
   /** The other specimens in the frame (half B, …): outline and boundary as measured, not editable. */
   others: { id: string; outline: number[]; boundary: number[] | null }[];
+  /** Closed edges the outline could be (outline tool): ring, label and where it goes, role. */
+  edges: EdgeRing[];
+}
+
+export interface EdgeRing {
+  index: number;
+  points: number[];
+  label: string;
+  at: PointPx;
+  role: 'chosen' | 'candidate' | 'rejected';
+  /** True when the outline in use is this edge. */
+  inUse: boolean;
+}
+
+/** Label of an edge: its diameter in mm, and whether the search chose it. */
+export function edgeLabel(diameterUm: number, role: string): string {
+  return `⌀ ${Number((diameterUm / 1000).toPrecision(4))} mm${role === 'chosen' ? ' (chosen)' : ''}`;
+}
+
+/** The edge rings of a document: where each label sits (the ring's point towards 60°, upper right). */
+export function edgeRings(doc: Doc): EdgeRing[] {
+  const inUse = outlineOf(doc);
+  return edgeCandidatesOf(doc).map((c, index) => {
+    let at = c.outline[0] ?? c.center;
+    let best = -Infinity;
+    for (const q of c.outline) {
+      const v = 0.5 * (q.x - c.center.x) - 0.866 * (q.y - c.center.y);
+      if (v > best) {
+        best = v;
+        at = q;
+      }
+    }
+    const same = inUse !== null && (c.role === 'chosen' ? doc.outline === null : inUse.length === c.outline.length && inUse.every((q, k) => q.x === c.outline[k].x && q.y === c.outline[k].y));
+    return { index, points: flat(c.outline), label: edgeLabel(c.diameterUm, c.role), at, role: c.role, inUse: same };
+  });
+}
+
+/** Distance from p to a closed polyline (flat x, y list), px. */
+export function distanceToRing(points: number[], p: PointPx): number {
+  let d = Infinity;
+  const n = points.length / 2;
+  for (let i = 0; i < n; i++) {
+    const ax = points[2 * i];
+    const ay = points[2 * i + 1];
+    const bx = points[(2 * ((i + 1) % n))];
+    const by = points[(2 * ((i + 1) % n)) + 1];
+    const vx = bx - ax;
+    const vy = by - ay;
+    const len2 = vx * vx + vy * vy;
+    const t = len2 > 0 ? Math.max(0, Math.min(1, ((p.x - ax) * vx + (p.y - ay) * vy) / len2)) : 0;
+    d = Math.min(d, Math.hypot(p.x - ax - t * vx, p.y - ay - t * vy));
+  }
+  return d;
+}
+
+/** The edge ring within `tolPx` of p (the nearest), or −1. */
+export function pickEdge(rings: EdgeRing[], p: PointPx, tolPx: number): number {
+  let best = -1;
+  let bestD = tolPx;
+  for (const r of rings) {
+    const d = distanceToRing(r.points, p);
+    if (d <= bestD) {
+      bestD = d;
+      best = r.index;
+    }
+  }
+  return best;
 }
 
 /** Number of reshape handles around the outline. */
@@ -83,6 +150,7 @@ export function shapesOf(doc: Doc, tool: Tool, pointer: PointPx | null, k: numbe
       outline: flat(x.specimen.outline),
       boundary: x.band.boundary ? flat(x.band.boundary.polygon) : null,
     })),
+    edges: tool === 'outline' ? edgeRings(doc) : [],
   };
 }
 

@@ -59,6 +59,22 @@ export interface MaterialForm {
   tolerancePct: number;
 }
 
+/** Label classes of teach mode (the values of a label image): 1 outside the fracture surface, 2 rim band, 3 core. */
+export type LabelClass = 1 | 2 | 3;
+
+/** One brush stroke of teach mode: a polyline painted with a disc of `radiusPx` (image px). */
+export interface LabelStroke {
+  cls: LabelClass;
+  radiusPx: number;
+  points: PointPx[];
+}
+
+/** A pixel model the series is measured with: its name (file or where it was taught) and file SHA-256 (the engine holds it). */
+export interface ModelInUse {
+  name: string;
+  sha256: string;
+}
+
 /** The result of a full run ("Find boundary"), the base every later result is recomputed from. */
 export interface Analysis {
   /** Identity of this run (results computed from it carry it in their key). */
@@ -72,7 +88,7 @@ export interface Message {
   level: 'error' | 'warning' | 'info';
   text: string;
 }
-export type MessageArea = 'image' | 'scale' | 'analysis' | 'edit' | 'material' | 'save' | 'session' | 'texture';
+export type MessageArea = 'image' | 'scale' | 'analysis' | 'edit' | 'material' | 'save' | 'session' | 'texture' | 'teach';
 
 /** One open image: what it is, its inputs (with history) and its current result. */
 export interface Doc {
@@ -93,6 +109,10 @@ export interface Doc {
   boundary: PointPx[] | null;
   /** Outer edge corrected by hand (px), or null for the one of the base run. */
   outline: PointPx[] | null;
+  /** Net-section diameter from the specimen drawing, µm (typed in mm), or null when not known. */
+  sectionDiameterUm: number | null;
+  /** Teach-mode strokes painted on this image (oldest first; a later stroke paints over an earlier one). */
+  labels: LabelStroke[];
   /** The last full run. */
   base: Analysis | null;
   // derived from the inputs by the engine (no history)
@@ -117,6 +137,8 @@ export type DocPatch = Partial<Omit<Doc, 'id' | 'image' | 'history'>>;
 export interface Series {
   material: MaterialForm;
   settings: AnalysisSettings;
+  /** The pixel model every image is measured with, or null for the fixed rules. */
+  model: ModelInUse | null;
   history: History<SeriesPatch>;
 }
 export type SeriesPatch = Partial<Omit<Series, 'history'>>;
@@ -132,7 +154,7 @@ export function emptyMaterial(): MaterialForm {
 }
 
 export function newSeries(): Series {
-  return { material: emptyMaterial(), settings: defaultSettings(), history: emptyHistory() };
+  return { material: emptyMaterial(), settings: defaultSettings(), model: null, history: emptyHistory() };
 }
 
 /** A new document for an opened image; the file's metadata scale is the initial scale when it has one. */
@@ -148,6 +170,8 @@ export function newDoc(id: string, image: ImageInfo): Doc {
     exclude: [],
     boundary: null,
     outline: null,
+    sectionDiameterUm: null,
+    labels: [],
     base: null,
     result: null,
     resultKey: null,
@@ -178,6 +202,14 @@ export function boundaryOf(doc: Doc): PointPx[] | null {
 /** The outer edge in use (px): the corrected one, else the one of the base run. */
 export function outlineOf(doc: Doc): PointPx[] | null {
   return doc.outline ?? doc.base?.result.specimen.outline ?? null;
+}
+
+/** One closed edge the outline search considered (core's result, `specimen.edgeSearch.candidates`). */
+export type EdgeCandidate = NonNullable<MeasureResult['specimen']['edgeSearch']>['candidates'][number];
+
+/** The closed edges the base run chose its outline from (none when it did not search). */
+export function edgeCandidatesOf(doc: Doc): EdgeCandidate[] {
+  return doc.base?.result.specimen.edgeSearch?.candidates ?? [];
 }
 
 /** The centre of the rays (px): of the current result, else of the base run. */

@@ -32,6 +32,8 @@ export function paramsOf(doc: Doc, series: Series, opts: { fullRun?: boolean } =
   p.reference = m.reference;
   p.tolerancePct = m.tolerancePct;
   p.boundaryPolygon = !opts.fullRun && doc.boundary ? doc.boundary.map((q) => ({ x: q.x, y: q.y })) : null;
+  if (series.model) p.modelSha256 = series.model.sha256;
+  if (doc.sectionDiameterUm !== null) p.sectionDiameterUm = doc.sectionDiameterUm;
   return p;
 }
 
@@ -55,8 +57,12 @@ export type ResultState = { state: 'none' | 'current' | 'stale'; reason: string 
 /** Why the inputs need a full run ("Find boundary") before numbers can be shown, or null. */
 export function needsFullRun(doc: Doc, series: Series): string | null {
   if (!doc.base) return null;
+  const params = paramsOf(doc, series);
+  if ((doc.base.result.params.modelSha256 ?? null) !== (params.modelSha256 ?? null)) {
+    return `Out of date: ${params.modelSha256 ? 'the images are now measured with a taught model' : 'the images are now measured without a model'}. Press “Find boundary” to measure again.`;
+  }
   try {
-    const r = fullRunReason(doc.base.result, paramsOf(doc, series));
+    const r = fullRunReason(doc.base.result, params);
     return r ? `Out of date: ${r}. Press “Find boundary” to measure again.` : null;
   } catch (e) {
     if (isFractozoneError(e)) return `Out of date: ${e.message}.`;

@@ -7,13 +7,23 @@ import type { FeatureName } from '../../core/index.js';
 import { newSeries, type Doc, type DocPatch, type Message, type MessageArea, type Series, type SeriesPatch } from './document.js';
 import { closeDrag, lastRedoSeq, lastUndoSeq, record, takeRedo, takeUndo, type History, type HistoryMode } from './history.js';
 
-export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'outline' | 'scale-line';
+export type Tool = 'pan' | 'vertex' | 'add-vertex' | 'remove-vertex' | 'brush-add' | 'brush-remove' | 'sector' | 'outline' | 'scale-line' | TeachTool;
+
+/** The brushes of teach mode: outside the fracture surface, rim band, core. */
+export type TeachTool = 'teach-outside' | 'teach-rim' | 'teach-core';
+
+/** True for a teach-mode brush. */
+export function isTeachTool(t: Tool): t is TeachTool {
+  return t === 'teach-outside' || t === 'teach-rim' || t === 'teach-core';
+}
 
 export interface ViewState {
   tool: Tool;
   /** Brush radius, µm; 0 = automatic (1/40 of the smaller image side). */
   brushRadiusUm: number;
   texture: { feature: FeatureName | null; opacity: number };
+  /** Teach mode: the label brushes and the class-map preview are shown. */
+  teach: { on: boolean; radiusUm: number; opacity: number };
   showHelp: boolean;
 }
 
@@ -40,7 +50,7 @@ export function initialState(): AppState {
     docs: [],
     activeId: null,
     series: newSeries(),
-    view: { tool: 'vertex', brushRadiusUm: 0, texture: { feature: null, opacity: 0.5 }, showHelp: false },
+    view: { tool: 'vertex', brushRadiusUm: 0, texture: { feature: null, opacity: 0.5 }, teach: { on: false, radiusUm: 0, opacity: 0.45 }, showHelp: false },
     seq: 0,
     notices: [],
   };

@@ -6,9 +6,13 @@
  */
 /// <reference lib="webworker" />
 import { analyseDecoded, computeFeature, decodeImage, detectScaleBar, encodeOverlayPng, isFractozoneError, recompute, resultOverlay, setCv, type DecodedImage, type GrayRaster, type MeasureParams, type MeasureResult, type PointPx } from '../../core/index.js';
+import { classMap, featureCentre, loadModel, MAX_GRID_POINTS, parseModel, predictProbabilities, serialiseModel, teachModel, type LoadedModel, type PixelModel, type ScaleParams } from '../../core/index.js';
 import { fitEllipseToPoints } from '../../core/segment/fit.js';
+import { calibrate } from '../../core/pipeline/stages/calibrate.js';
+import { WorkingFrame } from '../../core/pipeline/frame.js';
+import { rasteriseStrokes } from '../state/labels.js';
 import { asOpenCv, loadCvInWorker } from './loadCv.js';
-import type { EngineReplies, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
+import type { ClassMapView, EngineReplies, ModelInfo, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
 
@@ -32,6 +36,15 @@ interface OpenImage {
   decoded: DecodedImage;
 }
 const images = new Map<string, OpenImage>();
+
+/** Pixel models by the SHA-256 of their file text (taught here or read from a file). */
+const models = new Map<string, LoadedModel>();
+
+/** The working copy of each image for the class-map preview, for the scale it was made with. */
+const frames = new Map<string, { key: string; frame: WorkingFrame; umPerWorkPx: number }>();
+
+/** Forest evaluations of the preview (a coarser grid than `measure` uses, interpolated between). */
+const PREVIEW_GRID_POINTS = Math.round(MAX_GRID_POINTS / 4);
 
 let cvPromise: Promise<void> | null = null;
 function ensureCv(id: number): Promise<void> {
@@ -103,6 +116,31 @@ function recomputeWithMaterial(base: MeasureResult, params: MeasureParams, outli
   }
 }
 
+/** A model kept by its file's SHA-256, described for the UI. */
+async function keepModel(model: PixelModel, text: string, t0: number, bytes = new TextEncoder().encode(text)): Promise<ModelInfo> {
+  const sha256 = await sha256Hex(bytes);
+  models.set(sha256, loadModel(model, sha256));
+  return { text, sha256, training: model.training, windowsUm: model.windowsUm, ms: Math.round(performance.now() - t0) };
+}
+
+function workingFrame(docId: string, scale: ScaleParams): { frame: WorkingFrame; umPerWorkPx: number } {
+  const key = JSON.stringify(scale);
+  const known = frames.get(docId);
+  if (known && known.key === key) return known;
+  const img = imageOf(docId);
+  const calibration = calibrate({ decoded: img.decoded, scale });
+  const frame = new WorkingFrame(img.decoded.raster, calibration.marks);
+  const entry = { key, frame, umPerWorkPx: calibration.scale.umPerPx * frame.lengthScale };
+  frames.set(docId, entry);
+  return entry;
+}
+
+function modelOf(sha256: string): LoadedModel {
+  const m = models.get(sha256);
+  if (!m) throw new EngineError('BAD_MODEL', 'The pixel model is no longer loaded: open the model file again.');
+  return m;
+}
+
 type Reply<K extends RequestType> = { value: EngineReplies[K]; transfer?: Transferable[] };
 type Handlers = { [K in RequestType]: (msg: RequestOf<K> & { id: number }) => Promise<Reply<K>> };
 
@@ -125,6 +163,7 @@ const handlers: Handlers = {
   },
   async close(msg) {
     images.delete(msg.docId);
+    frames.delete(msg.docId);
     return { value: null };
   },
   async detectBar(msg) {
@@ -137,7 +176,8 @@ const handlers: Handlers = {
     const img = imageOf(msg.docId);
     await ensureCv(msg.id);
     const progress = (stage: string, fraction: number) => post({ type: 'progress', id: msg.id, stage, fraction });
-    return { value: analyseDecoded(img.decoded, { file: img.name, sha256: img.sha256 }, msg.params, progress).result };
+    const model = msg.params.modelSha256 !== undefined ? modelOf(msg.params.modelSha256) : undefined;
+    return { value: analyseDecoded(img.decoded, { file: img.name, sha256: img.sha256 }, msg.params, progress, model ? { model } : {}).result };
   },
   async recompute(msg) {
     await ensureCv(msg.id);
@@ -153,6 +193,41 @@ const handlers: Handlers = {
   async overlay(msg) {
     const png = encodeOverlayPng(resultOverlay(imageOf(msg.docId).decoded.raster, msg.result));
     return { value: png, transfer: [png.buffer] };
+  },
+  async teach(msg) {
+    await ensureCv(msg.id);
+    const t0 = performance.now();
+    post({ type: 'progress', id: msg.id, stage: 'teaching the model', fraction: 0.3 });
+    const teachImages = [];
+    for (const it of msg.images) {
+      const img = imageOf(it.docId);
+      const data = rasteriseStrokes(it.strokes, img.decoded.widthPx, img.decoded.heightPx);
+      // no label file here: the SHA-256 of the label values (one byte per pixel, row-major)
+      teachImages.push({ decoded: img.decoded, labels: { width: img.decoded.widthPx, height: img.decoded.heightPx, data }, scale: it.scale, file: img.name, sha256: img.sha256, labelsSha256: await sha256Hex(data) });
+    }
+    const { model } = teachModel(teachImages);
+    return { value: await keepModel(model, serialiseModel(model), t0) };
+  },
+  async loadModel(msg) {
+    const t0 = performance.now();
+    const bytes = new Uint8Array(msg.bytes);
+    let text: string;
+    try {
+      text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
+    } catch {
+      throw new EngineError('BAD_MODEL', 'This is not a model file (not UTF-8 text).');
+    }
+    return { value: await keepModel(parseModel(text), text, t0, bytes) };
+  },
+  async classMap(msg) {
+    await ensureCv(msg.id);
+    const t0 = performance.now();
+    const loaded = modelOf(msg.sha256);
+    const { frame, umPerWorkPx } = workingFrame(msg.docId, msg.scale);
+    const p = predictProbabilities(frame.work, umPerWorkPx, loaded, featureCentre(frame), PREVIEW_GRID_POINTS);
+    const values = classMap(p);
+    const value: ClassMapView = { width: p.width, height: p.height, values, stride: p.stride, ms: Math.round(performance.now() - t0) };
+    return { value, transfer: [values.buffer] };
   },
 };
 

@@ -4,7 +4,8 @@
  * before. Results are core's `MeasureResult`; everything is structured-clone data (typed arrays
  * are transferred).
  */
-import type { FeatureName, MeasureParams, MeasureResult, MetadataScale, PointPx, ScaleBar } from '../../core/index.js';
+import type { FeatureName, MeasureParams, MeasureResult, MetadataScale, ModelTraining, PointPx, ScaleBar, ScaleParams } from '../../core/index.js';
+import type { LabelStroke } from '../state/document.js';
 
 /** An opened image as the UI needs it. */
 export interface OpenedImage {
@@ -38,6 +39,35 @@ export interface TextureMap {
 /** Outcome of a recompute: the result (and why the material was left out, if it was), or a full run is needed. */
 export type RecomputeReply = { kind: 'result'; result: MeasureResult; materialError: string | null } | { kind: 'full-run'; reason: string };
 
+/** A pixel model the engine holds (taught from strokes or read from a file). */
+export interface ModelInfo {
+  /** The model file's text (fractozone.model/1) and the SHA-256 of its UTF-8 bytes. */
+  text: string;
+  sha256: string;
+  training: ModelTraining;
+  /** Feature windows, µm. */
+  windowsUm: number[];
+  /** Time the engine took, ms. */
+  ms: number;
+}
+
+/** The class map of one image (1 outside, 2 rim band, 3 core per working-copy pixel). */
+export interface ClassMapView {
+  width: number;
+  height: number;
+  values: Uint8Array;
+  /** Grid spacing the forest was evaluated at, working px. */
+  stride: number;
+  ms: number;
+}
+
+/** One image to teach from: its strokes and the scale it is measured with. */
+export interface TeachInput {
+  docId: string;
+  scale: ScaleParams;
+  strokes: LabelStroke[];
+}
+
 export type EngineRequest =
   | { type: 'init' }
   | { type: 'open'; docId: string; name: string; bytes: ArrayBuffer }
@@ -46,7 +76,10 @@ export type EngineRequest =
   | { type: 'analyse'; docId: string; params: MeasureParams }
   | { type: 'recompute'; base: MeasureResult; params: MeasureParams; outline: PointPx[] | null }
   | { type: 'texture'; docId: string; feature: FeatureName; windowPx: number }
-  | { type: 'overlay'; docId: string; result: MeasureResult };
+  | { type: 'overlay'; docId: string; result: MeasureResult }
+  | { type: 'teach'; images: TeachInput[] }
+  | { type: 'loadModel'; bytes: ArrayBuffer }
+  | { type: 'classMap'; docId: string; scale: ScaleParams; sha256: string };
 
 export interface EngineReplies {
   init: { selfTestPassed: boolean };
@@ -58,6 +91,9 @@ export interface EngineReplies {
   texture: TextureMap;
   /** PNG bytes of the overlay drawn from the result. */
   overlay: Uint8Array;
+  teach: ModelInfo;
+  loadModel: ModelInfo;
+  classMap: ClassMapView;
 }
 
 export type RequestType = EngineRequest['type'];

@@ -130,6 +130,11 @@ export function ResultsPanel(p: PanelProps) {
       {r && s && <StatsTable r={r} s={s} stale={stale} />}
       {r && <VerdictLine r={r} stale={stale} />}
       {r && <SpecimensLines r={r} stale={stale} />}
+      {r?.model && (
+        <p className={`hint${stale ? ' stale' : ''}`} data-testid="result-model" data-sha256={r.model.sha256}>
+          Segmented with a taught model (SHA-256 {r.model.sha256.slice(0, 12)}…): confidence beside the boundary {num(r.model.confidence.boundary, 3)}, beside the outer edge {num(r.model.confidence.outerEdge, 3)}.
+        </p>
+      )}
       {s && s.notes.length > 0 && (
         <ul className={`warnings${stale ? ' stale' : ''}`} data-testid="warnings">
           {s.notes.map((w, i) => (

@@ -2,7 +2,10 @@
 import { ApplyField } from '../fields.js';
 import { Messages } from '../Messages.js';
 import { scaleOf } from '../../state/scale.js';
-import { setTwoPointScale, setTypedScale, applyMetadataScale } from '../../state/actions/scale.js';
+import { setTwoPointScale, setTypedScale, applyMetadataScale, setSectionDiameter } from '../../state/actions/scale.js';
+import { chooseEdge } from '../../state/actions/edit.js';
+import { edgeCandidatesOf, type Doc } from '../../state/document.js';
+import { edgeLabel, edgeRings } from '../../render/layers.js';
 import { num, type PanelProps } from './types.js';
 
 export interface ScalePanelProps extends PanelProps {
@@ -64,7 +67,69 @@ export function ScalePanel(p: ScalePanelProps) {
           Use the file’s pixel size ({num(Math.sqrt(meta.umPerPxX * meta.umPerPxY), 5)} µm/px)
         </button>
       )}
+      <SectionDiameter {...p} />
       <Messages doc={doc} area="scale" />
     </section>
+  );
+}
+
+/** The measured diameter of the fracture surface (equivalent circle) against the drawing's, when both are known. */
+function diameterEcho(doc: Doc): string | null {
+  const r = doc.result;
+  if (!r) return null;
+  const measured = 2 * r.specimen.equivalentRadiusUm;
+  const given = r.params.sectionDiameterUm;
+  const head = `Measured ⌀ ${num(measured / 1000, 4)} mm (equivalent circle)`;
+  if (given === undefined) return `${head}.`;
+  const d = (100 * (measured - given)) / given;
+  return `${head}, ${d >= 0 ? '+' : '−'}${num(Math.abs(d), 2)} % against the drawing's ${num(given / 1000, 4)} mm.`;
+}
+
+/** Net-section diameter from the specimen drawing (mm) and the closed edges the outline was chosen from. */
+function SectionDiameter({ doc, act }: ScalePanelProps) {
+  const edges = edgeCandidatesOf(doc);
+  const inUse = edgeRings(doc).map((r) => r.inUse);
+  const rejected = edges.flatMap((e, i) => (e.role === 'rejected' && !inUse[i] ? [i] : []));
+  const edgeButton = (i: number) => {
+    const e = edges[i];
+    return (
+      <button key={i} className={`edge ${e.role}${inUse[i] ? ' in-use' : ''}`} data-testid="edge-candidate" data-role={e.role} data-in-use={inUse[i]} data-diameter-um={e.diameterUm} title={e.note} onClick={() => act('edit', (d) => chooseEdge(d, i))}>
+        {edgeLabel(e.diameterUm, e.role)}
+        {inUse[i] ? ' ✓' : ''}
+      </button>
+    );
+  };
+  const echo = diameterEcho(doc);
+  return (
+    <>
+      <div className="sub" title="Net-section diameter at the notch root, from the specimen drawing">Section diameter (from the drawing)</div>
+      <ApplyField
+        value={doc.sectionDiameterUm === null ? null : doc.sectionDiameterUm / 1000}
+        unit="mm"
+        placeholder="e.g. 5"
+        testId="section-mm"
+        buttonTestId="section-mm-apply"
+        button="Apply"
+        title="Helps pick the fracture surface's own edge and cross-checks the scale (warning above 3 %); empty: not known"
+        onApply={(v) => act('scale', (d) => setSectionDiameter(d, v))}
+      />
+      {echo && (
+        <p className="hint" data-testid="section-echo">
+          {echo}
+        </p>
+      )}
+      {edges.length > 0 && (
+        <div className="edge-list" data-testid="edge-list">
+          <div className="sub">Closed edges found (click one to take it as the outline)</div>
+          {edges.map((e, i) => (e.role !== 'rejected' || inUse[i] ? edgeButton(i) : null))}
+          {rejected.length > 0 && (
+            <details className="edge-rejected">
+              <summary>{rejected.length} more, rejected by the search</summary>
+              {rejected.map((i) => edgeButton(i))}
+            </details>
+          )}
+        </div>
+      )}
+    </>
   );
 }

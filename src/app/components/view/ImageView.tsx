@@ -6,11 +6,11 @@ import { useEffect, useMemo, useRef, useState } from 'react';
 import { Stage } from 'react-konva';
 import type { PointPx } from '../../../core/index.js';
 import type { Doc } from '../../state/document.js';
-import type { Tool } from '../../state/store.js';
+import { isTeachTool, type Tool } from '../../state/store.js';
 import type { Change } from '../../state/actions/types.js';
 import { fitView, shapesOf, toImage, zoomAt, type View } from '../../render/layers.js';
 import { dragEdit, hint, press, sectorEdit, type Drag, type PointerContext } from './drag.js';
-import { HandleLayer, ImageLayers, ShapeLayer } from './Layers.js';
+import { HandleLayer, ImageLayers, LabelLayer, ShapeLayer } from './Layers.js';
 
 export interface ImageViewProps {
   doc: Doc;
@@ -20,6 +20,10 @@ export interface ImageViewProps {
   width: number;
   height: number;
   brushRadiusPx: number;
+  /** Radius of the teach brushes, image px. */
+  labelRadiusPx: number;
+  /** Teach mode: the strokes are drawn, and the class map (working resolution) when there is one. */
+  teach: { classMap: HTMLCanvasElement | null; opacity: number } | null;
   nRays: number;
   /** Pixel pitches (µm/px) for the readout, or null without a scale. */
   pitch: { x: number; y: number } | null;
@@ -71,7 +75,7 @@ export function ImageView(props: ImageViewProps) {
   const ctxAt = (e: React.PointerEvent): PointerContext => {
     const r = e.currentTarget.getBoundingClientRect();
     const screen = { x: e.clientX - r.left, y: e.clientY - r.top };
-    return { doc, tool, p: toImage(viewRef.current, screen), screen, view: viewRef.current, brushRadiusPx: props.brushRadiusPx, nRays: props.nRays };
+    return { doc, tool, p: toImage(viewRef.current, screen), screen, view: viewRef.current, brushRadiusPx: props.brushRadiusPx, labelRadiusPx: props.labelRadiusPx, nRays: props.nRays };
   };
 
   const onDown = (e: React.PointerEvent<HTMLDivElement>) => {
@@ -122,6 +126,7 @@ export function ImageView(props: ImageViewProps) {
         </button>
         <Stage width={width} height={height} x={view.x} y={view.y} scaleX={view.scale} scaleY={view.scale} listening={false}>
           <ImageLayers image={props.image} texture={props.texture?.canvas ?? null} opacity={props.texture?.opacity ?? 0} w={doc.image.widthPx} h={doc.image.heightPx} />
+          {props.teach && <LabelLayer doc={doc} classMap={props.teach.classMap} opacity={props.teach.opacity} pointer={isTeachTool(tool) ? pointer : null} tool={tool} r={props.labelRadiusPx} k={k} />}
           <ShapeLayer s={shapes} k={k} drag={drag} brush={brushing ? { at: pointer, r: props.brushRadiusPx, rim: tool === 'brush-add' } : null} />
           <HandleLayer s={shapes} k={k} />
         </Stage>

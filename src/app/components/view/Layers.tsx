@@ -1,9 +1,12 @@
 /** The Konva layers of the image view, drawn from `shapesOf` (pure) and the drag in progress. */
-import { Circle, Group, Image as KImage, Layer, Line } from 'react-konva';
+import { Circle, Group, Image as KImage, Layer, Line, Text } from 'react-konva';
 import type { PointPx } from '../../../core/index.js';
 import { sectorFromDrag } from '../../state/geometry.js';
 import { wedge, type Shapes } from '../../render/layers.js';
 import type { Drag } from './drag.js';
+import type { Doc, LabelClass } from '../../state/document.js';
+import { LABEL_COLOURS } from '../../state/labels.js';
+import type { Tool } from '../../state/store.js';
 
 const OUTER = '#2aa6ff';
 const BOUNDARY = '#ffb020';
@@ -53,6 +56,15 @@ export function ShapeLayer({ s, k, drag, brush }: { s: Shapes; k: number; drag: 
           {o.boundary && <Line points={o.boundary} closed stroke={BOUNDARY} strokeWidth={1.5 * k} dash={[6 * k, 4 * k]} />}
         </Group>
       ))}
+      {s.edges.map((e) => (
+        <Group key={`edge-${e.index}`}>
+          {/* rejected edges faint and unlabelled (the scale panel lists them with the reason) */}
+          <Line points={e.points} closed stroke={e.role === 'chosen' ? OUTER : e.role === 'rejected' ? 'rgba(190,198,210,0.45)' : '#f2f2f2'} strokeWidth={k} dash={[6 * k, 4 * k]} />
+          {(e.role !== 'rejected' || e.inUse) && (
+            <Text x={e.at.x + 4 * k} y={e.at.y - 14 * k} text={e.label + (e.inUse ? ' ✓' : '')} fontSize={12 * k} fontStyle={e.inUse ? 'bold' : 'normal'} fill={e.role === 'chosen' ? '#9fd8ff' : '#f2f2f2'} shadowColor="#000" shadowBlur={2 * k} shadowOpacity={0.9} />
+          )}
+        </Group>
+      ))}
       {outline && <Line points={outline} closed stroke={OUTER} strokeWidth={1.5 * k} />}
       {s.boundary && <Line points={s.boundary} closed stroke={BOUNDARY} strokeWidth={1.5 * k} />}
       {c && <Line points={[c.x - 6 * k, c.y, c.x + 6 * k, c.y, c.x, c.y, c.x, c.y - 6 * k, c.x, c.y + 6 * k]} stroke={OUTER} strokeWidth={k} />}
@@ -84,6 +96,32 @@ export function HandleLayer({ s, k }: { s: Shapes; k: number }) {
           ))}
         </>
       )}
+    </Layer>
+  );
+}
+
+const css = (c: [number, number, number], a = 1): string => `rgba(${c[0]},${c[1]},${c[2]},${a})`;
+const TOOL_CLASS: Partial<Record<Tool, LabelClass>> = { 'teach-outside': 1, 'teach-rim': 2, 'teach-core': 3 };
+
+/** Teach mode: the class map (stretched from the working copy to the image) and the strokes painted. */
+export function LabelLayer(p: { doc: Doc; classMap: HTMLCanvasElement | null; opacity: number; pointer: PointPx | null; tool: Tool; r: number; k: number }) {
+  const w = p.doc.image.widthPx;
+  const h = p.doc.image.heightPx;
+  const cls = TOOL_CLASS[p.tool];
+  return (
+    <Layer listening={false}>
+      {p.classMap && <KImage image={p.classMap} x={-0.5} y={-0.5} width={w} height={h} opacity={p.opacity} />}
+      {p.doc.labels.map((s, i) => {
+        // a dark rim under each stroke keeps it visible over the class map of its own colour
+        const pts = s.points.length === 1 ? [s.points[0].x, s.points[0].y, s.points[0].x + 0.01, s.points[0].y] : s.points.flatMap((q) => [q.x, q.y]);
+        return (
+          <Group key={i}>
+            <Line points={pts} stroke="rgba(10,14,22,0.8)" strokeWidth={2 * s.radiusPx + 3 * p.k} lineCap="round" lineJoin="round" />
+            <Line points={pts} stroke={css(LABEL_COLOURS[s.cls])} strokeWidth={2 * s.radiusPx} lineCap="round" lineJoin="round" />
+          </Group>
+        );
+      })}
+      {p.pointer && cls && <Circle x={p.pointer.x} y={p.pointer.y} radius={p.r} stroke={css(LABEL_COLOURS[cls])} strokeWidth={p.k} />}
     </Layer>
   );
 }

@@ -8,15 +8,18 @@ import { boundaryOf, centreOf, outlineOf, type Doc } from '../../state/document.
 import { nearestVertex, sectorFromDrag } from '../../state/geometry.js';
 import { outlineHandles } from '../../state/outline.js';
 import type { Tool } from '../../state/store.js';
+import type { LabelClass } from '../../state/document.js';
+import { extendLabelStroke, startLabelStroke } from '../../state/actions/teach.js';
 import type { HistoryMode } from '../../state/history.js';
 import type { Change } from '../../state/actions/types.js';
-import { addBoundaryPoint, addSector, brush, moveBoundaryPoint, moveOutline, removeBoundaryPoint, reshape } from '../../state/actions/edit.js';
-import { OUTLINE_HANDLES, PICK_PX, type View } from '../../render/layers.js';
+import { addBoundaryPoint, addSector, brush, chooseEdge, moveBoundaryPoint, moveOutline, removeBoundaryPoint, reshape } from '../../state/actions/edit.js';
+import { edgeRings, OUTLINE_HANDLES, pickEdge, PICK_PX, type View } from '../../render/layers.js';
 
 export type Drag =
   | { kind: 'pan'; from: PointPx; view: View }
   | { kind: 'vertex'; index: number }
   | { kind: 'brush'; mode: 'rim' | 'core' }
+  | { kind: 'label' }
   | { kind: 'sector'; from: PointPx; to: PointPx }
   | { kind: 'line'; from: PointPx; to: PointPx }
   | { kind: 'outline-move'; start: PointPx[]; from: PointPx }
@@ -30,8 +33,13 @@ export interface PointerContext {
   screen: PointPx;
   view: View;
   brushRadiusPx: number;
+  /** Radius of the teach brushes, image px. */
+  labelRadiusPx: number;
   nRays: number;
 }
+
+/** The label class each teach brush paints. */
+export const TEACH_CLASS: Record<'teach-outside' | 'teach-rim' | 'teach-core', LabelClass> = { 'teach-outside': 1, 'teach-rim': 2, 'teach-core': 3 };
 
 /** Angular reach of one reshape handle: a little more than the spacing of the handles. */
 const RESHAPE_SPAN_DEG = (360 / OUTLINE_HANDLES) * 1.25;
@@ -73,8 +81,17 @@ export function press(c: PointerContext): { drag: Drag | null; change: Change | 
       return { drag: centreOf(c.doc) ? { kind: 'sector', from: c.p, to: c.p } : null, change: null };
     case 'scale-line':
       return { drag: { kind: 'line', from: c.p, to: c.p }, change: null };
-    case 'outline':
-      return { drag: outlinePress(c) ?? pan, change: null };
+    case 'outline': {
+      const handle = outlinePress(c);
+      if (handle) return { drag: handle, change: null };
+      // one click on a dashed ring takes that edge as the outline
+      const i = pickEdge(edgeRings(c.doc), c.p, (PICK_PX / 2) * k);
+      return i >= 0 ? { drag: null, change: chooseEdge(c.doc, i) } : { drag: pan, change: null };
+    }
+    case 'teach-outside':
+    case 'teach-rim':
+    case 'teach-core':
+      return { drag: { kind: 'label' }, change: startLabelStroke(c.doc, TEACH_CLASS[c.tool], c.p, c.labelRadiusPx) };
   }
 }
 
@@ -85,6 +102,8 @@ export function dragEdit(d: Drag, c: PointerContext, history: HistoryMode): Chan
       return moveBoundaryPoint(c.doc, d.index, c.p, history);
     case 'brush':
       return brush(c.doc, c.p, c.brushRadiusPx, d.mode, history);
+    case 'label':
+      return extendLabelStroke(c.doc, c.p, history);
     case 'outline-move':
       return moveOutline(d.start, c.p.x - d.from.x, c.p.y - d.from.y, history);
     case 'outline-reshape':
@@ -122,8 +141,14 @@ export function hint(tool: Tool, doc: Doc): string {
     case 'sector':
       return 'drag around the centre to leave a sector out';
     case 'outline':
-      return measured ? 'drag the centre to move the outline, a handle to reshape it' : 'find the boundary first';
+      return measured ? `drag the centre to move the outline, a handle to reshape it${doc.base?.result.specimen.edgeSearch?.candidates.length ? '; click a dashed ring to take that edge' : ''}` : 'find the boundary first';
     case 'scale-line':
       return 'drag along a known length (type it in the scale panel)';
+    case 'teach-outside':
+      return 'paint over background, holder or notch flank: outside the fracture surface';
+    case 'teach-rim':
+      return 'paint over the smooth rim band';
+    case 'teach-core':
+      return 'paint over the rough core';
   }
 }

@@ -4,11 +4,11 @@
  * release, so a drag is one history entry.
  */
 import type { PointPx } from '../../../core/index.js';
-import { boundaryOf, centreOf, type Analysis, type Doc } from '../document.js';
+import { boundaryOf, centreOf, edgeCandidatesOf, type Analysis, type Doc } from '../document.js';
 import type { HistoryMode } from '../history.js';
 import { brushBoundary, moveVertex, nearestVertex, pullBoundaryThrough, removeVertex } from '../geometry.js';
 import { fittedOutline, reshapeOutline, translatePolygon } from '../outline.js';
-import { docEdit, refuse, type Change } from './types.js';
+import { docEdit, refuse, unchanged, type Change } from './types.js';
 
 const NEEDS_RUN = 'Find the boundary first (“Find boundary”), then correct it.';
 
@@ -70,6 +70,15 @@ export function resetOutline(doc: Doc, kind: 'circle' | 'ellipse' | 'found'): Ch
   if (!r || !doc.base) return refuse('edit', 'Find the boundary first: the outline comes with the measurement.');
   if (kind === 'found') return doc.outline ? docEdit('outline as found', { outline: null }) : refuse('edit', 'The outline is the one found already.');
   return docEdit(kind === 'circle' ? 'outline: circle fit' : 'outline: ellipse fit', { outline: fittedOutline(doc.base.result, kind) });
+}
+
+/** The outline replaced by closed edge `i` the measurement found (its candidates); the chosen one is "as found". */
+export function chooseEdge(doc: Doc, i: number): Change {
+  const c = edgeCandidatesOf(doc)[i];
+  if (!c || c.outline.length < 3) return refuse('edit', 'There is no such edge: find the boundary first.');
+  const mm = Number((c.diameterUm / 1000).toPrecision(4));
+  if (c.role === 'chosen') return doc.outline ? docEdit(`outline: edge ⌀ ${mm} mm`, { outline: null }) : unchanged;
+  return docEdit(`outline: edge ⌀ ${mm} mm`, { outline: c.outline.map((p) => ({ x: p.x, y: p.y })) });
 }
 
 /** Moves the whole outline by (dx, dy) px from `start` (the outline when the drag began). */

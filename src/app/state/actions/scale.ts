@@ -36,3 +36,11 @@ export function applyMetadataScale(doc: Doc): Change {
   if (!doc.image.metadataScale) return refuse('scale', 'This file holds no pixel size.');
   return docEdit('file pixel size', { scale: { source: 'metadata' } });
 }
+
+/** The net-section diameter from the specimen drawing, typed in mm (null: not known). */
+export function setSectionDiameter(doc: Doc, mm: number | null): Change {
+  if (mm !== null && positiveNumber(mm) === null) return refuse('scale', 'Type the section diameter as a positive number of mm (e.g. 5), or leave the field empty.');
+  const um = mm === null ? null : Math.round(mm * 1e6) / 1e3;
+  if (um === doc.sectionDiameterUm) return unchanged;
+  return docEdit(um === null ? 'no section diameter' : 'section diameter', { sectionDiameterUm: um });
+}

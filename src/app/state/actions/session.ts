@@ -19,6 +19,7 @@ export function reopenSession(doc: Doc, series: Series, session: Session, sessio
     settings: canonicalJson(settings) === canonicalJson(series.settings) ? null : settings,
     material: canonicalJson(material) === canonicalJson(series.material) ? null : material,
     strainRatePerS: p.strainRatePerS,
+    sectionDiameterUm: p.sectionDiameterUm ?? null,
     exclude: p.exclude.map(([a, b]): [number, number] => [a, b]),
     boundary: p.boundaryPolygon,
     outline: session.outline,
