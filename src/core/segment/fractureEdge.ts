@@ -163,7 +163,9 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
       else if (i !== core) innerRoundEdge = innerRoundEdge || rings[i].roundnessPx <= 1.5;
     }
     const further = rings.some((r, i) => i > chosen && counts(r) && r.outer.inSilhouette >= 0.5 && !machined(r.inner));
-    ambiguous = (!confirmed && further) || (core < 0 && stepped);
+    // not confirmed (neither a machined flank nor background outside it) and no core edge to count
+    // from, or another candidate further out: a person should look
+    ambiguous = (!confirmed && (further || core < 0)) || (core < 0 && stepped);
   }
   return { chosen: chosen >= 0 ? rings[chosen] : null, rule, rings: verdicts, center, innerRoundEdge, ambiguous, sectionNotFound };
 }

@@ -94,4 +94,10 @@ describe('no silent wrong outline', () => {
     expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_FROM_SILHOUETTE');
     expect(r.quality.verdict).not.toBe('ok');
   });
+
+  it('shadow_left.jpg (independent generator): an edge not confirmed by what lies outside it is flagged OUTLINE_AMBIGUOUS, verdict not ok', async () => {
+    const { r } = await externalScene('shadow_left.jpg');
+    expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_AMBIGUOUS');
+    expect(r.quality.verdict).not.toBe('ok');
+  });
 });
