@@ -21,7 +21,7 @@
  */
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { GrayRaster, Mask } from '../image/raster.js';
-import { edgeCues } from './polar.js';
+import { edgeCues, type EdgeCues } from './polar.js';
 import { findRings, voteCentre, type Ring } from './rings.js';
 import type { Specimen } from './specimen.js';
 
@@ -82,19 +82,26 @@ export function findFractureEdge(work: GrayRaster, o: FractureEdgeOptions): Frac
   const W = work.width;
   const H = work.height;
   const cues = edgeCues(work, Math.max(5, Math.max(W, H) / 120));
-  const sil = o.silhouette;
+  return searchAround(cues, work, o);
+}
+
+function centreOf(cues: EdgeCues, W: number, H: number, sil: Specimen, t: BoxPx | null): { center: PointPx; silUsable: boolean; silGood: boolean; tSize: number } {
   const minSide = Math.min(W, H);
-  // a silhouette whose circle is not a specimen-sized circle in the frame (a rule or a holder taken
-  // for the part) says nothing of the centre or size
   const silUsable = sil.circle.cx >= 0 && sil.circle.cy >= 0 && sil.circle.cx < W && sil.circle.cy < H && sil.circle.radiusPx < 0.75 * Math.max(W, H);
-  const t = o.target ?? null;
   const near = t ? { x: t.x + t.w / 2, y: t.y + t.h / 2 } : silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
   const tSize = t ? Math.max(t.w, t.h) : Math.max(W, H);
-  // a clean elliptic silhouette (a tidy picture, or the bar edge around a flank: concentric with the
-  // notch root) gives the centre; otherwise the vote of the concentric edges (normals of a tilted,
-  // elliptic outline do not meet at its centre, so the vote is the second choice)
   const silGood = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
   const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, t ? 0.3 * tSize : 0.45 * Math.max(W, H));
+  return { center, silUsable, silGood, tSize };
+}
+
+function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions): FractureEdge {
+  const W = work.width;
+  const H = work.height;
+  const sil = o.silhouette;
+  const minSide = Math.min(W, H);
+  const t = o.target ?? null;
+  const { center, silUsable, silGood, tSize } = centreOf(cues, W, H, sil, t);
   const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
   // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
   const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
