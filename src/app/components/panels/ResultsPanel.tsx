@@ -50,8 +50,17 @@ function StatsTable({ r, s, stale }: { r: MeasureResult; s: ResultSummary; stale
   // labels and units from core's summary (the same in the CLI, the overlay and the reports)
   const rows: [string, string, string][] = [
     [b.mean.label, 'mean', cell(b.mean)],
+    // the three intervals of the mean (core's summary; README "Uncertainty of the mean width")
+    ...(b.uncertainty
+      ? ([
+          [b.uncertainty.measurement.label, 'u-measurement', span(b.uncertainty.measurement)],
+          [b.uncertainty.circumferential.label, 'u-circumferential', span(b.uncertainty.circumferential)],
+          [b.uncertainty.parameterRange ? b.uncertainty.parameterRange.label : 'parameter range', 'u-range', b.uncertainty.parameterRange ? span(b.uncertainty.parameterRange) : b.uncertainty.rangeNote],
+          ['uncertainty budget', 'u-budget', b.uncertainty.budget],
+        ] as [string, string, string][])
+      : []),
     [b.median.label, 'median', cell(b.median)],
-    [b.ci95.label, 'ci', span(b.ci95)],
+    ...(b.uncertainty ? [] : ([[b.ci95.label, 'ci', span(b.ci95)]] as [string, string, string][])),
     [b.medianCi95.label, 'mci', span(b.medianCi95)],
     [b.sd.label, 'sd', cell(b.sd)],
     [`${b.p05.label} / ${b.p95.label}`, 'p', `${num(b.p05.value)} / ${cell(b.p95)}`],
