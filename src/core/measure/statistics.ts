@@ -145,8 +145,8 @@ export function robustOutlierFlags(values: readonly number[], k = 3.5): boolean[
   return values.map((v) => Number.isFinite(v) && Math.abs(v - med) > lim);
 }
 
-/** k-th smallest (0-based) of a[lo..hi] by Hoare's quickselect (in place, deterministic middle pivot). */
-function select(a: Float64Array, k: number): number {
+/** k-th smallest (0-based) of a by Hoare's quickselect (in place, deterministic middle pivot). */
+export function select(a: Float64Array, k: number): number {
   let lo = 0;
   let hi = a.length - 1;
   while (lo < hi) {

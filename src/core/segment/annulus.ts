@@ -17,15 +17,12 @@ export interface AnnulusStats {
   concentricity: number;
   /** Fraction of samples inside the silhouette of the part. */
   inSilhouette: number;
-  /** Fraction of samples inside the image. */
-  inFrame: number;
   /** Radial extent of the annulus, px. */
   widthPx: number;
 }
 
 export function annulus(p: PolarCues, path: Int32Array, from: number, to: number, silhouette: Mask | null, shape: PolarShape): AnnulusStats {
   const { nTheta, nR, dr } = p;
-  let n = 0;
   let nIn = 0;
   let rough = 0;
   let inten = 0;
@@ -40,7 +37,6 @@ export function annulus(p: PolarCues, path: Int32Array, from: number, to: number
     const sct = Math.floor((t * SECT) / nTheta);
     for (let d = 0; d < len; d++) {
       const j = path[t] + (to >= from ? from + d : from - d);
-      n++;
       if (j < 0 || j >= nR) continue;
       const k = t * nR + j;
       if (!p.inside[k]) continue;
@@ -87,7 +83,6 @@ export function annulus(p: PolarCues, path: Int32Array, from: number, to: number
     radialShare: g > 0 ? gr / g : NaN,
     concentricity: total > 0 ? common / total : 0,
     inSilhouette: silhouette && nIn ? sil / nIn : NaN,
-    inFrame: n ? nIn / n : 0,
     widthPx: len * p.dr,
   };
 }

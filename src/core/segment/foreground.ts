@@ -3,6 +3,7 @@
  * region that differs from the background, on a grid of at most `workSizePx`, computed once per
  * raster and options.
  */
+import { oncePerRaster } from './memo.js';
 import { getCv, type Mat } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
@@ -44,14 +45,12 @@ const FOREGROUNDS = new WeakMap<GrayRaster, Map<string, CoarseForeground>>();
  * @throws FractozoneError NO_SPECIMEN when the image is too small or has no contrast
  */
 export function coarseForeground(r: GrayRaster, opts: ForegroundOptions = {}): CoarseForeground {
-  const key = `${opts.workSizePx ?? 1024}|${opts.useTexture ?? true}`;
-  const known = FOREGROUNDS.get(r);
-  const hit = known?.get(key);
-  if (hit) return hit;
-  const fg = computeForeground(r, opts);
-  if (known) known.set(key, fg);
-  else FOREGROUNDS.set(r, new Map([[key, fg]]));
-  return fg;
+  return oncePerRaster(FOREGROUNDS, r, foregroundKey(opts), () => computeForeground(r, opts));
+}
+
+/** The cache key of the foreground options. */
+export function foregroundKey(opts: ForegroundOptions): string {
+  return `${opts.workSizePx ?? 1024}|${opts.useTexture ?? true}`;
 }
 
 function computeForeground(r: GrayRaster, opts: ForegroundOptions): CoarseForeground {

@@ -22,8 +22,12 @@
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { GrayRaster, Mask } from '../image/raster.js';
 import { edgeCues, type EdgeCues } from './polar.js';
+import { oncePerRaster } from './memo.js';
 import { findRings, voteCentre, type Ring } from './rings.js';
 import type { Specimen } from './specimen.js';
+
+/** Edge cues per working copy (memo.ts). */
+const CUES = new WeakMap<GrayRaster, Map<string, EdgeCues>>();
 
 /** A ring with what the search made of it. */
 export interface RingVerdict {
@@ -81,7 +85,9 @@ export interface FractureEdgeOptions {
 export function findFractureEdge(work: GrayRaster, o: FractureEdgeOptions): FractureEdge {
   const W = work.width;
   const H = work.height;
-  const cues = edgeCues(work, Math.max(5, Math.max(W, H) / 120));
+  const windowPx = Math.max(5, Math.max(W, H) / 120);
+  // the same for every specimen of the image (both halves): computed once
+  const cues = oncePerRaster(CUES, work, String(windowPx), () => edgeCues(work, windowPx));
   return searchAround(cues, work, o);
 }
 
@@ -195,11 +201,6 @@ function outsideNote(r: Ring, inner: Ring): string {
   if (r.outer.inSilhouette < 0.5) return 'outer edge of the part (bar edge or silhouette): outside the fracture surface';
   if (machined(inner.outer)) return 'edge beyond a machined ring: outside the fracture surface';
   return 'edge outside the fracture surface (holder, shadow or flank)';
-}
-
-/** The chosen ring as a polygon in working px (one vertex per ray). */
-export function ringPolygon(r: Ring): PointPx[] {
-  return r.points;
 }
 
 /** Pixels inside a polygon (even-odd scanline fill), as a mask of the given size. */

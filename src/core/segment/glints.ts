@@ -7,7 +7,7 @@
  * before.
  */
 import { createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { quantiles } from './cvutil.js';
+import { quantiles, rectMorph } from './cvutil.js';
 
 /** Radius of the opening, working px (specks narrower than 7 px are removed). */
 const OPEN_RADIUS = 3;
@@ -25,29 +25,6 @@ const GLINT_MIN_FRACTION = 0.001;
 const NEAR_RADIUS = 6;
 const GLINT_NEAR_MIN_STEP = 0.05;
 const GLINT_NEAR_SIGMAS = 3;
-
-/** Pixels within a (2r + 1)² box of a marked pixel (separable running maximum). */
-function nearSpecks(m: Uint8Array, w: number, h: number, r: number): Uint8Array {
-  const tmp = new Uint8Array(m.length);
-  for (let y = 0; y < h; y++) {
-    let last = -1e9;
-    for (let x = 0; x < w + r; x++) {
-      if (x < w && m[y * w + x]) last = x;
-      const xo = x - r;
-      if (xo >= 0 && x - last <= 2 * r) tmp[y * w + xo] = 1;
-    }
-  }
-  const out = new Uint8Array(m.length);
-  for (let x = 0; x < w; x++) {
-    let last = -1e9;
-    for (let y = 0; y < h + r; y++) {
-      if (y < h && tmp[y * w + x]) last = y;
-      const yo = y - r;
-      if (yo >= 0 && y - last <= 2 * r) out[yo * w + x] = 1;
-    }
-  }
-  return out;
-}
 
 /**
  * Running minimum over 2r + 1 samples of one line (van Herk / Gil–Werman: three comparisons per
@@ -197,7 +174,7 @@ export function suppressGlints(r: GrayRaster, mask: Mask): GlintSuppression {
     const fraction = n / nMask;
     if (fraction < GLINT_MIN_FRACTION) return { raster: r, fraction: 0 };
     // around the specks found, the fainter ones too (a glinting crescent has many below the first threshold)
-    const near = nearSpecks(specks, r.width, r.height, NEAR_RADIUS);
+    const near = rectMorph(specks, r.width, r.height, NEAR_RADIUS, 'dilate');
     const tNear = Math.max(GLINT_NEAR_MIN_STEP, med + (GLINT_NEAR_SIGMAS * (q75 - q25)) / 1.349);
     const out = Float32Array.from(v);
     for (let i = 0; i < out.length; i++) if (specks[i] || (near[i] && mask.data[i] && v[i] - o[i] > tNear)) out[i] = o[i];

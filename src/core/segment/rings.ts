@@ -28,11 +28,10 @@ import { annulus, type AnnulusStats } from './annulus.js';
 
 export type { AnnulusStats };
 import { fitEllipseToPoints } from './fit.js';
+import { select } from '../measure/statistics.js';
 
 /** One closed edge around the centre. */
 export interface Ring {
-  /** Radius of the path per ray, px (major-axis scale of the polar shape). */
-  radiusByRay: Float64Array;
   /** Mean radius, px. */
   radiusPx: number;
   /** The path on the polar grid (radius sample per ray). */
@@ -42,8 +41,6 @@ export interface Ring {
   coverage: number;
   prominence: number;
   roundnessPx: number;
-  /** Which cue makes the edge: intensity step share (0..1, rest is roughness). */
-  intensityShare: number;
   /** Signed mean steps across the edge (outside − inside): intensity and roughness. */
   intensityStep: number;
   roughnessStep: number;
@@ -62,36 +59,11 @@ export interface RingSearch {
   coreRoughness: number;
 }
 
-/**
- * The value at rank round(p·(n − 1)) of the sorted values: Hoare's selection (expected linear time;
- * hand-written because sorting the ~270 000 gradient magnitudes of the centre vote took ~25 ms each).
- */
+/** The value at rank round(p·(n − 1)) of the sorted values (selection on a copy: statistics.ts `select`). */
 function q(values: Float32Array | number[], p: number): number {
   const a = Float64Array.from(values);
   if (a.length === 0) return NaN;
-  const k = Math.min(a.length - 1, Math.max(0, Math.round(p * (a.length - 1))));
-  let lo = 0;
-  let hi = a.length - 1;
-  while (lo < hi) {
-    const pivot = a[(lo + hi) >> 1];
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i] < pivot) i++;
-      while (a[j] > pivot) j--;
-      if (i <= j) {
-        const t = a[i];
-        a[i] = a[j];
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
-    if (k <= j) hi = j;
-    else if (k >= i) lo = i;
-    else break;
-  }
-  return a[k];
+  return select(a, Math.min(a.length - 1, Math.max(0, Math.round(p * (a.length - 1)))));
 }
 
 /**
@@ -367,7 +339,7 @@ export function findRings(cues: EdgeCues, shape: PolarShape, o: RingOptions): Ri
 
 function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarShape, windowPx: number, silhouette: Mask | null, noise: number, gapInPx: number, gapOutPx: number): Ring {
   const { nTheta, nR, dr } = p;
-  const radiusByRay = new Float64Array(nTheta);
+  let sumRadius = 0;
   const points: PointPx[] = [];
   let covered = 0;
   let strength = 0;
@@ -379,7 +351,7 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
   const sR = Math.max(2, Math.round(windowPx / dr));
   for (let t = 0; t < nTheta; t++) {
     const j = path[t];
-    radiusByRay[t] = j * dr;
+    sumRadius += j * dr;
     points.push(polarPoint(shape, (2 * Math.PI * t) / nTheta, j * dr));
     const k = t * nR + j;
     if (!p.inside[k]) continue;
@@ -399,7 +371,7 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
     }
   }
   const fit = fitEllipseToPoints(points);
-  const radiusPx = radiusByRay.reduce((a, b) => a + b, 0) / nTheta;
+  const radiusPx = sumRadius / nTheta;
   const w = Math.max(3, Math.min(0.06 * radiusPx, 6 * windowPx)) / dr;
   const gap = Math.round(Math.max(2, windowPx / 2 / dr));
   // keep clear of the neighbouring ring by its own blur (band-pass σ 2 px leaks ~6 px)
@@ -407,14 +379,12 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
   const wIn = Math.max(2, Math.min(w, gapInPx / dr - gap - margin));
   const wOut = Math.max(2, Math.min(w, gapOutPx / dr - gap - margin));
   return {
-    radiusByRay,
     radiusPx,
     path,
     points,
     coverage: nTheta ? covered / nTheta : 0,
     prominence: nInside ? (strength - around) / nInside / Math.max(noise, 1e-6) : 0,
     roundnessPx: fit ? fit.rmsResidualPx : Infinity,
-    intensityShare: 0,
     intensityStep: nInside ? di / nInside : 0,
     roughnessStep: nInside ? dRs / nInside : 0,
     inner: annulus(p, path, -gap, -gap - Math.round(wIn), silhouette, shape),

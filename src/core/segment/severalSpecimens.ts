@@ -5,7 +5,8 @@
 import { getCv } from '../cv.js';
 import type { BoxPx } from '../image/geometry.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import { coarseForeground, type CoarseForeground, type ForegroundOptions } from './foreground.js';
+import { coarseForeground, foregroundKey, type CoarseForeground, type ForegroundOptions } from './foreground.js';
+import { oncePerRaster } from './memo.js';
 import { maskToMat } from './cvutil.js';
 
 /** Options of {@link listSpecimens}. */
@@ -112,20 +113,15 @@ const SEPARATED = new WeakMap<GrayRaster, Map<string, CoarseForeground>>();
  * separate components. Computed once per raster and options.
  */
 export function separatedForeground(r: GrayRaster, opts: ForegroundOptions = {}): CoarseForeground {
-  const key = `${opts.workSizePx ?? 1024}|${opts.useTexture ?? true}`;
-  const known = SEPARATED.get(r);
-  const hit = known?.get(key);
-  if (hit) return hit;
-  const fg = coarseForeground(r, opts);
-  const { round, elongated } = components(fg);
-  const maxA = Math.max(0, ...round.map((c) => c.area));
-  const separate = round.filter((c) => c.area >= 0.5 * maxA).length >= 2;
-  // only a component as long as two touching discs can hold two (the usual single round specimen: none)
-  const split = separate || elongated === 0 ? null : splitTouching(fg);
-  const out = split ? { ...fg, mask: split } : fg;
-  if (known) known.set(key, out);
-  else SEPARATED.set(r, new Map([[key, out]]));
-  return out;
+  return oncePerRaster(SEPARATED, r, foregroundKey(opts), () => {
+    const fg = coarseForeground(r, opts);
+    const { round, elongated } = components(fg);
+    const maxA = Math.max(0, ...round.map((c) => c.area));
+    const separate = round.filter((c) => c.area >= 0.5 * maxA).length >= 2;
+    // only a component as long as two touching discs can hold two (the usual single round specimen: none)
+    const split = separate || elongated === 0 ? null : splitTouching(fg);
+    return split ? { ...fg, mask: split } : fg;
+  });
 }
 
 /** The mask with touching discs cut apart, or null when no component holds two similar round cores. */
