@@ -5,16 +5,19 @@
  *
  * Rules (our own, validated on the rendered scene sets; DEVELOPERS.md "Outline"):
  * - a ring "counts" when it is found on ≥ 60 % of the rays with prominence ≥ 0.3, or on ≥ 75 % when
- *   it is very round (RMS ≤ 1.5 px);
- * - the core edge is the innermost ring on ≥ 50 % of the rays where the roughness drops outward by
- *   more than 0.8 (ln units) from a rough inside: the rim/core boundary, or the outer edge itself on a
- *   surface without a band;
- * - if the annulus outside the core edge is machined-looking (radial share of fine-texture gradients ≥
- *   0.68 or concentric profiles ≥ 0.3: turning marks of a notch flank) or lies outside the silhouette,
- *   the core edge is the fracture edge (no band) — rule `core-is-edge`;
- * - otherwise the fracture edge is the first counted ring outside the core edge (the rim band lies
- *   between) — rule `first-edge-outside-core`; without a core edge, the innermost counted ring — rule
- *   `innermost-edge`;
+ *   it is very round (RMS ≤ 1.5 px) with prominence ≥ 0.15;
+ * - an annulus looks machined (turning marks of a notch flank) when it is ≥ 8 px wide and the radial
+ *   share of its fine-texture gradients is ≥ 0.68 or its concentric profiles ≥ 0.6;
+ * - the core edge is the innermost prominent ring on ≥ 50 % of the rays where the roughness drops
+ *   outward by more than 0.8 (ln units) from about the core's own level: the rim/core boundary, or the
+ *   outer edge itself on a surface without a band;
+ * - walk outward from the core edge (else from the innermost counted ring) to the first ring beyond
+ *   which lies a machined flank or background (outside the silhouette); from the core edge that takes
+ *   a radial share ≥ 0.8 over ≥ 6 px or a silhouette share < 0.3 (rule `core-is-edge`, no band), else
+ *   at most one step across the rim band (`first-edge-outside-core`); without a core edge at most two
+ *   steps (`innermost-edge`, `edge-outside-inner-boundary`);
+ * - a choice not confirmed by what lies outside it and without a core edge, or with another candidate
+ *   further out, is ambiguous (OUTLINE_AMBIGUOUS), as is every step taken without a core edge;
  * - with a section diameter given, the ring nearest it within 12 % wins — rule `section-diameter`;
  * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
  * Every ring is reported with its role and a note.
