@@ -116,3 +116,6 @@ export function studentTInv(p: number, df: number): number {
   const t = 0.5 * (lo + hi);
   return upper ? t : -t;
 }
+
+/** The 97.5 % quantile of the standard normal distribution (95 % two-sided coverage factor). */
+export const Z975 = 1.959963984540054;

@@ -24,10 +24,11 @@
  * 15° (a real wiggle that narrow counts as scatter, which widens the interval, the safe side);
  * the systematic parts are the caller's stated figures.
  */
+import { Z975 } from './tdist.js';
 import { effectiveSampleSizeOf } from './statistics.js';
 
 /** 95 % coverage factor of a normal distribution. */
-export const COVERAGE_FACTOR_95 = 1.959963984540054;
+export const COVERAGE_FACTOR_95 = Z975;
 
 /** Rays of the running median the residual profile is taken around. */
 export const RESIDUAL_MEDIAN_RAYS = 15;

@@ -16,6 +16,7 @@
  * - 'inconclusive'  otherwise (the interval straddles a band edge or is wider than the band).
  * An engineer can then say "agrees" only when the measurement is precise enough to show it.
  */
+import { Z975 } from '../measure/tdist.js';
 import { FractozoneError } from '../errors.js';
 
 /**
@@ -24,7 +25,6 @@ import { FractozoneError } from '../errors.js';
  */
 export const DEFAULT_TOLERANCE_PCT = 20;
 
-const Z975 = 1.959963984540054;
 
 /** Which TCD length the width is compared with. */
 export type WidthReference = 'L' | 'L/2' | '2L';

@@ -12,11 +12,11 @@
  * unless extrapolation is allowed explicitly, in which case the end segment is extended and a
  * warning is returned.
  */
+import { Z975 } from '../measure/tdist.js';
 import { linearRegression, rSquared } from 'simple-statistics';
 import { FractozoneError } from '../errors.js';
 import { studentTQuantile } from './studentT.js';
 
-const Z975 = 1.959963984540054;
 
 /** Statistics of a power-law fit, kept so that evaluations can carry an interval. */
 export interface PowerFitStats {

@@ -9,6 +9,7 @@
  * product of powers): relative sd of L ≈ 2·√((sd_K/K)² + (sd_σ/σ)²); interval L·(1 ± 1.96·rel. sd).
  * A uniform interval [lo, hi] enters with mean (lo+hi)/2 and sd (hi−lo)/√12.
  */
+import { Z975 } from '../measure/tdist.js';
 import { FractozoneError } from '../errors.js';
 import { createRng, percentileSorted, type Rng } from '../random.js';
 import { criticalDistance } from './criticalDistance.js';
@@ -95,7 +96,7 @@ export function criticalDistanceUncertainty(
     L_um: L0,
     median_um: percentileSorted(L, 50),
     interval95_um: [percentileSorted(L, 2.5), percentileSorted(L, 97.5)],
-    deltaInterval95_um: [L0 * (1 - 1.959963984540054 * rel), L0 * (1 + 1.959963984540054 * rel)],
+    deltaInterval95_um: [L0 * (1 - Z975 * rel), L0 * (1 + Z975 * rel)],
     deltaRelativeSd: rel,
     draws,
     seed: rng.seed,

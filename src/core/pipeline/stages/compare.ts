@@ -4,12 +4,12 @@
  * and the toughness the width implies (tcd/compare.ts). Runs only when a material or typed values
  * are given; the comparison only when a band width was measured.
  */
+import { Z975 } from '../../measure/tdist.js';
 import type { Warning } from '../../warnings.js';
 import { compareWidthWithL, impliedToughness, resolveCriticalDistance, type ImpliedToughness, type ResolvedDistance } from '../../tcd/index.js';
 import type { BandUncertainty, Comparison, ComparisonBasis, WidthSummary } from '../result.js';
 import type { MeasureParams, VerdictBasis } from '../types.js';
 
-const Z975 = 1.959963984540054;
 
 /** Input of {@link compareWithCriticalDistance}. */
 export interface CompareStageInput {
