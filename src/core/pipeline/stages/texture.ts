@@ -3,6 +3,7 @@
  * radius, texture/window.ts) and the roughness feature maps on the working copy, with the local
  * mean brightness the classification normalises them by.
  */
+import { oncePerRaster } from '../../segment/memo.js';
 import type { Scale } from '../../calibrate/index.js';
 import type { GrayRaster } from '../../image/raster.js';
 import { boxMean, computeFeature, defaultWindowUm, FEATURES, windowPxFromUm, type FeatureName } from '../../texture/index.js';
@@ -73,6 +74,13 @@ export function textureWindow(input: WindowInput): TextureWindow {
 export function computeTexture(input: TextureInput): TextureMaps {
   const { frame, window } = input;
   const src = input.source ?? frame.work;
-  const maps = input.features.map((name) => ({ name, raster: computeFeature(name, src, window.windowPxWork) }));
-  return { window, maps, brightness: boxMean(src, window.windowPxWork) };
+  // once per working copy, window and features: every specimen of an image (both halves) uses the same
+  const { maps, brightness } = oncePerRaster(TEXTURES, src, `${window.windowPxWork}|${input.features.join(',')}`, () => ({
+    maps: input.features.map((name) => ({ name, raster: computeFeature(name, src, window.windowPxWork) })),
+    brightness: boxMean(src, window.windowPxWork),
+  }));
+  return { window, maps, brightness };
 }
+
+/** Texture maps per working copy (segment/memo.ts); never written to. */
+const TEXTURES = new WeakMap<GrayRaster, Map<string, Pick<TextureMaps, 'maps' | 'brightness'>>>();
