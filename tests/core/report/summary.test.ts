@@ -49,7 +49,7 @@ describe('views built on the summary', () => {
     expect(label).toEqual([
       'a.png',
       'quality: ok',
-      'band width mean 577.3 µm, 95% CI 533.1-621.3 µm',
+      'band width mean 577.3 µm, 95% CI (circumference) 533.1-621.3 µm',
       'median 577.3 µm, sd 5.0 µm, n = 360 rays',
       'pixel 4.500 µm (typed)',
       'w/L = 1.04: agrees',
@@ -58,6 +58,22 @@ describe('views built on the summary', () => {
     none.band.reason = 'no smooth rim';
     none.quality = { verdict: 'check', reasons: [{ code: 'NO_BAND_FOUND', message: 'no band' }] };
     expect(overlayLabel(summarise(none))).toEqual(['b.png', 'quality: check (NO_BAND_FOUND)', 'no smooth rim band: no smooth rim', 'pixel 2.500 µm (typed)']);
+  });
+
+  it('the overlay label names the circumferential CI and adds the measurement interval when there is one', () => {
+    const r = makeResult({ file: 'u.png', meanUm: 577.25, ci95: [533.1, 621.3], umPerPx: 4.5 });
+    const src = { sdUm: 1, sharePct: 50 };
+    r.band.uncertainty = {
+      measurementCi95Um: [560.04, 594.46],
+      circumferentialCi95Um: [533.1, 621.3],
+      parameterRangeUm: null,
+      parameterRangeNote: 'none',
+      variations: [],
+      budget: { boundary: src, outerEdge: src, scale: src } as NonNullable<typeof r.band.uncertainty>['budget'],
+    };
+    const label = overlayLabel(summarise(r));
+    expect(label[2]).toBe('band width mean 577.3 µm, 95% CI (circumference) 533.1-621.3 µm');
+    expect(label[3]).toBe('95% measurement interval 560.0-594.5 µm');
   });
 
   it('the batch report summary row shows the same figures (4 significant digits, units)', () => {
