@@ -8,6 +8,7 @@ import { spawnSync } from 'node:child_process';
 const quick = process.argv.includes('--quick');
 const here = new URL('.', import.meta.url).pathname;
 const steps = [
+  ['whole process vs native OpenCV reference, 12 MP; 48 MP', ['bench-process.mjs', ...(quick ? ['--runs', '3', '--no-48'] : [])]],
   ['whole pipeline, 12 MP', ['bench-pipeline.mjs']],
   ['texture features vs scikit-image / SciPy / OpenCV', ['bench-texture.mjs', ...(quick ? ['--quick'] : [])]],
   ['batch throughput, 1 vs 2 workers', ['bench-batch.mjs', ...(quick ? ['--images', '8'] : [])]],

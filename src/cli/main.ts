@@ -3,6 +3,7 @@
 import { CommanderError } from 'commander';
 import { isFractozoneError } from '../core/errors.js';
 import { printable } from '../core/text/printable.js';
+import { installNodeZlib } from './nodeZlib.js';
 import { buildProgram, exitCodeFor } from './program.js';
 
 /**
@@ -12,6 +13,7 @@ import { buildProgram, exitCodeFor } from './program.js';
 const oneLine = (s: string): string => printable(s.replace(/\s*[\r\n]+\s*/g, ' ').trim());
 
 async function main(argv: string[]): Promise<number> {
+  installNodeZlib(); // PNG image data through Node's zlib (core/zlib.ts)
   const program = buildProgram();
   try {
     await program.parseAsync(argv);

@@ -4,6 +4,7 @@ import { FractozoneError } from '../../core/errors.js';
 import { readModelFile } from '../model.js';
 import type { ImageProcessor } from './processor.js';
 import { thumbnailFromPixels } from './thumb.js';
+import { nodeDeflate } from '../nodeZlib.js';
 
 export function createProcessor(): ImageProcessor {
   return async (bytes, input, params) => {
@@ -12,7 +13,7 @@ export function createProcessor(): ImageProcessor {
     const { result, overlay } = await analyseImage(bytes, { file: input.file, sha256: input.sha256 }, params, undefined, { model });
     return {
       result,
-      overlayPng: overlay ? encodeOverlayPng(overlay) : null,
+      overlayPng: overlay ? encodeOverlayPng(overlay, nodeDeflate) : null,
       thumbnailPng: overlay ? thumbnailFromPixels(overlay.width, overlay.height, overlay.data, 4) : null,
     };
   };

@@ -9,6 +9,7 @@
  * parent closes the IPC channel or disappears, or when it is killed.
  */
 import { loadCvNode } from '../cvNode.js';
+import { installNodeZlib } from '../nodeZlib.js';
 import { isFractozoneError } from '../../core/errors.js';
 import type { MeasureParams } from '../../core/pipeline/index.js';
 import { printable } from '../../core/text/printable.js';
@@ -49,6 +50,7 @@ async function main(): Promise<void> {
   const moduleUrl = process.argv[2];
   if (!moduleUrl) throw new Error('batch worker started without a processor module');
   loadCvNode();
+  installNodeZlib();
   const proc = await loadProcessor(moduleUrl);
   process.on('message', (msg: TaskMsg) => {
     if (msg.type !== 'task') return;

@@ -8,6 +8,7 @@ import { analyseImage, encodeOverlayPng, formatValue, specimenLines, summarise, 
 import { printableLines } from '../../core/text/printable.js';
 import { safeFileName } from '../../core/text/safeName.js';
 import { loadCvNode } from '../cvNode.js';
+import { nodeDeflate } from '../nodeZlib.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
 import { readModelFile } from '../model.js';
@@ -119,7 +120,7 @@ export function register(program: Command): void {
       if (o.out) {
         const stem = outputStem(image);
         writeFileAtomic(join(o.out, `${stem}.result.json`), toJsonText(result));
-        writeFileAtomic(join(o.out, `${stem}.overlay.png`), encodeOverlayPng(overlay));
+        writeFileAtomic(join(o.out, `${stem}.overlay.png`), encodeOverlayPng(overlay, nodeDeflate));
         if (!o.json && !o.quiet) stderrLine(`wrote ${join(o.out, `${stem}.result.json`)} and ${join(o.out, `${stem}.overlay.png`)}`);
       }
     });

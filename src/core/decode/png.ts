@@ -11,6 +11,7 @@ import { checkSize, fail, guard } from './fail.js';
 import { samplesToRaster, LUMA_WEIGHTS_REC709 } from './luma.js';
 import { createRaster } from '../image/raster.js';
 import type { DecodedImage, ImageHeader } from './types.js';
+import { getZlib, type NativeZlib } from '../zlib.js';
 
 const COLOR_NAMES: Record<number, string> = { 0: 'gray', 2: 'rgb', 3: 'palette', 4: 'gray+alpha', 6: 'rgba' };
 const COLOR_SAMPLES: Record<number, number> = { 0: 1, 2: 3, 3: 1, 4: 2, 6: 4 };
@@ -85,14 +86,17 @@ export function readPngHeader(bytes: Uint8Array): ImageHeader {
   return { format: 'png', widthPx: s.width, heightPx: s.height, bitDepth: s.bitDepth, channels: channelsOf(s) };
 }
 
-/** Unpack 1/2/4-bit rows (MSB first, rows padded to a byte) into one value per sample. */
-function unpackLowDepth(packed: ArrayLike<number>, width: number, height: number, depth: number): Uint8Array {
+/**
+ * Unpack 1/2/4-bit rows (MSB first, rows padded to a byte) into one value per sample.
+ * @param rowStride - bytes from one row's start to the next (default: the packed row length)
+ * @param start - offset of the first row's first byte
+ */
+function unpackLowDepth(packed: ArrayLike<number>, width: number, height: number, depth: number, rowStride = Math.ceil((width * depth) / 8), start = 0): Uint8Array {
   const out = new Uint8Array(width * height);
-  const rowBytes = Math.ceil((width * depth) / 8);
   const mask = (1 << depth) - 1;
   let o = 0;
   for (let y = 0; y < height; y++) {
-    const r = y * rowBytes;
+    const r = start + y * rowStride;
     for (let x = 0; x < width; x++) {
       const bit = x * depth;
       out[o++] = (packed[r + (bit >> 3)] >> (8 - depth - (bit & 7))) & mask;
@@ -101,7 +105,7 @@ function unpackLowDepth(packed: ArrayLike<number>, width: number, height: number
   return out;
 }
 
-function paletteToRaster(indices: Uint8Array, width: number, height: number, palette: number[][]): GrayRaster {
+function paletteToRaster(indices: Uint8Array, width: number, height: number, palette: number[][], rowStride = width, start = 0): GrayRaster {
   const [wr, wg, wb] = LUMA_WEIGHTS_REC709;
   const lut = new Float32Array(256).fill(Number.NaN);
   for (let i = 0; i < palette.length && i < 256; i++) {
@@ -109,10 +113,13 @@ function paletteToRaster(indices: Uint8Array, width: number, height: number, pal
     lut[i] = (wr * c[0] + wg * c[1] + wb * c[2]) / 255;
   }
   const out = new Float32Array(width * height);
-  for (let i = 0; i < out.length; i++) {
-    const v = lut[indices[i]];
-    if (v !== v) fail('CORRUPT_IMAGE', `the PNG uses palette entry ${indices[i]} but the palette has ${palette.length} entries`);
-    out[i] = v;
+  let o = 0;
+  for (let y = 0; y < height; y++) {
+    for (let i = start + y * rowStride, e = i + width; i < e; i++) {
+      const v = lut[indices[i]];
+      if (v !== v) fail('CORRUPT_IMAGE', `the PNG uses palette entry ${indices[i]} but the palette has ${palette.length} entries`);
+      out[o++] = v;
+    }
   }
   return createRaster(width, height, out);
 }
@@ -120,6 +127,9 @@ function paletteToRaster(indices: Uint8Array, width: number, height: number, pal
 /** Internal: full PNG decode (call through decodeImage). */
 export function decodePngImage(bytes: Uint8Array, maxPixels: number): DecodedImage {
   const s = readStructure(bytes, true, maxPixels);
+  const z = getZlib();
+  const native = z ? decodeWithNativeZlib(bytes, s, z) : null;
+  if (native) return native;
   const png = guard('PNG', () => fastPngDecode(bytes, { checkCrc: true }));
   const { width, height } = s;
   if (png.width !== width || png.height !== height || png.depth !== s.bitDepth) {
@@ -138,7 +148,12 @@ export function decodePngImage(bytes: Uint8Array, maxPixels: number): DecodedIma
     const colour = s.colorType === 2 || s.colorType === 6;
     raster = samplesToRaster(samples, width, height, samplesPerPixel, colour, 2 ** s.bitDepth - 1);
   }
-  const meta = metadataScaleFromPng(png.resolution);
+  return decodedPng(s, raster, png.resolution);
+}
+
+function decodedPng(s: PngStructure, raster: GrayRaster, resolution: Parameters<typeof metadataScaleFromPng>[0]): DecodedImage {
+  const { width, height } = s;
+  const meta = metadataScaleFromPng(resolution);
   return {
     format: 'png',
     widthPx: width,
@@ -152,4 +167,143 @@ export function decodePngImage(bytes: Uint8Array, maxPixels: number): DecodedIma
     metadataScale: meta.scale,
     ...(meta.note !== undefined ? { metadataNote: meta.note } : {}),
   };
+}
+
+/**
+ * The PNG decode with a shell's native zlib (see zlib.ts): chunks walked and CRC-checked here,
+ * the image data inflated natively and unfiltered in place (PNG spec. §9: filter types 0–4), the
+ * samples converted to luminance by the same functions as the fast-png path, so the raster is the
+ * same byte for byte. Hand-written because fast-png offers no inflate hook nor its unfiltering on
+ * its own; measured on a rendered 12-MP 8-bit PNG: 0.45 s → 0.05 s, and no fflate chunk list,
+ * concatenated copy and unfiltered copy of the image data in memory.
+ *
+ * Returns null — and the caller decodes with fast-png, giving its results and error messages —
+ * whenever the file is anything but plain: interlaced, an iCCP profile, a chunk fast-png would
+ * refuse (bad CRC, lengths of IHDR/pHYs/PLTE/tRNS, a tEXt without keyword end), a zlib stream
+ * Node refuses, image data of another length than the header implies, an unknown filter type.
+ */
+function decodeWithNativeZlib(bytes: Uint8Array, s: PngStructure, z: NativeZlib): DecodedImage | null {
+  const { width, height, bitDepth, colorType } = s;
+  if (bytes[26] !== 0 || bytes[27] !== 0 || bytes[28] !== 0) return null; // compression, filter method, interlace
+  const idat: Uint8Array[] = [];
+  let idatLength = 0;
+  let palette: number[][] | undefined;
+  let resolution: { x: number; y: number; unit: number } | undefined;
+  for (let off = 8; ; ) {
+    const len = u32(bytes, off);
+    const type = chunkType(bytes, off + 4);
+    const end = off + 8 + len;
+    if (z.crc32(bytes.subarray(off + 4, end)) !== u32(bytes, end)) return null;
+    const body = bytes.subarray(off + 8, end);
+    if ((type === 'IHDR' && len !== 13) || (type === 'IEND' && len !== 0)) return null;
+    else if (type === 'IDAT') {
+      idat.push(body);
+      idatLength += len;
+    } else if (type === 'PLTE') {
+      if (len % 3 !== 0) return null;
+      palette = [];
+      for (let i = 0; i < len; i += 3) palette.push([body[i], body[i + 1], body[i + 2]]);
+    } else if (type === 'tRNS') {
+      if (colorType === 3 ? len > (palette?.length ?? 0) : colorType === 4 || colorType === 6 || len % 2 !== 0 || len / 2 > width * height) return null;
+    } else if (type === 'pHYs') {
+      if (len !== 9) return null;
+      resolution = { x: u32(body, 0), y: u32(body, 4), unit: body[8] };
+    } else if (type === 'iCCP') return null;
+    else if (type === 'tEXt' && body.indexOf(0) < 0) return null;
+    off = end + 4;
+    if (type === 'IEND') break;
+  }
+  const spp = COLOR_SAMPLES[colorType];
+  const rowBytes = Math.ceil((bitDepth * spp * width) / 8);
+  const stride = rowBytes + 1; // filter-type byte + row
+  const expected = stride * height;
+  let data: Uint8Array;
+  try {
+    let stream = idat[0] ?? new Uint8Array(0);
+    if (idat.length > 1) {
+      stream = new Uint8Array(idatLength);
+      let o = 0;
+      for (const c of idat) {
+        stream.set(c, o);
+        o += c.length;
+      }
+    }
+    data = z.inflate(stream, expected);
+  } catch {
+    return null;
+  }
+  if (data.length !== expected || !unfilterInPlace(data, height, rowBytes, Math.max(1, (bitDepth * spp) >> 3))) return null;
+  let raster: GrayRaster;
+  if (colorType === 3) {
+    if (!palette || palette.length === 0) fail('CORRUPT_IMAGE', 'the palette PNG has no PLTE chunk');
+    raster =
+      bitDepth < 8
+        ? paletteToRaster(unpackLowDepth(data, width, height, bitDepth, stride, 1), width, height, palette)
+        : paletteToRaster(data, width, height, palette, stride, 1);
+  } else {
+    const colour = colorType === 2 || colorType === 6;
+    const maxValue = 2 ** bitDepth - 1;
+    if (bitDepth < 8) raster = samplesToRaster(unpackLowDepth(data, width, height, bitDepth, stride, 1), width, height, 1, false, maxValue);
+    else if (bitDepth === 8) raster = samplesToRaster(data.subarray(1), width, height, spp, colour, maxValue, stride);
+    else {
+      // 16-bit: big-endian pairs to numbers, as fast-png hands them over (a Uint16Array)
+      const n = width * spp;
+      const samples = new Uint16Array(n * height);
+      for (let y = 0, o = 0; y < height; y++) {
+        for (let i = y * stride + 1, e = i + 2 * n; i < e; i += 2) samples[o++] = (data[i] << 8) | data[i + 1];
+      }
+      raster = samplesToRaster(samples, width, height, spp, colour, maxValue);
+    }
+  }
+  return decodedPng(s, raster, resolution as Parameters<typeof metadataScaleFromPng>[0]);
+}
+
+/**
+ * Reverse the PNG filters (PNG spec. §9.2) of `height` rows of `rowBytes` bytes, each after its
+ * filter-type byte, in place: the bytes a filter refers to (left, above, above-left) are already
+ * reconstructed when it is read, so one buffer serves as input and output. The first row has no
+ * row above (its bytes count as 0). `bpp`: bytes per complete pixel, at least 1.
+ * @returns false on a filter type above 4 (fast-png then reports the file)
+ */
+function unfilterInPlace(d: Uint8Array, height: number, rowBytes: number, bpp: number): boolean {
+  const stride = rowBytes + 1;
+  for (let y = 0; y < height; y++) {
+    const r = y * stride + 1; // first byte of this row
+    const end = r + rowBytes;
+    switch (d[r - 1]) {
+      case 0:
+        break;
+      case 1:
+        for (let i = r + bpp; i < end; i++) d[i] = d[i] + d[i - bpp];
+        break;
+      case 2:
+        if (y > 0) for (let i = r; i < end; i++) d[i] = d[i] + d[i - stride];
+        break;
+      case 3:
+        if (y === 0) for (let i = r + bpp; i < end; i++) d[i] = d[i] + (d[i - bpp] >> 1);
+        else {
+          for (let i = r; i < r + bpp; i++) d[i] = d[i] + (d[i - stride] >> 1);
+          for (let i = r + bpp; i < end; i++) d[i] = d[i] + ((d[i - bpp] + d[i - stride]) >> 1);
+        }
+        break;
+      case 4:
+        if (y === 0) for (let i = r + bpp; i < end; i++) d[i] = d[i] + d[i - bpp];
+        else {
+          for (let i = r; i < r + bpp; i++) d[i] = d[i] + d[i - stride];
+          for (let i = r + bpp; i < end; i++) {
+            const a = d[i - bpp];
+            const b = d[i - stride];
+            const c = d[i - stride - bpp];
+            const pa = Math.abs(b - c); // |p − a| with p = a + b − c
+            const pb = Math.abs(a - c);
+            const pc = Math.abs(a + b - 2 * c);
+            d[i] = d[i] + (pa <= pb && pa <= pc ? a : pb <= pc ? b : c);
+          }
+        }
+        break;
+      default:
+        return false;
+    }
+  }
+  return true;
 }

@@ -12,7 +12,7 @@
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { GrayRaster } from '../image/raster.js';
 import { paintOutBoxes } from '../segment/marks.js';
-import { downsample } from '../texture/resample.js';
+import { downsampleInStrips } from './stripResize.js';
 
 /** Long side (px) of the working copy on which the outline and the texture are found. */
 export const WORKING_LONG_SIDE_PX = 1200;
@@ -42,7 +42,7 @@ export class WorkingFrame {
     longSidePx = WORKING_LONG_SIDE_PX,
   ) {
     this.factor = Math.max(1, Math.max(full.width, full.height) / longSidePx);
-    const reduced = downsample(full, this.factor);
+    const reduced = downsampleInStrips(full, this.factor); // = downsample, in strips for large images
     this.sx = full.width / reduced.width;
     this.sy = full.height / reduced.height;
     this.lengthScale = Math.sqrt(this.sx * this.sy);
