@@ -61,22 +61,74 @@ export function morphDisc(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: 
     morphDisc(m, 'erode', r);
     return;
   }
+  // Only the bounding box of the set pixels, grown by 1 px (erode) or ⌊r⌋ + 1 px (dilate), can change
+  // or decide a change: the 5×5 chamfer distance is a norm no smaller than max(|dx|, |dy|) (moves of
+  // cost 1, 1.4 and 2.1969 for steps of 1, 1 and 2 px along the longer axis), the nearest background
+  // pixel of a set pixel lies in the box's 1-px ring or nearer, and every pixel beyond ⌊r⌋ + 1 px of the
+  // box is farther than r from the set. The same output as the whole image (checked on random masks
+  // against the whole-image transform); the specimen masks fill ≈ ½ of the working copy.
+  const W = m.cols;
+  const H = m.rows;
+  const o = m.data as Uint8Array;
+  const box = setBox(o, W, H);
+  if (!box) return; // nothing set: erosion and dilation leave it empty
+  const g = op === 'erode' ? 1 : Math.floor(r) + 1;
+  const x0 = Math.max(0, box.x0 - g);
+  const y0 = Math.max(0, box.y0 - g);
+  const x1 = Math.min(W - 1, box.x1 + g);
+  const y1 = Math.min(H - 1, box.y1 + g);
+  const w = x1 - x0 + 1;
+  const whole = w === W && y1 - y0 + 1 === H;
   const cv = getCv();
+  const part = whole ? m : m.roi(new cv.Rect(x0, y0, w, y1 - y0 + 1));
   const src = new cv.Mat();
   const dist = new cv.Mat();
   try {
-    if (op === 'erode') m.copyTo(src);
-    else cv.bitwise_not(m, src);
+    if (op === 'erode') part.copyTo(src);
+    else cv.bitwise_not(part, src);
     cv.distanceTransform(src, dist, cv.DIST_L2, 5);
     const d = dist.data32F as Float32Array;
-    const o = m.data as Uint8Array;
+    const out = m.data as Uint8Array; // view taken after the last OpenCV call (the heap may grow)
     // erode: keep pixels farther than r from the outside; dilate: add pixels within r of the inside
-    if (op === 'erode') for (let i = 0; i < o.length; i++) o[i] = d[i] > r ? 255 : 0;
-    else for (let i = 0; i < o.length; i++) o[i] = d[i] <= r ? 255 : 0;
+    for (let y = y0, k = 0; y <= y1; y++) {
+      const row = y * W;
+      if (op === 'erode') for (let x = x0; x <= x1; x++, k++) out[row + x] = d[k] > r ? 255 : 0;
+      else for (let x = x0; x <= x1; x++, k++) out[row + x] = d[k] <= r ? 255 : 0;
+    }
   } finally {
     src.delete();
     dist.delete();
+    if (part !== m) part.delete();
   }
+}
+
+/** Inclusive bounding box of the non-zero pixels, or null. */
+function setBox(o: Uint8Array, W: number, H: number): { x0: number; y0: number; x1: number; y1: number } | null {
+  let y0 = -1;
+  let y1 = -1;
+  let x0 = W;
+  let x1 = -1;
+  for (let y = 0; y < H; y++) {
+    const row = y * W;
+    let a = -1;
+    for (let x = 0; x < W; x++) {
+      if (o[row + x]) {
+        a = x;
+        break;
+      }
+    }
+    if (a < 0) continue;
+    if (y0 < 0) y0 = y;
+    y1 = y;
+    if (a < x0) x0 = a;
+    for (let x = W - 1; x > x1; x--) {
+      if (o[row + x]) {
+        x1 = x;
+        break;
+      }
+    }
+  }
+  return y0 < 0 ? null : { x0, y0, x1: Math.max(x1, x0), y1 };
 }
 
 /**
