@@ -20,6 +20,14 @@ export interface Point {
   y: number;
 }
 
+/** An upright rectangle in px (`cv.Rect`). */
+export interface Rect {
+  x: number;
+  y: number;
+  width: number;
+  height: number;
+}
+
 /** A rotated rectangle (`cv.RotatedRect`), as returned by `fitEllipse`; angle in degrees. */
 export interface RotatedRect {
   center: Point;
@@ -38,6 +46,8 @@ export interface Mat {
   /** CV_32S data. */
   readonly data32S: Int32Array;
   copyTo(dst: Mat): void;
+  /** A view of the rectangle (shares the data; delete the view too). */
+  roi(rect: Rect): Mat;
   intAt(row: number, col: number): number;
   doubleAt(row: number, col: number): number;
   delete(): void;
@@ -57,6 +67,7 @@ export interface OpenCv {
   MatVector: new () => MatVector;
   Size: new (width: number, height: number) => Size;
   Point: new (x: number, y: number) => Point;
+  Rect: new (x: number, y: number, width: number, height: number) => Rect;
   matFromArray(rows: number, cols: number, type: number, data: ArrayLike<number>): Mat;
 
   // depths and types

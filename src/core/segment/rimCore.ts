@@ -12,6 +12,7 @@ import { buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';
+import { oncePerRaster } from './memo.js';
 
 /** Options of {@link classifyRimCore}. */
 export interface RimCoreOptions {
@@ -43,6 +44,12 @@ export interface RimCoreOptions {
    */
   brightness?: GrayRaster;
   gainPowers?: readonly number[];
+  /**
+   * Keep each feature's winsorised z-score (by feature raster, brightness raster and specimen) for
+   * later classifications of the same rasters with other features left out (the parameter range's
+   * runs, pipeline/stages/uncertainty.ts); same result, computed once. Default false.
+   */
+  shareScores?: boolean;
   /** Fraction of the circumference where the core reaches the outer edge above which there is no rim (default 0.8). */
   maxCoreAtEdgeFraction?: number;
 }
@@ -225,20 +232,29 @@ function checkInputs(specimen: Specimen, features: readonly GrayRaster[], opts: 
  * brightness), a robust z-score over the interior pixels `idx` winsorised at ±Z_CLAMP; the mean
  * over the features.
  */
-function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, idx: Int32Array, comb: Float32Array): void {
+function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, geo: FeatureGeometry, comb: Float32Array): void {
   const n = comb.length;
+  const idx = geo.idx;
   const { width: fw, height: fh } = features[0];
   // log brightness is shared by every brightness-normalised feature: computed once
   let logBm: Float64Array | null = null;
-  const lg = new Float32Array(n);
-  const samp = new Float32Array(idx.length);
+  let lg: Float32Array | null = null;
+  let samp: Float32Array | null = null;
   const nF = features.length;
   for (let fi = 0; fi < nF; fi++) {
+    const pw = opts.gainPowers?.[fi] ?? 0;
+    const bm = opts.brightness;
+    const scoreKey = `${opts.transforms?.[fi] === 'identity' ? 'id' : 'log'}|${pw}`;
+    const known = opts.shareScores ? geo.scores.get(features[fi])?.find((e) => e.key === scoreKey && e.brightness === bm) : undefined;
+    if (known) {
+      addScores(known.z, nF, comb);
+      continue;
+    }
+    lg ??= new Float32Array(n);
+    samp ??= new Float32Array(idx.length);
     const fd = features[fi].data;
     if (opts.transforms?.[fi] === 'identity') lg.set(fd);
     else logClampedInto(fd, 1e-12, lg);
-    const pw = opts.gainPowers?.[fi] ?? 0;
-    const bm = opts.brightness;
     if (pw !== 0 && bm) {
       if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
       if (!logBm) {
@@ -253,8 +269,56 @@ function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, 
     // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
     // highlight) has a log-feature far out in the tail that would otherwise pull Otsu's threshold
     // into the rim class.
-    addClampedZ(lg, med, spread, nF, comb);
+    if (opts.shareScores) {
+      const z = clampedZ(lg, med, spread);
+      addScores(z, nF, comb);
+      const list = geo.scores.get(features[fi]) ?? [];
+      list.push({ key: scoreKey, brightness: bm, z });
+      geo.scores.set(features[fi], list);
+    } else addClampedZ(lg, med, spread, nF, comb);
   }
+}
+
+/** clamp((lg[i] − med)/spread, ±Z_CLAMP), kept in double precision (the same terms as addClampedZ adds). */
+function clampedZ(lg: Float32Array, med: number, spread: number): Float64Array {
+  const out = new Float64Array(lg.length);
+  for (let i = 0; i < lg.length; i++) {
+    const z = (lg[i] - med) / spread;
+    out[i] = z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z;
+  }
+  return out;
+}
+
+/** comb[i] += z[i]/nF. */
+function addScores(z: Float64Array, nF: number, comb: Float32Array): void {
+  for (let i = 0; i < z.length; i++) comb[i] += z[i] / nF;
+}
+
+/**
+ * What a classification needs of the specimen at feature scale besides the features: the mask, its
+ * interior (eroded by half a window), the interior's indices with their sector positions and radii
+ * (rimCoreSectors.ts), and the shared feature scores ({@link RimCoreOptions.shareScores}). One per
+ * specimen mask, feature size, scale, margin and centre (segment/memo.ts): the parameter range
+ * classifies the same specimen at the same window several times.
+ */
+interface FeatureGeometry {
+  spec: Mask;
+  interior: Mask;
+  idx: Int32Array;
+  sectors: () => { pos: Float32Array; rad: Float32Array };
+  scores: WeakMap<GrayRaster, { key: string; brightness: GrayRaster | undefined; z: Float64Array }[]>;
+}
+
+const GEOMETRY = new WeakMap<Mask, Map<string, FeatureGeometry>>();
+
+function featureGeometry(mask: Mask, fw: number, fh: number, s: number, half: number, centre: PointPx): FeatureGeometry {
+  return oncePerRaster(GEOMETRY, mask, `${fw}|${fh}|${s}|${half}|${centre.x}|${centre.y}`, () => {
+    const spec = maskAtScale(mask, fw, fh, s);
+    const interior = erodeMask(spec, half);
+    const idx = indicesOf(interior.data);
+    let sectors: { pos: Float32Array; rad: Float32Array } | null = null;
+    return { spec, interior, idx, sectors: () => (sectors ??= sectorPositions(idx, fw, centre)), scores: new WeakMap() };
+  });
 }
 
 /** Otsu's threshold on the interior values of the combined feature, its 0.5–99.5 % range and Otsu's η. */
@@ -278,9 +342,10 @@ function otsuSplit(comb: Float32Array, idx: Int32Array): { t: number; lo: number
  * closing then an opening of radius 0.35 window; the component containing (or nearest) the centre,
  * holes filled; or null.
  */
-function roughCore(comb: Float32Array, idx: Int32Array, split: { t: number; lo: number; hi: number }, interior: Mask, wF: number, centre: PointPx): Mask | null {
+function roughCore(comb: Float32Array, geo: FeatureGeometry, split: { t: number; lo: number; hi: number }, wF: number, centre: PointPx): Mask | null {
+  const { idx, interior } = geo;
   const rough = createMask(interior.width, interior.height);
-  const { pos, rad } = sectorPositions(idx, interior.width, centre);
+  const { pos, rad } = geo.sectors();
   markAboveSectors(comb, idx, pos, sectorThresholds(comb, idx, pos, rad, split), rough.data);
   const rm = Math.max(1, Math.round(0.35 * wF));
   const mm = maskToMat(rough);
@@ -396,10 +461,10 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   const toFull = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * s - 0.5, y: (p.y + 0.5) * s - 0.5 });
   const wF = opts.windowPx / s; // window in feature px
   const half = Math.max(1, Math.ceil(wF / 2));
-  const spec = maskAtScale(specimen.mask, fw, fh, s);
-  const interior = erodeMask(spec, half);
+  const centreF = toFeat(centerFull);
+  const geo = featureGeometry(specimen.mask, fw, fh, s, half, centreF);
+  const { spec, interior, idx } = geo;
   const comb = new Float32Array(fw * fh);
-  const idx = indicesOf(interior.data);
   const warnings: Warning[] = [];
   const empty: Separability = { fisher: 0, overlap: 1, eta: 0, coreFraction: 0, rimFraction: 0, threshold: NaN };
   const fail = (reason: string): RimCoreResult => ({
@@ -407,9 +472,9 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
     combined: createRaster(fw, fh, comb), featureScale: s,
   });
   if (idx.length < 50) return fail('the specimen is too small for the texture window');
-  combineFeatures(features, opts, idx, comb);
+  combineFeatures(features, opts, geo, comb);
   const split = otsuSplit(comb, idx);
-  const core = roughCore(comb, idx, split, interior, wF, toFeat(centerFull));
+  const core = roughCore(comb, geo, split, wF, centreF);
   if (!core) return fail('no rough core was found around the centre');
   const contourF = outerContour(core);
   if (contourF.length < 8) return fail('the rough core is too small to have a boundary');

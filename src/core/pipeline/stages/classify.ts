@@ -17,6 +17,8 @@ export interface ClassifyInput {
   texture: TextureMaps;
   /** Working px per feature-map px (default 1; 2 for maps binned 2 × 2). */
   featureScale?: number;
+  /** Keep the per-feature scores for classifications of the same maps with a feature left out (segment/rimCore.ts `shareScores`). */
+  shareScores?: boolean;
 }
 
 /** Output of {@link classifyTexture}: the rim/core split in working px. */
@@ -39,6 +41,7 @@ export function classifyTexture(input: ClassifyInput): Classification {
       transforms: defs.map((d) => d.transform),
       brightness: texture.brightness,
       gainPowers: defs.map((d) => d.gainPower),
+      shareScores: input.shareScores,
     },
   );
   return { rimCore, warnings: [...rimCore.warnings] };

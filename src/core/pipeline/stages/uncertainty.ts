@@ -36,6 +36,7 @@ import { refineRimBoundary } from './refineBoundary.js';
 import { computeTexture, type FeatureMap, type TextureMaps, type TextureWindow } from './texture.js';
 import { createRaster, type GrayRaster } from '../../image/raster.js';
 import { storedGeometry } from './assemble.js';
+import { oncePerRaster } from '../../segment/memo.js';
 
 /** Why a boundary given by a person has no parameter range. */
 export const MANUAL_RANGE_NOTE = 'a boundary given by a person: no method to vary';
@@ -106,10 +107,19 @@ export function binned(r: GrayRaster, k: number): GrayRaster {
   return out;
 }
 
-/** Classification of binned maps (feature scale {@link BIN}): a coarse seed for the refinement on 1/BIN² of the pixels. */
+/** {@link binned} at {@link BIN}, once per map (the baseline and the feature left out share the maps; segment/memo.ts). */
+function binnedOnce(r: GrayRaster): GrayRaster {
+  return oncePerRaster(BINNED, r, String(BIN), () => binned(r, BIN));
+}
+const BINNED = new WeakMap<GrayRaster, Map<string, GrayRaster>>();
+
+/**
+ * Classification of binned maps (feature scale {@link BIN}): a coarse seed for the refinement on 1/BIN² of the pixels.
+ * The per-feature scores are shared between the runs on the same maps (the same numbers, computed once).
+ */
 function classifyBinned(v: VariationInput, maps: readonly FeatureMap[], brightness: GrayRaster, window: TextureWindow): Classification {
-  const texture: TextureMaps = { window, maps: maps.map((m) => ({ name: m.name, raster: binned(m.raster, BIN) })), brightness: binned(brightness, BIN) };
-  return classifyTexture({ location: v.location, texture, featureScale: BIN });
+  const texture: TextureMaps = { window, maps: maps.map((m) => ({ name: m.name, raster: binnedOnce(m.raster) })), brightness: binnedOnce(brightness) };
+  return classifyTexture({ location: v.location, texture, featureScale: BIN, shareScores: true });
 }
 
 /**
