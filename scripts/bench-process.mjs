@@ -15,6 +15,8 @@
 //   npm run build && node scripts/bench-process.mjs [--runs 5] [--dir DIR] [--no-48]
 // --dir keeps the rendered images in DIR and reuses them on the next run (rendering 12 + 48 MP
 // takes ~30 s); without it they are rendered into a temporary folder that is removed afterwards.
+// --baseline ROOT also times ROOT/dist/cli/main.js (another built checkout, e.g. main before a
+// change) in the same interleaved rounds: before/after on the same load.
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { loadavg, tmpdir } from 'node:os';
@@ -27,6 +29,7 @@ const opt = (name, dflt) => (args.includes(name) ? args[args.indexOf(name) + 1] 
 const runs = Number(opt('--runs', '5')) || 5;
 const keepDir = opt('--dir');
 const with48 = !args.includes('--no-48');
+const baseline = opt('--baseline');
 const PY = '/usr/bin/python3';
 const TIME = '/usr/bin/time';
 const haveTime = existsSync(TIME);
@@ -67,7 +70,7 @@ function timed(cmd, argv) {
   return { wallMs, cpuMs: (u + sy) * 1000, rssMb: kb / 1024, stdout: r.stdout };
 }
 
-const fz = (img, umPerPx, out) => timed(process.execPath, [join(root, 'dist/cli/main.js'), 'measure', img, '--pixel-size', `${umPerPx}um`, '--out', out, '--json']);
+const fz = (img, umPerPx, out, at = root) => timed(process.execPath, [join(at, 'dist/cli/main.js'), 'measure', img, '--pixel-size', `${umPerPx}um`, '--out', out, '--json']);
 const py = (img, umPerPx, out, threads = 1) => timed(PY, [join(root, 'scripts/bench/native_reference.py'), img, '--pixel-size-um', String(umPerPx), '--out', out, '--threads', String(threads)]);
 const line = (name, v) =>
   `  ${name.padEnd(30)} best ${s(best(v.map((x) => x.wallMs)))} s, median ${s(median(v.map((x) => x.wallMs)))} s` +
@@ -79,10 +82,13 @@ const haveNative = py12.status === 0;
 console.log(`whole process on a rendered 12-MP PNG (4000×3000 px, 8-bit gray), ${runs} runs each, interleaved; load before ${load()}`);
 const F = [];
 const N = [];
+const B = [];
 for (let i = 0; i < runs; i++) {
-  const order = i % 2 === 0 ? ['fz', 'py'] : ['py', 'fz'];
+  const order = [...(i % 2 === 0 ? ['fz', 'py'] : ['py', 'fz']), ...(baseline ? ['base'] : [])];
+  if (baseline && i % 2 === 1) order.reverse();
   for (const who of order) {
     if (who === 'fz') F.push(fz(img12, 2, join(dir, 'out-fz')));
+    else if (who === 'base') B.push(fz(img12, 2, join(dir, 'out-base'), baseline));
     else if (haveNative) N.push(py(img12, 2, join(dir, 'out-native')));
   }
 }
@@ -90,6 +96,11 @@ const r12 = JSON.parse(F[F.length - 1].stdout);
 console.log(line('fractozone measure', F));
 console.log(`    stages (ms, last run): ${Object.entries(r12.diagnostics.timingsMs).map(([k, v]) => `${k} ${v}`).join(', ')}`);
 const report = { date: new Date().toISOString().slice(0, 10), runs, fractozone12: summary(F) };
+if (baseline) {
+  console.log(line('baseline (--baseline)', B) + `  ← ${baseline}`);
+  console.log(`    stages (ms, last run): ${Object.entries(JSON.parse(B[B.length - 1].stdout).diagnostics.timingsMs).map(([k, v]) => `${k} ${v}`).join(', ')}`);
+  report.baseline12 = summary(B);
+}
 if (haveNative) {
   console.log(line('native reference, 1 thread', N));
   const nat = JSON.parse(N[N.length - 1].stdout.trim().split('\n').pop());
@@ -105,16 +116,38 @@ if (haveNative) {
 } else {
   console.log(`  native reference skipped: ${PY} with cv2 and numpy not found (Debian: apt-get install python3-opencv)`);
 }
+// start-up alone: the program loaded, its help printed (no OpenCV), against a bare `node -e 0`
+const H = [];
+const HB = [];
+const N0 = [];
+for (let i = 0; i < 5; i++) {
+  H.push(timed(process.execPath, [join(root, 'dist/cli/main.js'), '--help']));
+  if (baseline) HB.push(timed(process.execPath, [join(baseline, 'dist/cli/main.js'), '--help']));
+  N0.push(timed(process.execPath, ['-e', '0']));
+}
+console.log(line('start-up: fractozone --help', H));
+if (baseline) console.log(line('start-up: baseline --help', HB));
+console.log(line('start-up: node -e 0', N0));
+report.startup = { help: summary(H), ...(baseline ? { baselineHelp: summary(HB) } : {}), bareNode: summary(N0) };
 console.log(`  load after ${load()}`);
 
 if (with48) {
   const img48 = await scene(8000, 6000);
-  const B = [0, 1, 2].map(() => fz(img48, 1, join(dir, 'out-fz48')));
-  const r48 = JSON.parse(B[B.length - 1].stdout);
+  const M = [];
+  const MB = [];
+  for (let i = 0; i < 3; i++) {
+    M.push(fz(img48, 1, join(dir, 'out-fz48')));
+    if (baseline) MB.push(fz(img48, 1, join(dir, 'out-base48'), baseline));
+  }
+  const r48 = JSON.parse(M[M.length - 1].stdout);
   console.log(`48-MP PNG (8000×6000 px), 3 runs; load ${load()}`);
-  console.log(line('fractozone measure', B) + '  (targets ≤ 2.5 s, ≤ 600 MB)');
+  console.log(line('fractozone measure', M) + '  (targets ≤ 2.5 s, ≤ 600 MB)');
   console.log(`    stages (ms, last run): ${Object.entries(r48.diagnostics.timingsMs).map(([k, v]) => `${k} ${v}`).join(', ')}`);
-  report.fractozone48 = summary(B);
+  report.fractozone48 = summary(M);
+  if (baseline) {
+    console.log(line('baseline (--baseline)', MB));
+    report.baseline48 = summary(MB);
+  }
 }
 console.log(JSON.stringify(report));
 if (!keepDir) rmSync(dir, { recursive: true, force: true });

@@ -3,7 +3,9 @@
  * (area) averaging, re-encoded as an 8-bit RGB PNG. Made in the worker (in parallel) and stored as
  * OUT/thumbs/<safe>.png; the report embeds it as a data: URI.
  */
-import { decode, encode } from 'fast-png';
+import { decode } from 'fast-png';
+import { encodePng } from '../../core/encode/index.js';
+import { nodeDeflate } from '../nodeZlib.js';
 
 export const THUMB_WIDTH = 320;
 
@@ -49,7 +51,8 @@ export function thumbnailFromPixels(w: number, h: number, data: ArrayLike<number
       out[q + 2] = Math.round(b * k);
     }
   }
-  return encode({ width: tw, height: th, data: out, channels: 3, depth: 8 });
+  // Node's zlib (level 1): fflate in a fresh worker ran interpreted, ≈ 0.1 s per thumbnail
+  return encodePng({ width: tw, height: th, data: out, layout: 'rgb8' }, { deflate: nodeDeflate });
 }
 
 /**

@@ -8,6 +8,7 @@
 import * as jpegNs from 'jpeg-js';
 import * as utifNs from 'utif2';
 import { fail, guard } from '../fail.js';
+import { getZlib } from '../../zlib.js';
 
 type Decompress = (
   img: { isLE: boolean },
@@ -138,6 +139,22 @@ export function packBitsDecode(src: Uint8Array, off: number, len: number, out: U
 
 export function inflate(src: Uint8Array, off: number, len: number, out: Uint8Array): void {
   if (len < 6) fail('CORRUPT_IMAGE', 'the TIFF Deflate data is too short');
+  // With a shell's native zlib (core/zlib.ts): the same bytes where it inflates the stream whole
+  // (header and Adler-32 checked, output no longer than the strip); anything else — a damaged or
+  // cut stream, a longer output — goes the utif2/pako way below, as before.
+  const z = getZlib();
+  if (z) {
+    let bin: Uint8Array | null = null;
+    try {
+      bin = z.inflate(src.subarray(off, off + len), out.length);
+    } catch {
+      bin = null;
+    }
+    if (bin) {
+      out.set(bin);
+      return;
+    }
+  }
   // utif2 inflates `src.buffer` from off+2 (skipping the zlib header) through its bundled pako
   guard('TIFF Deflate', () => UTIF.decode._decompress({ isLE: true }, [], src, off, len, 8, out, 0, 1, 0, 0));
 }

@@ -1,6 +1,7 @@
 /**
- * The PNG decode with Node's zlib (core/zlib.ts hook, set by the CLI) against the JavaScript path
- * (fast-png): the same raster byte for byte and the same description, on every PNG fixture
+ * Decoding with Node's zlib (core/zlib.ts hook, set by the CLI) against the JavaScript path: TIFF
+ * Deflate strips and tiles (utif2's pako otherwise) on every Deflate TIFF fixture, and PNG (fast-png
+ * otherwise): the same raster byte for byte and the same description, on every PNG fixture
  * (1/2/4/8/16-bit, gray, gray+alpha, RGB, RGBA, palette with tRNS, pHYs; the interlaced one falls
  * back to fast-png), on generated files that use each of the five filter types with 1 to 8 bytes
  * per pixel and several IDAT chunks, and on damaged files (same error code and message).
@@ -14,6 +15,7 @@ import { setZlib, type NativeZlib } from '../../../src/core/zlib.js';
 
 const DIR = new URL('../../fixtures/decode/', import.meta.url);
 const pngFixtures = readdirSync(DIR).filter((n) => n.endsWith('.png'));
+const deflateTiffs = readdirSync(DIR).filter((n) => n.endsWith('.tif') && n.includes('deflate'));
 
 /** Node's zlib as the CLI hands it over, counting the inflates that went through it. */
 function nodeZlib(): NativeZlib & { inflates: number } {
@@ -165,4 +167,18 @@ describe('PNG decode with native zlib = fast-png path, byte for byte', () => {
       expect(native).toEqual(js);
     }
   });
+});
+
+describe('TIFF Deflate with native zlib = utif2/pako path, byte for byte', () => {
+  it('has Deflate TIFF fixtures', () => {
+    expect(deflateTiffs.length).toBeGreaterThanOrEqual(8);
+  });
+  for (const name of deflateTiffs) {
+    it(`${name}: same raster and description, strips inflated natively`, () => {
+      const { js, native, inflates } = both(new Uint8Array(readFileSync(new URL(name, DIR))));
+      expect((js as { raster?: unknown }).raster).toBeDefined();
+      expect(native).toEqual(js);
+      expect(inflates).toBeGreaterThan(0);
+    });
+  }
 });
