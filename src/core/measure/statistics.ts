@@ -171,15 +171,18 @@ export function select(a: Float64Array, k: number): number {
   return a[k];
 }
 
-/** Median of a (reorders a). */
-function medianInPlace(a: Float64Array): number {
-  const n = a.length;
-  if (n % 2) return select(a, (n - 1) / 2);
-  const hi = select(a, n / 2);
-  // after select, everything left of n/2 is ≤ a[n/2]: the lower middle is their maximum
-  let lo = -Infinity;
-  for (let i = 0; i < n / 2; i++) if (a[i] > lo) lo = a[i];
-  return 0.5 * (lo + hi);
+/**
+ * Median of the resample holding count[j] copies of sorted[j] (sorted ascending): the values of
+ * ranks lo and hi (equal for an odd size), averaged for an even size.
+ */
+function bootstrapMedian(sorted: Float64Array, count: Int32Array, lo: number, hi: number): number {
+  let cum = 0;
+  let j = 0;
+  while (cum + count[j] <= lo) cum += count[j++];
+  const a = sorted[j];
+  if (lo === hi) return a;
+  while (cum + count[j] <= hi) cum += count[j++];
+  return 0.5 * (a + sorted[j]);
 }
 
 /**
@@ -227,10 +230,16 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
     const rng = createRng(opts.seed ?? 1);
     const rnd = (): number => rng.nextFloat();
     const meds = new Float64Array(B);
-    const buf = new Float64Array(n);
+    // The resample is sorted[j] for drawn ranks j, and `sorted` is ascending: its middle values are
+    // sorted[] at the middle drawn ranks, found by counting the ranks (the same numbers as the median
+    // of the resampled values; 2000 resamples of 360 rays 34 → 10–14 ms, load 10, against selecting on the values).
+    const count = new Int32Array(n);
+    const lo = (n - 1) >> 1;
+    const hi = n >> 1;
     for (let b = 0; b < B; b++) {
-      for (let i = 0; i < n; i++) buf[i] = sorted[Math.floor(rnd() * n)];
-      meds[b] = medianInPlace(buf);
+      count.fill(0);
+      for (let i = 0; i < n; i++) count[Math.floor(rnd() * n)]++;
+      meds[b] = bootstrapMedian(sorted, count, lo, hi);
     }
     meds.sort();
     const m = Array.from(meds);

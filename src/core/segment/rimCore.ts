@@ -81,7 +81,7 @@ export interface RimCoreResult {
   separability: Separability;
   /** Fraction of rays on which the core comes within ~one window of the outer edge. */
   coreAtEdgeFraction: number;
-  /** Combined, normalised log-feature at feature resolution (for overlays). */
+  /** Combined, normalised log-feature at feature resolution, on the interior pixels (0 elsewhere). */
   combined: GrayRaster;
   featureScale: number;
 }
@@ -89,6 +89,10 @@ export interface RimCoreResult {
 /** Downsample the specimen mask to feature resolution by sampling at feature-pixel centres. */
 function maskAtScale(mask: Mask, fw: number, fh: number, s: number): Mask {
   const out = createMask(fw, fh);
+  if (s === 1 && fw === mask.width && fh === mask.height) {
+    out.data.set(mask.data); // every feature px centre is a mask px centre
+    return out;
+  }
   for (let v = 0; v < fh; v++) {
     const y = Math.min(mask.height - 1, Math.max(0, Math.round((v + 0.5) * s - 0.5)));
     for (let u = 0; u < fw; u++) {
@@ -230,16 +234,19 @@ function checkInputs(specimen: Specimen, features: readonly GrayRaster[], opts: 
 /**
  * The combined feature: per feature the transform (log unless 'identity'), minus p·log(local mean
  * brightness), a robust z-score over the interior pixels `idx` winsorised at ±Z_CLAMP; the mean
- * over the features.
+ * over the features. Only the interior pixels are computed (0 elsewhere): nothing reads the others
+ * (the split, the sectors and the separability all take interior pixels), and the interior is
+ * ≈ 40 % of the working copy on the 12-MP bench.
  */
 function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, geo: FeatureGeometry, comb: Float32Array): void {
-  const n = comb.length;
   const idx = geo.idx;
+  const m = idx.length;
   const { width: fw, height: fh } = features[0];
   // log brightness is shared by every brightness-normalised feature: computed once
   let logBm: Float64Array | null = null;
   let lg: Float32Array | null = null;
-  let samp: Float32Array | null = null;
+  let raw: Float32Array | null = null;
+  const acc = new Float32Array(m);
   const nF = features.length;
   for (let fi = 0; fi < nF; fi++) {
     const pw = opts.gainPowers?.[fi] ?? 0;
@@ -247,36 +254,41 @@ function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, 
     const scoreKey = `${opts.transforms?.[fi] === 'identity' ? 'id' : 'log'}|${pw}`;
     const known = opts.shareScores ? geo.scores.get(features[fi])?.find((e) => e.key === scoreKey && e.brightness === bm) : undefined;
     if (known) {
-      addScores(known.z, nF, comb);
+      addScores(known.z, nF, acc);
       continue;
     }
-    lg ??= new Float32Array(n);
-    samp ??= new Float32Array(idx.length);
+    lg ??= new Float32Array(m);
     const fd = features[fi].data;
-    if (opts.transforms?.[fi] === 'identity') lg.set(fd);
-    else logClampedInto(fd, 1e-12, lg);
+    if (opts.transforms?.[fi] === 'identity') gather(fd, idx, lg);
+    else {
+      raw ??= new Float32Array(m);
+      gather(fd, idx, raw);
+      logClampedInto(raw, 1e-12, lg);
+    }
     if (pw !== 0 && bm) {
       if (bm.width !== fw || bm.height !== fh) throw new FractozoneError('BAD_PARAMETER', 'The brightness raster must have the size of the features.');
       if (!logBm) {
-        logBm = new Float64Array(n);
-        logClampedInto(bm.data, 1e-3, logBm);
+        const b = new Float32Array(m);
+        gather(bm.data, idx, b);
+        logBm = new Float64Array(m);
+        logClampedInto(b, 1e-3, logBm);
       }
       subtractScaled(lg, pw, logBm);
     }
-    gather(lg, idx, samp);
-    const [med, q75, q25] = quantiles(samp, [0.5, 0.75, 0.25]);
+    const [med, q75, q25] = quantiles(lg, [0.5, 0.75, 0.25]);
     const spread = (q75 - q25) / 1.349 || 1;
     // Winsorised z-score (±Z_CLAMP robust σ): a perfectly flat patch (shadowed rim, saturated
     // highlight) has a log-feature far out in the tail that would otherwise pull Otsu's threshold
     // into the rim class.
     if (opts.shareScores) {
       const z = clampedZ(lg, med, spread);
-      addScores(z, nF, comb);
+      addScores(z, nF, acc);
       const list = geo.scores.get(features[fi]) ?? [];
       list.push({ key: scoreKey, brightness: bm, z });
       geo.scores.set(features[fi], list);
-    } else addClampedZ(lg, med, spread, nF, comb);
+    } else addClampedZ(lg, med, spread, nF, acc);
   }
+  for (let k = 0; k < m; k++) comb[idx[k]] = acc[k];
 }
 
 /** clamp((lg[i] − med)/spread, ±Z_CLAMP), kept in double precision (the same terms as addClampedZ adds). */

@@ -42,12 +42,26 @@ export function gradientEnergyPointwise(r: GrayRaster): GrayRaster {
 export function gradientEnergy(r: GrayRaster, windowPx: number): GrayRaster {
   checkRaster(r);
   checkWindowFits(windowPx, r.width, r.height);
-  const e = new Float32Array(r.width * r.height);
-  sobelEnergyInto(r, e);
+  const e = sobelEnergyOnce(r);
   const out = new Float32Array(r.width * r.height);
   boxMeanInto(e, r.width, r.height, windowPx, out);
   return createRaster(r.width, r.height, out);
 }
+
+/**
+ * The pointwise energy of a raster, once per raster: it does not depend on the window, and the
+ * parameter range (pipeline/stages/uncertainty.ts) computes the feature of the same working copy at
+ * two more windows. Rasters are not changed in place, so the raster names its energy; only read.
+ */
+function sobelEnergyOnce(r: GrayRaster): Float32Array {
+  const hit = ENERGY.get(r);
+  if (hit) return hit;
+  const e = new Float32Array(r.width * r.height);
+  sobelEnergyInto(r, e);
+  ENERGY.set(r, e);
+  return e;
+}
+const ENERGY = new WeakMap<GrayRaster, Float32Array>();
 
 function sobelEnergyInto(r: GrayRaster, out: Float32Array): void {
   const cv = getCv();

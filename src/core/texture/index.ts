@@ -3,7 +3,9 @@ export type { FeatureDefinition, FeatureOptions } from './types.js';
 export { localStd, localVariance } from './localStd.js';
 export {
   localEntropy,
+  localEntropyInBox,
   intensityRange,
+  type PixelBox,
   DEFAULT_ENTROPY_BINS,
   DEFAULT_ENTROPY_PERCENTILES,
   type LocalEntropyOptions,

@@ -83,6 +83,60 @@ export function localEntropy(
   return createRaster(width, height, out);
 }
 
+/** A box of pixels, inclusive bounds (px). */
+export interface PixelBox {
+  x0: number;
+  y0: number;
+  x1: number;
+  y1: number;
+}
+
+/**
+ * {@link localEntropy} of a raster (bins over its own percentile range, as without `range`) only
+ * inside `box`; 0 elsewhere. The same values inside the box as on the whole raster: the kernel
+ * runs on the box grown by the half window (clamped to the raster), so every window of a box pixel
+ * holds the same pixels, the histogram counts are integers and the entropy sums are exact fixed
+ * point (kernels/entropyKernel.ts: independent of the order of the updates), and the crop is kept
+ * at least one window wide so the fixed-point tables (sized by the window population) are the
+ * same. For callers that read the map only inside a region (the specimen: the classification reads
+ * its interior only); the 12-MP bench's specimen box is ≈ ½ of the working copy.
+ */
+export function localEntropyInBox(input: GrayRaster, windowPx: number, box: PixelBox, opts: Omit<LocalEntropyOptions, 'range'> = {}): GrayRaster {
+  const r = checkWindow(windowPx);
+  checkRaster(input);
+  const nBins = checkBins(opts.bins ?? DEFAULT_ENTROPY_BINS);
+  const { width: W, height: H } = input;
+  const bx0 = Math.max(0, Math.floor(box.x0));
+  const by0 = Math.max(0, Math.floor(box.y0));
+  const bx1 = Math.min(W - 1, Math.ceil(box.x1));
+  const by1 = Math.min(H - 1, Math.ceil(box.y1));
+  const bins = rangeBinsOnce(input, nBins, opts.percentiles ?? DEFAULT_ENTROPY_PERCENTILES);
+  const out = new Float32Array(W * H);
+  if (bx1 < bx0 || by1 < by0) return createRaster(W, H, out);
+  const [cx0, cx1] = cropSpan(bx0 - r, bx1 + r, W, 2 * r + 1);
+  const [cy0, cy1] = cropSpan(by0 - r, by1 + r, H, 2 * r + 1);
+  const w = cx1 - cx0 + 1;
+  const h = cy1 - cy0 + 1;
+  const cb = new Uint8Array(w * h);
+  for (let y = 0; y < h; y++) cb.set(bins.subarray((cy0 + y) * W + cx0, (cy0 + y) * W + cx0 + w), y * w);
+  const co = new Float32Array(w * h);
+  entropyKernel(cb, w, h, r, nBins, co);
+  for (let y = by0; y <= by1; y++) out.set(co.subarray((y - cy0) * w + bx0 - cx0, (y - cy0) * w + bx1 - cx0 + 1), y * W + bx0);
+  return createRaster(W, H, out);
+}
+
+/** [a, b] clamped to [0, n − 1] and grown to at least min(side, n) values. */
+function cropSpan(a: number, b: number, n: number, side: number): [number, number] {
+  let lo = Math.max(0, a);
+  let hi = Math.min(n - 1, b);
+  const need = Math.min(side, n);
+  if (hi - lo + 1 < need) {
+    lo = Math.max(0, hi - need + 1);
+    hi = Math.min(n - 1, lo + need - 1);
+  }
+  return [lo, hi];
+}
+
 /**
  * The histogram bin of every pixel of a raster as {@link localEntropy} computes it without a
  * `range` option: `nBins` bins over the raster's percentile range.

@@ -17,7 +17,7 @@ import type { WorkingFrame } from '../frame.js';
 import { classifyTexture, type Classification } from './classify.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 import { refineRimBoundary, type RimBoundary } from './refineBoundary.js';
-import { computeTexture, textureWindow, type TextureMaps, type TextureWindow } from './texture.js';
+import { computeTexture, REGION_MARGIN_PX, specimenBox, textureWindow, type TextureMaps, type TextureWindow } from './texture.js';
 
 /** Input of {@link findRimBoundary}. */
 export interface BandInput {
@@ -55,7 +55,7 @@ const SECOND_PASS_MAX_WINDOWS = 2.5;
 
 /** One pass: texture, classification and refined boundary at one window, on `source` (the working copy, glints suppressed). */
 function pass(input: BandInput, window: TextureWindow, source: GrayRaster): { boundary: RimBoundary; warnings: Warning[]; texture: TextureMaps; classification: Classification } {
-  const texture = computeTexture({ frame: input.frame, window, features: input.features, source });
+  const texture = computeTexture({ frame: input.frame, window, features: input.features, source, region: specimenBox(input.location, REGION_MARGIN_PX) });
   const classification = classifyTexture({ location: input.location, texture });
   const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays, source });
   return { boundary, warnings: classification.warnings, texture, classification };

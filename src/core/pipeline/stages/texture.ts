@@ -6,7 +6,7 @@
 import { oncePerRaster } from '../../segment/memo.js';
 import type { Scale } from '../../calibrate/index.js';
 import type { GrayRaster } from '../../image/raster.js';
-import { boxMean, computeFeature, defaultWindowUm, FEATURES, windowPxFromUm, type FeatureName } from '../../texture/index.js';
+import { boxMean, computeFeature, defaultWindowUm, FEATURES, localEntropyInBox, windowPxFromUm, type FeatureName, type PixelBox } from '../../texture/index.js';
 import type { WorkingFrame } from '../frame.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 
@@ -51,6 +51,43 @@ export interface TextureInput {
   features: readonly FeatureName[];
   /** The working copy the features are computed on, when not frame.work (e.g. with glints suppressed). */
   source?: GrayRaster;
+  /**
+   * Working px where the maps are read (the classification reads the specimen's interior only; see
+   * {@link specimenBox}): the local entropy, the costliest map, is then computed there only (the same
+   * values, 0 elsewhere; texture/localEntropy.ts `localEntropyInBox`). Default: everywhere.
+   */
+  region?: PixelBox;
+}
+
+/**
+ * Margin of the region the maps are read in, working px: a map binned 3 × 3 for the parameter
+ * range (stages/uncertainty.ts `BIN`) averages pixels up to one px beyond the mask; 3 leaves room.
+ */
+export const REGION_MARGIN_PX = 3;
+
+/**
+ * The specimen mask's bounding box (working px) grown by `margin` px: where the classification can
+ * read a feature map (its interior lies inside the mask; a binned map's block reaches one block
+ * beyond its centre pixel, so callers pass at least the bin size).
+ */
+export function specimenBox(location: SpecimenLocation, margin: number): PixelBox {
+  const m = location.specimen.mask;
+  const W = m.width;
+  let x0 = W;
+  let x1 = -1;
+  let y0 = m.height;
+  let y1 = -1;
+  for (let y = 0; y < m.height; y++) {
+    const row = y * W;
+    for (let x = 0; x < W; x++) {
+      if (!m.data[row + x]) continue;
+      if (x < x0) x0 = x;
+      if (x > x1) x1 = x;
+      if (y < y0) y0 = y;
+      y1 = y;
+    }
+  }
+  return x1 < 0 ? { x0: 0, y0: 0, x1: -1, y1: -1 } : { x0: x0 - margin, y0: y0 - margin, x1: x1 + margin, y1: y1 + margin };
 }
 
 /**
@@ -74,13 +111,20 @@ export function textureWindow(input: WindowInput): TextureWindow {
 export function computeTexture(input: TextureInput): TextureMaps {
   const { frame, window } = input;
   const src = input.source ?? frame.work;
+  const box = input.region;
+  const inBox = (name: FeatureName): boolean => box !== undefined && name === 'localEntropy';
   // once per working copy, window and features: every specimen of an image (both halves) uses the same
-  const { maps, brightness } = oncePerRaster(TEXTURES, src, `${window.windowPxWork}|${input.features.join(',')}`, () => ({
-    maps: input.features.map((name) => ({ name, raster: computeFeature(name, src, window.windowPxWork) })),
+  const { maps, brightness } = oncePerRaster(TEXTURES, src, `${window.windowPxWork}|${input.features.join(',')}|${box ? 'box' : 'all'}`, () => ({
+    maps: input.features.map((name) => ({ name, raster: inBox(name) ? null : computeFeature(name, src, window.windowPxWork) })),
     brightness: boxMean(src, window.windowPxWork),
   }));
-  return { window, maps, brightness };
+  // the entropy inside the region: once per working copy, window and region
+  const own = (name: FeatureName): GrayRaster =>
+    oncePerRaster(TEXTURES_IN_BOX, src, `${window.windowPxWork}|${name}|${box!.x0},${box!.y0},${box!.x1},${box!.y1}`, () => localEntropyInBox(src, window.windowPxWork, box!));
+  return { window, maps: maps.map((m) => ({ name: m.name, raster: m.raster ?? own(m.name) })), brightness };
 }
 
-/** Texture maps per working copy (segment/memo.ts); never written to. */
-const TEXTURES = new WeakMap<GrayRaster, Map<string, Pick<TextureMaps, 'maps' | 'brightness'>>>();
+/** Texture maps per working copy (segment/memo.ts); never written to. Maps left to {@link TEXTURES_IN_BOX} are null. */
+const TEXTURES = new WeakMap<GrayRaster, Map<string, { maps: { name: FeatureName; raster: GrayRaster | null }[]; brightness: GrayRaster }>>();
+/** Maps computed inside a region only, per working copy. */
+const TEXTURES_IN_BOX = new WeakMap<GrayRaster, Map<string, GrayRaster>>();

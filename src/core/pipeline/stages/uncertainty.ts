@@ -33,7 +33,7 @@ import { classifyTexture, type Classification } from './classify.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
 import { measureWidths, minWidthPxFor } from './measure.js';
 import { refineRimBoundary } from './refineBoundary.js';
-import { computeTexture, type FeatureMap, type TextureMaps, type TextureWindow } from './texture.js';
+import { computeTexture, REGION_MARGIN_PX, specimenBox, type FeatureMap, type TextureMaps, type TextureWindow } from './texture.js';
 import { createRaster, type GrayRaster } from '../../image/raster.js';
 import { storedGeometry } from './assemble.js';
 import { oncePerRaster } from '../../segment/memo.js';
@@ -145,7 +145,7 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
       windowPxWork: windowPxFromUm(windowUm, v.scale.umPerPx * v.frame.lengthScale),
       windowPxFull: windowPxFromUm(windowUm, v.scale.umPerPx),
     };
-    const texture = computeTexture({ frame: v.frame, window, features: v.params.features });
+    const texture = computeTexture({ frame: v.frame, window, features: v.params.features, region: specimenBox(v.location, REGION_MARGIN_PX) });
     out.push(shifted(`window ×${f}`, classifyBinned(v, texture.maps, texture.brightness, window), window));
   }
   if (v.texture.maps.length > 1) {
