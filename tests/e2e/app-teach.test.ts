@@ -98,6 +98,8 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     const map = Number(await shown.getAttribute('data-map-ms'));
     console.log(`teach preview on ${truth.widthPx}×${truth.heightPx} px: ${total} ms from the last stroke to the class map (class map alone ${map} ms)`);
     expect(total).toBeGreaterThan(0);
+    // the preview says it is one (the forest runs on a reduced grid, interpolated between)
+    expect(await page.getByTestId('teach-status').textContent()).toMatch(/preview: the model is evaluated at points \d+ px apart/);
     await page.screenshot({ path: '/tmp/fractozone-e2e-teach.png' });
 
     // undo takes the last stroke away; redo brings it back (the same model: no teaching needed)
