@@ -198,7 +198,7 @@ export async function applyModelToAll(ctx: TeachContext, use: boolean): Promise<
   if (use && !m) return;
   const docId = ctx.get().activeId ?? ctx.get().docs[0]?.id;
   if (!docId) return;
-  ctx.update((s) => apply(s, docId, useModelForSeries(s.series, use && m ? { name: m.name, sha256: m.sha256 } : null), 'teach'));
+  ctx.update((s) => apply(s, docId, useModelForSeries(s.series, use && m ? { name: m.name, sha256: m.sha256, text: m.text } : null), 'teach'));
   for (const d of ctx.get().docs) {
     if (!scaleOf(d).ok) {
       ctx.update((s) => say(s, d.id, 'analysis', [{ level: 'warning', text: 'Not measured with the model: this image has no scale yet.' }]));
