@@ -14,6 +14,7 @@ const steps = [
   ['batch throughput, 1 vs 2 workers', ['bench-batch.mjs', ...(quick ? ['--images', '8'] : [])]],
   ['rendered fractograph generator', ['bench-render.mjs']],
   ['pixel classifier: teach and measure --model, 12 MP', ['bench-learn.mjs', ...(quick ? ['--runs', '1'] : [])]],
+  ['teach mode in Chromium: stroke → class map, 2 MP', ['bench-teach-app.mjs', ...(quick ? ['--strokes', '3'] : [])]],
 ];
 let failed = 0;
 for (const [title, [script, ...args]] of steps) {

@@ -61,7 +61,7 @@ export type {
 } from './pipeline/index.js';
 export { judgeQuality, assessQuality, QUALITY_RULES, type QualityRule } from './pipeline/stages/quality.js';
 export { recompute, fullRunReason, rescaleResult, withOutline, scaleFor, OUTLINE_CORRECTED, type RecomputeOutcome } from './pipeline/recompute.js';
-export { SESSION_SCHEMA, makeSession, sessionText, parseSession, type Session } from './session.js';
+export { SESSION_SCHEMA, makeSession, sessionText, parseSession, type Session, type SessionModel } from './session.js';
 export { CAUTION } from './caution.js';
 export {
   WARNINGS,

@@ -1,11 +1,13 @@
 /**
  * Session files (`fractozone.session/2`): what is needed to take up the work on one image again —
  * the image's SHA-256, the complete measurement parameters (an edited boundary travels in
- * `params.boundaryPolygon`), a hand-corrected outline, and whether the image had been measured.
- * Reopening checks the hash and validates every field into typed values; measuring the image again
- * with these parameters gives the same numbers (the pipeline is deterministic).
+ * `params.boundaryPolygon`; a pixel model in `params.modelSha256` with the model file itself in
+ * `model`), a hand-corrected outline, and whether the image had been measured. Reopening checks the
+ * hashes and validates every field into typed values; measuring the image again with these
+ * parameters (and the model) gives the same numbers (the pipeline is deterministic).
  */
-import { FractozoneError } from './errors.js';
+import { FractozoneError, isFractozoneError } from './errors.js';
+import { parseModel } from './learn/model.js';
 import { defaultParams, validateParams } from './pipeline/params.js';
 import type { PointPx } from './image/geometry.js';
 import type { MaterialParams, MeasureParams, ScaleParams } from './pipeline/types.js';
@@ -27,11 +29,27 @@ export interface Session {
   outline: PointPx[] | null;
   /** True when the image had been measured (reopening measures it again). */
   measured: boolean;
+  /**
+   * The pixel model `params.modelSha256` names: its name as the app shows it, the SHA-256 of its file
+   * (= `params.modelSha256`) and the file's text byte for byte (fractozone.model/1), so that the
+   * session measures the same without the model file beside it. Absent without a model.
+   */
+  model?: SessionModel;
+}
+
+/** A pixel model carried in a session file. */
+export interface SessionModel {
+  name: string;
+  sha256: string;
+  text: string;
 }
 
 /** A new session record for an image (tool name and version filled in). */
-export function makeSession(image: Session['image'], params: MeasureParams, outline: PointPx[] | null, measured: boolean): Session {
-  return { schema: SESSION_SCHEMA, tool: { name: TOOL_NAME, version: TOOL_VERSION }, image: { ...image }, params: structuredClone(params), outline: outline ? outline.map((p) => ({ x: p.x, y: p.y })) : null, measured };
+export function makeSession(image: Session['image'], params: MeasureParams, outline: PointPx[] | null, measured: boolean, model?: SessionModel): Session {
+  if ((params.modelSha256 ?? null) !== (model?.sha256 ?? null)) throw new FractozoneError('BAD_PARAMETER', 'a session needs the model its parameters name (modelSha256), and no other');
+  const s: Session = { schema: SESSION_SCHEMA, tool: { name: TOOL_NAME, version: TOOL_VERSION }, image: { ...image }, params: structuredClone(params), outline: outline ? outline.map((p) => ({ x: p.x, y: p.y })) : null, measured };
+  if (model) s.model = { name: model.name, sha256: model.sha256, text: model.text };
+  return s;
 }
 
 /** Session file text (2-space JSON, trailing newline). */
@@ -93,6 +111,8 @@ function scaleParams(v: unknown): ScaleParams {
   if (py !== undefined) out.pixelSizeYUm = py;
   const bar = optional(o.barLengthUm, (x) => positive(x, 'params.scale.barLengthUm'));
   if (bar !== undefined) out.barLengthUm = bar;
+  const tol = optional(o.pixelSizeTolerancePct, (x) => num(x, 'params.scale.pixelSizeTolerancePct'));
+  if (tol !== undefined) out.pixelSizeTolerancePct = tol;
   if (o.twoPoint !== undefined) {
     const t = obj(o.twoPoint, 'params.scale.twoPoint');
     const [p0, p1] = points([t.p0, t.p1], 'params.scale.twoPoint points');
@@ -194,8 +214,33 @@ function measureParams(v: unknown): MeasureParams {
     reference: o.reference === 'L/2' || o.reference === '2L' ? o.reference : o.reference === undefined || o.reference === 'L' ? 'L' : bad('params.reference must be L, L/2 or 2L'),
     tolerancePct: o.tolerancePct === undefined ? d.tolerancePct : positive(o.tolerancePct, 'params.tolerancePct'),
     ...(o.verdictBasis === undefined ? (d.verdictBasis === undefined ? {} : { verdictBasis: d.verdictBasis }) : { verdictBasis: o.verdictBasis as MeasureParams['verdictBasis'] }),
+    ...(o.modelSha256 === undefined || o.modelSha256 === null ? {} : { modelSha256: sha256Text(o.modelSha256, 'params.modelSha256') }),
   };
   return validateParams(p);
+}
+
+function sha256Text(v: unknown, where: string): string {
+  const t = text(v, where);
+  if (!/^[0-9a-f]{64}$/.test(t)) bad(`${where} must be a SHA-256 (64 lower-case hex digits)`);
+  return t;
+}
+
+/** The model of a session: present exactly when the parameters name one, with that SHA-256, and a model file that reads. */
+function sessionModel(v: unknown, params: MeasureParams): SessionModel | undefined {
+  if (v === undefined || v === null) {
+    if (params.modelSha256 !== undefined) bad('the parameters name a pixel model (params.modelSha256) but the file does not hold it (model)');
+    return undefined;
+  }
+  const o = obj(v, 'model');
+  const m: SessionModel = { name: text(o.name, 'model.name'), sha256: sha256Text(o.sha256, 'model.sha256'), text: text(o.text, 'model.text') };
+  if (params.modelSha256 !== m.sha256) bad(`model.sha256 (${m.sha256.slice(0, 12)}…) is not the model the parameters name (${params.modelSha256 === undefined ? 'none' : `${params.modelSha256.slice(0, 12)}…`})`);
+  try {
+    parseModel(m.text);
+  } catch (e) {
+    if (!isFractozoneError(e)) throw e;
+    bad(`model.text: ${e.message}`);
+  }
+  return m;
 }
 
 /**
@@ -220,12 +265,15 @@ export function parseSession(textIn: string, image: { sha256: string }): Session
   const file = text(img.file, 'image.file');
   if (img.sha256 !== image.sha256) bad(`it belongs to another image (${file}, SHA-256 ${String(img.sha256).slice(0, 12)}…); open that image and reopen the session there`);
   const tool = obj(o.tool, 'tool');
+  const params = measureParams(o.params);
+  const model = sessionModel(o.model, params);
   return {
     schema: SESSION_SCHEMA,
     tool: { name: text(tool.name, 'tool.name'), version: text(tool.version, 'tool.version') },
     image: { file, sha256: image.sha256, widthPx: positive(img.widthPx, 'image.widthPx'), heightPx: positive(img.heightPx, 'image.heightPx') },
-    params: measureParams(o.params),
+    params,
     outline: o.outline === null || o.outline === undefined ? null : points(o.outline, 'outline'),
     measured: o.measured === true,
+    ...(model ? { model } : {}),
   };
 }

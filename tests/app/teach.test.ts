@@ -61,12 +61,12 @@ describe('teach actions', () => {
   it('measuring with a model is a series input: it enters the parameters and asks for a full run', async () => {
     const { doc, series } = await measured();
     expect(needsFullRun(doc, series)).toBeNull();
-    const c = useModelForSeries(series, { name: 'm.model.json', sha256: 'c'.repeat(64) });
+    const c = useModelForSeries(series, { name: 'm.model.json', sha256: 'c'.repeat(64), text: '{}' });
     if (!('series' in c)) throw new Error('expected a series edit');
     const withModel = { ...series, ...c.series.patch };
     expect(paramsOf(doc, withModel).modelSha256).toBe('c'.repeat(64));
     expect(needsFullRun(doc, withModel)).toMatch(/measured with a taught model/);
-    expect(useModelForSeries(withModel, { name: 'other name', sha256: 'c'.repeat(64) })).toEqual({ unchanged: true });
+    expect(useModelForSeries(withModel, { name: 'other name', sha256: 'c'.repeat(64), text: '{}' })).toEqual({ unchanged: true });
     expect(paramsOf(doc, series).modelSha256).toBeUndefined();
   });
 });

@@ -56,6 +56,8 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
   let sample: string;
   let modelFile: string;
   let sha: string;
+  let sessionFile: string;
+  let sessionMean: number;
 
   beforeAll(async () => {
     dir = mkdtempSync(join(tmpdir(), 'fractozone-teach-'));
@@ -98,6 +100,8 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     const map = Number(await shown.getAttribute('data-map-ms'));
     console.log(`teach preview on ${truth.widthPx}×${truth.heightPx} px: ${total} ms from the last stroke to the class map (class map alone ${map} ms)`);
     expect(total).toBeGreaterThan(0);
+    // the preview says it is one (the forest runs on a reduced grid, interpolated between)
+    expect(await page.getByTestId('teach-status').textContent()).toMatch(/preview: the model is evaluated at points \d+ px apart/);
     await page.screenshot({ path: '/tmp/fractozone-e2e-teach.png' });
 
     // undo takes the last stroke away; redo brings it back (the same model: no teaching needed)
@@ -132,6 +136,14 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     const fromCli = JSON.parse(execFileSync(process.execPath, [cli, ...cliArgs], { cwd: repoRoot, encoding: 'utf8', maxBuffer: 64 << 20 })) as { band: { widthUm: { mean: number } }; model: { sha256: string } };
     expect(fromCli.model.sha256).toBe(sha);
     expect(fromCli.band.widthUm.mean).toBeCloseTo(mean, 6);
+    // the session keeps the model (checked in a fresh page at the end)
+    sessionFile = join(dir, 'with-model.session.json');
+    sessionMean = mean;
+    copyFileSync(await downloadOf(page, 'export-session'), sessionFile);
+    const session = JSON.parse(readFileSync(sessionFile, 'utf8')) as { params: { modelSha256?: string }; model?: { sha256: string; text: string } };
+    expect(session.params.modelSha256).toBe(sha);
+    expect(session.model?.sha256).toBe(sha);
+    expect(session.model?.text).toBe(readFileSync(modelFile, 'utf8'));
   });
 
   it('applies the model to every open image, and opens the saved file again', async () => {
@@ -160,5 +172,19 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     expect(await page.getByTestId('model-shown').getAttribute('data-sha256')).toBe(sha);
     expect(s.consoleErrors).toEqual([]);
     expect(s.foreignRequests).toEqual([]);
+  });
+
+  it('a session saved with the model comes back measured with it, current, in a fresh page', async () => {
+    const { page } = s;
+    // a fresh page: no model in the engine, none in the app; the session brings it
+    await page.reload();
+    await waitForStart(page);
+    expect(await page.getByTestId('model-in-use').count()).toBe(0);
+    await page.getByTestId('open-session').setInputFiles(sessionFile);
+    await page.locator(`[data-testid=result-model][data-sha256="${sha}"]`).waitFor({ timeout: 60_000 });
+    await waitCurrent(page);
+    expect(await page.getByTestId('model-in-use').getAttribute('data-sha256')).toBe(sha);
+    expect(await currentMean(page)).toBeCloseTo(sessionMean, 6);
+    expect(s.consoleErrors).toEqual([]);
   });
 });

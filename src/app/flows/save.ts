@@ -11,6 +11,7 @@ import { derive, say } from '../state/store.js';
 import { apply } from '../state/actions/types.js';
 import { readSheet } from '../state/actions/inputs.js';
 import { reopenSession } from '../state/actions/session.js';
+import { useModelForSeries } from '../state/actions/teach.js';
 import { withoutCliHints } from '../state/words.js';
 import { fullRun, runKey } from './measure.js';
 import { wordsOf, type FlowContext } from './context.js';
@@ -66,7 +67,8 @@ export async function save(ctx: FlowContext, id: string, kind: ExportKind): Prom
   if (!doc) return;
   const stem = doc.image.name.replace(/\.[^.]+$/, '');
   if (kind === 'session') {
-    const session = makeSession({ file: doc.image.name, sha256: doc.image.sha256, widthPx: doc.image.widthPx, heightPx: doc.image.heightPx }, paramsOf(doc, s.series), doc.outline, doc.base !== null);
+    const model = s.series.model;
+    const session = makeSession({ file: doc.image.name, sha256: doc.image.sha256, widthPx: doc.image.widthPx, heightPx: doc.image.heightPx }, paramsOf(doc, s.series), doc.outline, doc.base !== null, model ? { name: model.name, sha256: model.sha256, text: model.text } : undefined);
     download(`${stem}.session.json`, sessionText(session), 'application/json');
     return;
   }
@@ -97,6 +99,13 @@ export async function openSession(ctx: FlowContext, id: string, file: File): Pro
   if (!doc) return;
   try {
     const session = parseSession(await file.text(), { sha256: doc.image.sha256 });
+    // the session's model: loaded in the engine (its SHA-256 checked there) and made the series' model
+    const model = session.model;
+    if (model) {
+      const info = await ctx.engine.request({ type: 'loadModel', bytes: new TextEncoder().encode(model.text).buffer });
+      if (info.sha256 !== model.sha256) throw new Error(`the model in the session file is damaged (its SHA-256 is ${info.sha256.slice(0, 12)}…, the file says ${model.sha256.slice(0, 12)}…)`);
+      ctx.update((s) => apply(s, id, useModelForSeries(s.series, { name: model.name, sha256: model.sha256, text: model.text }), 'session'));
+    }
     // measured sessions are measured again first, so reopening is one step (and one undo)
     const full = { ...session.params, boundaryPolygon: null };
     if (session.measured) ctx.update((s) => derive(s, id, { busy: 'analysing' }));

@@ -31,6 +31,8 @@ export interface ClassMapShown {
   fractions: [number, number, number];
   /** Engine time of the class map, and from the end of the stroke to the map on screen (teaching included), ms. */
   mapMs: number;
+  /** Grid spacing (working px) the forest was evaluated at; the map is interpolated between. */
+  stride: number;
   totalMs: number | null;
 }
 
@@ -41,13 +43,20 @@ export interface TeachView {
   /** Models taught before, by the key of their strokes (undo / redo show them again without teaching). */
   byKey: Record<string, TeachModel>;
   maps: Record<string, ClassMapShown>;
-  busy: 'teaching' | 'mapping' | null;
+  /** Per image: the scale and windows the engine has made it ready for (working copy, feature tables, the class-map grid's features). */
+  prepared: Record<string, string>;
+  busy: 'preparing' | 'teaching' | 'mapping' | null;
   /** When the teaching in progress (or the last one) started (performance.now()). */
   startedAt: number | null;
   error: string | null;
 }
 
-export const emptyTeach = (): TeachView => ({ model: null, taughtKey: null, byKey: {}, maps: {}, busy: null, startedAt: null, error: null });
+export const emptyTeach = (): TeachView => ({ model: null, taughtKey: null, byKey: {}, maps: {}, prepared: {}, busy: null, startedAt: null, error: null });
+
+/** Key of what an image is made ready for. */
+function preparedKey(scale: TeachInput['scale'], windowsUm: number[] | null): string {
+  return canonicalJson({ scale, windowsUm });
+}
 
 /** What the engine teaches from: the images with strokes and a scale. */
 export function teachInputs(s: AppState): { inputs: TeachInput[]; unscaled: string[] } {
@@ -62,7 +71,7 @@ export function teachInputs(s: AppState): { inputs: TeachInput[]; unscaled: stri
 }
 
 /** The next thing teach mode should ask the engine for, or null. */
-export function nextTeachStep(s: AppState, t: TeachView): { kind: 'teach'; key: string; inputs: TeachInput[] } | { kind: 'map'; doc: Doc } | null {
+export function nextTeachStep(s: AppState, t: TeachView): { kind: 'teach'; key: string; inputs: TeachInput[] } | { kind: 'map'; doc: Doc } | { kind: 'prepare'; doc: Doc; key: string; windowsUm: number[] | null } | null {
   if (!s.view.teach.on || t.busy) return null;
   // not while a stroke is being painted
   if (s.docs.some((d) => d.history.drag)) return null;
@@ -73,6 +82,12 @@ export function nextTeachStep(s: AppState, t: TeachView): { kind: 'teach'; key: 
   }
   const doc = activeDoc(s);
   if (doc && t.model && scaleOf(doc).ok && t.maps[doc.id]?.sha256 !== t.model.sha256) return { kind: 'map', doc };
+  // nothing else to do: make the shown image ready, so that the strokes to come only cost the forest
+  if (doc && scaleOf(doc).ok) {
+    const windowsUm = t.model ? t.model.windowsUm : null;
+    const key = preparedKey(paramsOf(doc, s.series).scale, windowsUm);
+    if (t.prepared[doc.id] !== key) return { kind: 'prepare', doc, key, windowsUm };
+  }
   return null;
 }
 
@@ -121,6 +136,18 @@ export async function teachStep(ctx: TeachContext): Promise<boolean> {
     }
     return true;
   }
+  if (step.kind === 'prepare') {
+    ctx.setTeach((t) => ({ ...t, busy: 'preparing' }));
+    try {
+      await ctx.engine.request({ type: 'prepareTeach', docId: step.doc.id, scale: paramsOf(step.doc, ctx.get().series).scale, windowsUm: step.windowsUm });
+    } catch {
+      // not needed for anything: the class map makes the image ready itself (and reports what fails)
+    } finally {
+      ctx.setTeach((t) => ({ ...t, busy: null, prepared: { ...t.prepared, [step.doc.id]: step.key } }));
+      ctx.done();
+    }
+    return true;
+  }
   const t0 = ctx.getTeach();
   const model = t0.model;
   if (!model) return false;
@@ -130,10 +157,11 @@ export async function teachStep(ctx: TeachContext): Promise<boolean> {
     const { canvas, fractions } = classMapCanvas(m);
     ctx.setTeach((t) => {
       const totalMs = t.startedAt !== null && t.model?.origin === 'taught' && t.model.sha256 === model.sha256 ? Math.round(performance.now() - t.startedAt) : null;
-      return { ...t, busy: null, startedAt: null, error: null, maps: { ...t.maps, [step.doc.id]: { canvas, fractions, sha256: model.sha256, mapMs: m.ms, totalMs } } };
+      const key = preparedKey(paramsOf(step.doc, ctx.get().series).scale, model.windowsUm);
+      return { ...t, busy: null, startedAt: null, error: null, prepared: { ...t.prepared, [step.doc.id]: key }, maps: { ...t.maps, [step.doc.id]: { canvas, fractions, sha256: model.sha256, mapMs: m.ms, stride: m.stride, totalMs } } };
     });
   } catch (e) {
-    ctx.setTeach((t) => ({ ...t, busy: null, error: wordsOf(e), maps: { ...t.maps, [step.doc.id]: { canvas: document.createElement('canvas'), fractions: [0, 0, 0], sha256: model.sha256, mapMs: 0, totalMs: null } } }));
+    ctx.setTeach((t) => ({ ...t, busy: null, error: wordsOf(e), maps: { ...t.maps, [step.doc.id]: { canvas: document.createElement('canvas'), fractions: [0, 0, 0], sha256: model.sha256, mapMs: 0, stride: 0, totalMs: null } } }));
   } finally {
     ctx.done();
   }
@@ -170,7 +198,7 @@ export async function applyModelToAll(ctx: TeachContext, use: boolean): Promise<
   if (use && !m) return;
   const docId = ctx.get().activeId ?? ctx.get().docs[0]?.id;
   if (!docId) return;
-  ctx.update((s) => apply(s, docId, useModelForSeries(s.series, use && m ? { name: m.name, sha256: m.sha256 } : null), 'teach'));
+  ctx.update((s) => apply(s, docId, useModelForSeries(s.series, use && m ? { name: m.name, sha256: m.sha256, text: m.text } : null), 'teach'));
   for (const d of ctx.get().docs) {
     if (!scaleOf(d).ok) {
       ctx.update((s) => say(s, d.id, 'analysis', [{ level: 'warning', text: 'Not measured with the model: this image has no scale yet.' }]));

@@ -69,10 +69,11 @@ export interface LabelStroke {
   points: PointPx[];
 }
 
-/** A pixel model the series is measured with: its name (file or where it was taught) and file SHA-256 (the engine holds it). */
+/** A pixel model the series is measured with: its name (file or where it was taught), file SHA-256 and file text (the engine holds it loaded; sessions carry the text). */
 export interface ModelInUse {
   name: string;
   sha256: string;
+  text: string;
 }
 
 /** The result of a full run ("Find boundary"), the base every later result is recomputed from. */

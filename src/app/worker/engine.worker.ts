@@ -6,10 +6,8 @@
  */
 /// <reference lib="webworker" />
 import { analyseDecoded, computeFeature, decodeImage, detectScaleBar, encodeOverlayPng, isFractozoneError, recompute, resultOverlay, setCv, type DecodedImage, type GrayRaster, type MeasureParams, type MeasureResult, type PointPx } from '../../core/index.js';
-import { classMap, featureCentre, loadModel, MAX_GRID_POINTS, parseModel, predictProbabilities, serialiseModel, teachModel, type LoadedModel, type PixelModel, type ScaleParams } from '../../core/index.js';
+import { classMap, loadModel, MAX_GRID_POINTS, parseModel, predictProbabilities, prepareImage, serialiseModel, teachModel, type LoadedModel, type PixelModel, type PreparedImage, type ScaleParams } from '../../core/index.js';
 import { fitEllipseToPoints } from '../../core/segment/fit.js';
-import { calibrate } from '../../core/pipeline/stages/calibrate.js';
-import { WorkingFrame } from '../../core/pipeline/frame.js';
 import { rasteriseStrokes } from '../state/labels.js';
 import { asOpenCv, loadCvInWorker } from './loadCv.js';
 import type { ClassMapView, EngineReplies, ModelInfo, RecomputeReply, RequestMessage, RequestOf, RequestType, ResponseMessage, TextureMap } from './protocol.js';
@@ -40,8 +38,13 @@ const images = new Map<string, OpenImage>();
 /** Pixel models by the SHA-256 of their file text (taught here or read from a file). */
 const models = new Map<string, LoadedModel>();
 
-/** The working copy of each image for the class-map preview, for the scale it was made with. */
-const frames = new Map<string, { key: string; frame: WorkingFrame; umPerWorkPx: number }>();
+/**
+ * Each image made ready for teaching and class maps (core learn/prepared.ts), for the scale it was
+ * made with: working copy, centre, feature tables and the features of the class-map grid are made
+ * once per image (and window set), so a stroke costs the labelled pixels' features, the forest and
+ * its evaluation on the grid.
+ */
+const prepared = new Map<string, { key: string; image: PreparedImage }>();
 
 /** Forest evaluations of the preview (a coarser grid than `measure` uses, interpolated between). */
 const PREVIEW_GRID_POINTS = Math.round(MAX_GRID_POINTS / 4);
@@ -123,16 +126,13 @@ async function keepModel(model: PixelModel, text: string, t0: number, bytes = ne
   return { text, sha256, training: model.training, windowsUm: model.windowsUm, ms: Math.round(performance.now() - t0) };
 }
 
-function workingFrame(docId: string, scale: ScaleParams): { frame: WorkingFrame; umPerWorkPx: number } {
+function preparedImage(docId: string, scale: ScaleParams): PreparedImage {
   const key = JSON.stringify(scale);
-  const known = frames.get(docId);
-  if (known && known.key === key) return known;
-  const img = imageOf(docId);
-  const calibration = calibrate({ decoded: img.decoded, scale });
-  const frame = new WorkingFrame(img.decoded.raster, calibration.marks);
-  const entry = { key, frame, umPerWorkPx: calibration.scale.umPerPx * frame.lengthScale };
-  frames.set(docId, entry);
-  return entry;
+  const known = prepared.get(docId);
+  if (known && known.key === key) return known.image;
+  const image = prepareImage(imageOf(docId).decoded, scale);
+  prepared.set(docId, { key, image });
+  return image;
 }
 
 function modelOf(sha256: string): LoadedModel {
@@ -163,7 +163,7 @@ const handlers: Handlers = {
   },
   async close(msg) {
     images.delete(msg.docId);
-    frames.delete(msg.docId);
+    prepared.delete(msg.docId);
     return { value: null };
   },
   async detectBar(msg) {
@@ -203,7 +203,8 @@ const handlers: Handlers = {
       const img = imageOf(it.docId);
       const data = rasteriseStrokes(it.strokes, img.decoded.widthPx, img.decoded.heightPx);
       // no label file here: the SHA-256 of the label values (one byte per pixel, row-major)
-      teachImages.push({ decoded: img.decoded, labels: { width: img.decoded.widthPx, height: img.decoded.heightPx, data }, scale: it.scale, file: img.name, sha256: img.sha256, labelsSha256: await sha256Hex(data) });
+      const ready = preparedImage(it.docId, it.scale);
+      teachImages.push({ decoded: img.decoded, labels: { width: img.decoded.widthPx, height: img.decoded.heightPx, data }, scale: it.scale, file: img.name, sha256: img.sha256, labelsSha256: await sha256Hex(data), prepared: ready });
     }
     const { model } = teachModel(teachImages);
     return { value: await keepModel(model, serialiseModel(model), t0) };
@@ -223,11 +224,20 @@ const handlers: Handlers = {
     await ensureCv(msg.id);
     const t0 = performance.now();
     const loaded = modelOf(msg.sha256);
-    const { frame, umPerWorkPx } = workingFrame(msg.docId, msg.scale);
-    const p = predictProbabilities(frame.work, umPerWorkPx, loaded, featureCentre(frame), PREVIEW_GRID_POINTS);
+    const ready = preparedImage(msg.docId, msg.scale);
+    const { work } = ready.frame;
+    const grid = ready.grid(loaded.model.windowsUm, PREVIEW_GRID_POINTS);
+    const p = predictProbabilities(work, ready.umPerWorkPx, loaded, ready.centre, PREVIEW_GRID_POINTS, grid);
     const values = classMap(p);
     const value: ClassMapView = { width: p.width, height: p.height, values, stride: p.stride, ms: Math.round(performance.now() - t0) };
     return { value, transfer: [values.buffer] };
+  },
+  async prepareTeach(msg) {
+    await ensureCv(msg.id);
+    const t0 = performance.now();
+    const ready = preparedImage(msg.docId, msg.scale);
+    ready.grid(msg.windowsUm ?? ready.defaultWindowsUm, PREVIEW_GRID_POINTS);
+    return { value: { ms: Math.round(performance.now() - t0) } };
   },
 };
 

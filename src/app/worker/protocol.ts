@@ -79,7 +79,9 @@ export type EngineRequest =
   | { type: 'overlay'; docId: string; result: MeasureResult }
   | { type: 'teach'; images: TeachInput[] }
   | { type: 'loadModel'; bytes: ArrayBuffer }
-  | { type: 'classMap'; docId: string; scale: ScaleParams; sha256: string };
+  | { type: 'classMap'; docId: string; scale: ScaleParams; sha256: string }
+  /** Makes an image ready for teach mode ahead of the strokes (working copy, feature tables, the class-map grid's features; `windowsUm` null: the image's default windows). */
+  | { type: 'prepareTeach'; docId: string; scale: ScaleParams; windowsUm: number[] | null };
 
 export interface EngineReplies {
   init: { selfTestPassed: boolean };
@@ -94,6 +96,7 @@ export interface EngineReplies {
   teach: ModelInfo;
   loadModel: ModelInfo;
   classMap: ClassMapView;
+  prepareTeach: { ms: number };
 }
 
 export type RequestType = EngineRequest['type'];

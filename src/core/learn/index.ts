@@ -7,7 +7,10 @@
  * - Teach: `teachModel(images, options)` → the sealed model; `serialiseModel` / `parseModel` for the
  *   file `fractozone.model/1`; `loadModel(model, sha256)` unpacks it for use.
  * - Preview: `predictProbabilities(frame.work, µm per working px, loaded, featureCentre(frame))` →
- *   class probabilities at working resolution; `classMap` → 1/2/3 per working pixel.
+ *   class probabilities at working resolution; `classMap` → 1/2/3 per working pixel. A caller that
+ *   works on one image repeatedly keeps `prepareImage(decoded, scale)` (working copy, centre, feature
+ *   tables, the class-map grid's features) and passes it to `teachModel` (`prepared`) and
+ *   `predictProbabilities` (`grid`): only the labelled pixels' features and the forest are new.
  * - Measure: `analyseDecoded(decoded, input, { ...params, modelSha256: loaded.sha256 }, onProgress,
  *   { model: loaded })`; the result's `model` block holds the SHA-256 and the confidence.
  */
@@ -16,5 +19,6 @@ export { strokeLabels, type StrokeGeometry, type StrokeOptions } from './strokes
 export { teachModel, TEACH_DEFAULTS, type TeachImage, type TeachOptions, type Teaching } from './train.js';
 export { MODEL_SCHEMA, parseModel, serialiseModel, type PixelModel, type ModelTraining, type ModelTrainingImage } from './model.js';
 export { PIXEL_FEATURE_SET, featureCentre, pixelFeatureNames } from './features.js';
-export { MAX_GRID_POINTS, classMap, loadModel, predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
+export { MAX_GRID_POINTS, classMap, gridFeatures, loadModel, predictProbabilities, type ClassProbabilities, type GridFeatures, type LoadedModel } from './predict.js';
+export { prepareImage, windowsKey, type PreparedImage } from './prepared.js';
 export { MIN_MODEL_CONFIDENCE, type ModelConfidence } from './segment.js';

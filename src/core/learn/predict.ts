@@ -98,6 +98,39 @@ function upsampleRow(grid: Float32Array, r0: number, r1: number, ty: number, xs:
   }
 }
 
+/** Grid spacing (px) for at most `maxGridPoints` forest evaluations on a W × H working copy. */
+export function gridStride(W: number, H: number, maxGridPoints: number): number {
+  return Math.max(1, Math.ceil(Math.sqrt((W * H) / maxGridPoints)));
+}
+
+/**
+ * The feature vectors of every point of the grid {@link predictProbabilities} evaluates on (stride
+ * {@link gridStride}, the last row and column included), computed once: a caller that shows class
+ * maps of several models on one image (the app's teach mode) passes it back as `grid` and only the
+ * forest runs.
+ */
+export interface GridFeatures {
+  width: number;
+  height: number;
+  stride: number;
+  nFeatures: number;
+  /** Features of grid point j·gw + i (row-major over the grid), nFeatures each. */
+  X: Float32Array;
+}
+
+/** Features of every grid point of a W × H working copy (see {@link GridFeatures}). */
+export function gridFeatures(W: number, H: number, sampler: FeatureSampler, maxGridPoints = MAX_GRID_POINTS): GridFeatures {
+  const stride = gridStride(W, H, maxGridPoints);
+  const gx = gridAxis(W, stride);
+  const gy = gridAxis(H, stride);
+  const at = new Int32Array(gx.length * gy.length);
+  for (let j = 0, k = 0; j < gy.length; j++) for (let i = 0; i < gx.length; i++, k++) at[k] = gy[j] * W + gx[i];
+  return { width: W, height: H, stride, nFeatures: sampler.nFeatures, X: sampler.at(at) };
+}
+
+/** Features at grid points (indices into the gw-wide grid, ascending). */
+type GridSource = (g: Int32Array) => Float32Array;
+
 /**
  * Class probabilities of every working-copy pixel.
  *
@@ -106,23 +139,37 @@ function upsampleRow(grid: Float32Array, r0: number, r1: number, ty: number, xs:
  * @param loaded - the model
  * @param center - the specimen centre for the radiality feature, working px (learn/features.ts `featureCentre`)
  * @param maxGridPoints - forest evaluations above which the grid is thinned (default {@link MAX_GRID_POINTS})
+ * @param grid - the grid's features computed before ({@link gridFeatures} with the same working copy,
+ *   model windows, centre and `maxGridPoints`); without it they are computed here at the points evaluated
  */
-export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, loaded: LoadedModel, center: PointPx, maxGridPoints = MAX_GRID_POINTS): ClassProbabilities {
+export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, loaded: LoadedModel, center: PointPx, maxGridPoints = MAX_GRID_POINTS, grid?: GridFeatures): ClassProbabilities {
   const { width: W, height: H } = work;
-  const stride = Math.max(1, Math.ceil(Math.sqrt((W * H) / maxGridPoints)));
+  const stride = gridStride(W, H, maxGridPoints);
   const gx = gridAxis(W, stride);
   const gy = gridAxis(H, stride);
   const gw = gx.length;
   const gh = gy.length;
   const C = loaded.forest.nClasses;
   const planes = Array.from({ length: C }, () => new Float32Array(gw * gh));
-  const sampler = featureSampler(work, umPerWorkPx, loaded.model.windowsUm, center);
+  let source: GridSource;
+  if (grid) {
+    if (grid.width !== W || grid.height !== H || grid.stride !== stride || grid.nFeatures !== loaded.forest.nFeatures) throw new Error('predictProbabilities: the grid features were made for another image, grid or feature set');
+    const F = grid.nFeatures;
+    source = (g) => {
+      const out = new Float32Array(g.length * F);
+      for (let n = 0; n < g.length; n++) out.set(grid.X.subarray(g[n] * F, (g[n] + 1) * F), n * F);
+      return out;
+    };
+  } else {
+    const sampler = featureSampler(work, umPerWorkPx, loaded.model.windowsUm, center);
+    source = (g) => sampler.at(Int32Array.from(g, (k) => gy[Math.floor(k / gw)] * W + gx[k % gw]));
+  }
   // pass 1: every other grid point along both axes (and the last ones)
   const cx = gridAxis(gw, 2);
   const cy = gridAxis(gh, 2);
   const coarse = new Int32Array(cx.length * cy.length);
   for (let j = 0; j < cy.length; j++) for (let i = 0; i < cx.length; i++) coarse[j * cx.length + i] = cy[j] * gw + cx[i];
-  let evaluated = evaluate(loaded.forest, sampler, coarse, gx, gw, gy, W, planes);
+  let evaluated = evaluate(loaded.forest, source, coarse, planes);
   // pass 2: the grid points between them, where the four around disagree or are unsure
   const top = new Int8Array(gw * gh).fill(-1); // settled class of an evaluated point, −1 unsure
   for (const g of coarse) {
@@ -155,19 +202,18 @@ export function predictProbabilities(work: GrayRaster, umPerWorkPx: number, load
       for (const p of planes) p[g] = (p[a] * (1 - tx) + p[b] * tx) * (1 - ty) + (p[c] * (1 - tx) + p[d] * tx) * ty;
     }
   }
-  evaluated += evaluate(loaded.forest, sampler, Int32Array.from(rest), gx, gw, gy, W, planes);
+  evaluated += evaluate(loaded.forest, source, Int32Array.from(rest), planes);
   const px = axisWeights(gx, W);
   const py = axisWeights(gy, H);
   const [outside, rim, core] = planes.map((g) => (stride === 1 ? g : upsample(g, gw, gh, px, py, W, H)));
   return { width: W, height: H, outside, rim, core, stride, evaluated };
 }
 
-/** Features and forest at grid points `g` (indices into the gw-wide grid), written into `planes`; returns their number. */
-function evaluate(forest: Forest, sampler: FeatureSampler, g: Int32Array, gx: Int32Array, gw: number, gy: Int32Array, W: number, planes: Float32Array[]): number {
+/** Features and forest at grid points `g` (indices into the grid, ascending), written into `planes`; returns their number. */
+function evaluate(forest: Forest, source: GridSource, g: Int32Array, planes: Float32Array[]): number {
   if (!g.length) return 0;
-  const at = Int32Array.from(g, (k) => gy[Math.floor(k / gw)] * W + gx[k % gw]);
   const out = planes.map(() => new Float32Array(g.length));
-  predictMany(forest, sampler.at(at), out);
+  predictMany(forest, source(g), out);
   for (let c = 0; c < planes.length; c++) {
     const p = planes[c];
     const o = out[c];

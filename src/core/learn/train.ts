@@ -10,13 +10,11 @@
  */
 import type { DecodedImage } from '../decode/types.js';
 import { FractozoneError } from '../errors.js';
-import { WorkingFrame } from '../pipeline/frame.js';
-import { calibrate } from '../pipeline/stages/calibrate.js';
+import type { WorkingFrame } from '../pipeline/frame.js';
 import type { ScaleParams } from '../pipeline/types.js';
 import { createRng } from '../random.js';
-import { defaultWindowUm } from '../texture/window.js';
-import type { PointPx } from '../image/geometry.js';
-import { featureCentre, PIXEL_FEATURE_SET, pixelFeatureNames, pixelFeaturesAt } from './features.js';
+import { PIXEL_FEATURE_SET, pixelFeatureNames } from './features.js';
+import { prepareImage, type PreparedImage } from './prepared.js';
 import { trainForest } from './forest.js';
 import { CLASS_NAMES, checkLabels, countLabels, forEachLabelled, type ClassCounts, type LabelRaster } from './labels.js';
 import { forestRecord, sealModel, type ModelTrainingImage, type PixelModel } from './model.js';
@@ -31,6 +29,11 @@ export interface TeachImage {
   file: string;
   sha256: string;
   labelsSha256: string;
+  /**
+   * The image made ready before (learn/prepared.ts, with this `decoded` and `scale`): its working
+   * copy, centre and feature tables are used instead of being made again.
+   */
+  prepared?: PreparedImage;
 }
 
 /** Options of {@link teachModel}; every field has a default ({@link TEACH_DEFAULTS}). */
@@ -83,11 +86,6 @@ function workingLabels(labels: LabelRaster, frame: WorkingFrame): WorkingLabels 
   return { index: Int32Array.from(idx), cls: Uint8Array.from(cls) };
 }
 
-function defaultWindows(frame: WorkingFrame, umPerPx: number): number[] {
-  const base = defaultWindowUm({ umPerPx, imageWidthPx: frame.full.width, imageHeightPx: frame.full.height, scaleFactor: frame.factor });
-  return [0.5, 1, 2].map((k) => Math.round(base * k * 10) / 10);
-}
-
 /** A class without any labelled pixel stops the teaching. */
 function checkClasses(counts: ClassCounts, where: string): void {
   for (const [k, c] of CLASS_NAMES.entries()) {
@@ -95,27 +93,19 @@ function checkClasses(counts: ClassCounts, where: string): void {
   }
 }
 
-/** Per-image part of teaching: the frame, the labelled working pixels and what the features need. */
+/** Per-image part of teaching: the prepared image, the labelled working pixels and the record. */
 interface ImageContext {
-  frame: WorkingFrame;
-  umPerWorkPx: number;
-  centre: PointPx;
+  prepared: PreparedImage;
   labels: WorkingLabels;
   record: ModelTrainingImage;
 }
 
-function imageContext(img: TeachImage, counts: ClassCounts): { ctx: ImageContext; defaultWindowsUm: number[] } {
-  const calibration = calibrate({ decoded: img.decoded, scale: img.scale });
-  const frame = new WorkingFrame(img.decoded.raster, calibration.marks);
+function imageContext(img: TeachImage, counts: ClassCounts): ImageContext {
+  const prepared = img.prepared ?? prepareImage(img.decoded, img.scale);
   return {
-    ctx: {
-      frame,
-      umPerWorkPx: calibration.scale.umPerPx * frame.lengthScale,
-      centre: featureCentre(frame),
-      labels: workingLabels(img.labels, frame),
-      record: { file: img.file, sha256: img.sha256, labelsSha256: img.labelsSha256, umPerPx: calibration.scale.umPerPx, labelledPixels: counts },
-    },
-    defaultWindowsUm: defaultWindows(frame, calibration.scale.umPerPx),
+    prepared,
+    labels: workingLabels(img.labels, prepared.frame),
+    record: { file: img.file, sha256: img.sha256, labelsSha256: img.labelsSha256, umPerPx: prepared.umPerPx, labelledPixels: counts },
   };
 }
 
@@ -149,8 +139,8 @@ export function teachModel(images: readonly TeachImage[], options: TeachOptions 
   checkClasses(toCounts(total), images.length > 1 ? 'in any label image' : 'in the label image');
   // the windows come from the first image unless given
   const contexts = images.map((img, i) => {
-    const { ctx, defaultWindowsUm } = imageContext(img, counts[i]);
-    windowsUm ??= defaultWindowsUm;
+    const ctx = imageContext(img, counts[i]);
+    windowsUm ??= ctx.prepared.defaultWindowsUm;
     return ctx;
   });
   const windows = windowsUm as number[];
@@ -164,7 +154,7 @@ export function teachModel(images: readonly TeachImage[], options: TeachOptions 
     for (let j = 0; j < chosen.image.length; j++) if (chosen.image[j] === k) rows.push(j);
     if (!rows.length) continue;
     const order = rows.slice().sort((a, b) => chosen.pixel[a] - chosen.pixel[b]);
-    const f = pixelFeaturesAt(ctx.frame.work, ctx.umPerWorkPx, windows, ctx.centre, Int32Array.from(order, (j) => chosen.pixel[j]));
+    const f = ctx.prepared.sampler(windows).at(Int32Array.from(order, (j) => chosen.pixel[j]));
     order.forEach((j, r) => X.set(f.subarray(r * F, (r + 1) * F), j * F));
   }
   const tFeatures = performance.now();

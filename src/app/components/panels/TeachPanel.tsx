@@ -46,8 +46,12 @@ export function TeachPanel({ state, doc, update, flows }: { state: AppState; doc
   if (unscaled.length > 0) status = `Set the scale of ${unscaled.join(', ')} first: the model learns sizes in µm.`;
   else if (t.busy === 'teaching') status = 'Teaching…';
   else if (t.busy === 'mapping') status = 'Computing the class map…';
+  else if (t.busy === 'preparing') status = 'Preparing the image for teaching (working copy and features)…';
   else if (on && missing.length > 0 && !t.model) status = `Paint a few strokes of each class: ${missing.map((c) => LABEL_NAMES[c].toLowerCase()).join(', ')} still missing.`;
-  else if (map && map.sha256 === t.model?.sha256) status = `Class map shown${map.totalMs !== null ? ` (${secs(map.totalMs)} from the stroke, class map ${secs(map.mapMs)})` : ` (${secs(map.mapMs)})`}.`;
+  else if (map && map.sha256 === t.model?.sha256) {
+    const grid = map.stride > 1 ? `; a preview: the model is evaluated at points ${map.stride} px apart on the ${map.canvas.width} × ${map.canvas.height} working copy and interpolated between — measuring evaluates it more finely` : '';
+    status = `Class map shown (${map.totalMs !== null ? `${secs(map.totalMs)} from the stroke, class map ${secs(map.mapMs)}` : secs(map.mapMs)}${grid}).`;
+  }
   else status = on ? '' : 'Paint what outside, rim band and core look like; a model learns them and can measure the whole series.';
   return (
     <section data-testid="teach-panel">
@@ -72,7 +76,7 @@ export function TeachPanel({ state, doc, update, flows }: { state: AppState; doc
       )}
       {t.model && (
         <>
-          <p className="hint" data-testid="model-shown" data-sha256={t.model.sha256} data-map-ms={map?.mapMs ?? ''} data-total-ms={map?.totalMs ?? ''} data-fractions={map ? map.fractions.map((f) => f.toFixed(4)).join(' ') : ''}>
+          <p className="hint" data-testid="model-shown" data-sha256={t.model.sha256} data-map-ms={map?.mapMs ?? ''} data-map-sha256={map?.sha256 ?? ''} data-map-stride={map?.stride ?? ''} data-total-ms={map?.totalMs ?? ''} data-fractions={map ? map.fractions.map((f) => f.toFixed(4)).join(' ') : ''}>
             Model {t.model.name}: out-of-bag accuracy {num(100 * t.model.training.oobAccuracy, 3)} %, {t.model.training.nTrees} trees, windows{' '}
             {t.model.windowsUm.map((w) => num(w, 3)).join(' / ')} µm; SHA-256 {t.model.sha256.slice(0, 12)}…
           </p>
