@@ -88,13 +88,29 @@ describe('section diameter: prior and cross-check of the scale', () => {
   });
 });
 
-describe('no silent wrong outline', () => {
-  it('holder-putty-b: no closed edge found → the silhouette, with OUTLINE_FROM_SILHOUETTE and a verdict that is not ok', async () => {
-    const { r } = await renderedScene('holder-putty-b');
-    expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_FROM_SILHOUETTE');
-    expect(r.quality.verdict).not.toBe('ok');
-  });
+describe('specimen in a holder: the edge is found on circles when the silhouette is merged with the holder or a shadow', () => {
+  for (const name of ['holder-putty-b', 'holder-clamp']) {
+    it(`${name} (our renderer): outline within 1 % of the notch root, band within 2 %, no silhouette fallback`, async () => {
+      const { r, radiusPx, meanUm } = await renderedScene(name);
+      expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(1);
+      expect(r.band.detected).toBe(true);
+      expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(2);
+      expect(r.specimen.edgeSearch!.rule).toMatch(/\(circles/);
+      expect(r.warnings.map((w) => w.code)).not.toContain('OUTLINE_FROM_SILHOUETTE');
+    });
+  }
 
+  for (const file of ['putty.jpg', 'clamp.png']) {
+    it(`${file} (independent generator): outline within 1 %, band within 2 %`, async () => {
+      const { r, radiusPx, meanUm } = await externalScene(file);
+      expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(1);
+      expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(2);
+      expect(r.warnings.map((w) => w.code)).not.toContain('OUTLINE_FROM_SILHOUETTE');
+    });
+  }
+});
+
+describe('no silent wrong outline', () => {
   it('shadow_left.jpg (independent generator): an edge not confirmed by what lies outside it is flagged OUTLINE_AMBIGUOUS, verdict not ok', async () => {
     const { r } = await externalScene('shadow_left.jpg');
     expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_AMBIGUOUS');
