@@ -72,6 +72,15 @@ function isCoreEdge(r: Ring, coreRoughness: number): boolean {
   return r.coverage >= 0.5 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.8 && !(r.inner.roughness < coreRoughness - 0.6) && !machined(r.inner);
 }
 
+/**
+ * A partial core edge: roughness drops outward across it by ≥ 0.5 on ≥ 30 % of the rays, from about
+ * the core's level, no machined ring inside (sem-strip-noise-flank: the rim/core boundary under heavy
+ * noise, 36 % of the rays, step −0.59).
+ */
+function isWeakCoreEdge(r: Ring, coreRoughness: number): boolean {
+  return r.coverage >= 0.3 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.5 && !(r.inner.roughness < coreRoughness - 0.6) && !machined(r.inner);
+}
+
 /** Options of {@link findFractureEdge}. */
 export interface FractureEdgeOptions {
   /** Silhouette of the part (working px). */
@@ -191,27 +200,33 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
     // walk outward from the core edge (else the innermost clear ring) to the first ring beyond which
     // the surface is not fracture surface: a machined flank or the background; at most one step
     // across a rim band from the core edge, two without one
-    const start = core >= 0 ? core : rings.findIndex(counts);
+    // Without a core edge, a partial one inside the innermost clear ring (see isWeakCoreEdge: heavy
+    // noise flattens the roughness step) still says that ring is the first edge outside the core.
+    const firstClear = rings.findIndex(counts);
+    const weak = core < 0 && firstClear > 0 ? rings.findIndex((r, k) => k < firstClear && isWeakCoreEdge(r, coreRoughness)) : -1;
+    if (weak >= 0) verdicts[weak].note = 'roughness drops outward across it on part of the circumference: a partial rim/core boundary';
+    const from = core >= 0 ? core : weak;
+    const start = core >= 0 ? core : weak >= 0 ? weak : firstClear;
     let i = start;
     let steps = 0;
     while (i >= 0) {
       const r = rings[i];
-      const strong = i === core ? (r.outer.widthPx >= 6 && r.outer.radialShare >= 0.8) || r.outer.inSilhouette < 0.3 : machined(r.outer) || r.outer.inSilhouette < 0.5;
+      const strong = i === weak ? false : i === core ? (r.outer.widthPx >= 6 && r.outer.radialShare >= 0.8) || r.outer.inSilhouette < 0.3 : machined(r.outer) || r.outer.inSilhouette < 0.5;
       if (strong) {
         chosen = i;
         confirmed = true;
         break;
       }
       const next = rings.findIndex((q, k) => k > i && counts(q));
-      if (next < 0 || steps >= (core >= 0 ? 1 : 2)) {
-        if (i !== core) chosen = i;
+      if (next < 0 || steps >= (from >= 0 ? 1 : 2)) {
+        if (i !== from) chosen = i;
         break;
       }
       i = next;
       steps++;
     }
-    stepped = steps > 0;
-    if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
+    stepped = weak >= 0 ? steps > 1 : steps > 0;
+    if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : weak >= 0 ? 'first-edge-outside-partial-core-edge' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
   }
   let ambiguous = false;
   let innerRoundEdge = false;
@@ -241,6 +256,8 @@ function noteFor(rule: string, r: Ring): string {
       return `the rough core reaches this edge (no band); ${outside}`;
     case 'first-edge-outside-core':
       return `first closed edge outside the rough core, the rim band between; ${outside}`;
+    case 'first-edge-outside-partial-core-edge':
+      return `first closed edge outside a partial rim/core boundary, the rim band between; ${outside}`;
     default:
       return `innermost closed round edge; ${outside}`;
   }

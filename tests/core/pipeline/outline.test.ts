@@ -63,6 +63,17 @@ describe('outline on the notch root with a visible notch flank', () => {
   });
 });
 
+describe('SEM flank under heavy noise', () => {
+  it('sem-strip-noise-flank: a partial rim/core boundary inside the root edge stops the walk there (not the bar edge): outline within 1 %, band within 4 %, flagged ambiguous', async () => {
+    const { r, radiusPx, meanUm } = await renderedScene('sem-strip-noise-flank');
+    expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(1);
+    expect(r.band.detected).toBe(true);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(4);
+    expect(r.specimen.edgeSearch!.rule).toBe('first-edge-outside-partial-core-edge');
+    expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_AMBIGUOUS');
+  });
+});
+
 describe('tidy pictures keep the silhouette outline', () => {
   it('plain: the chosen edge follows the silhouette, which stays the outline', async () => {
     const { r, radiusPx } = await renderedScene('plain');
