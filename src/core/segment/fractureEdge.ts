@@ -124,7 +124,10 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
   const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
   // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
   const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
-  const shape = { center, ratio: offCentre || !(ratio > 0.3) ? 1 : ratio, angleDeg: offCentre ? 0 : -sil.ellipse.angleDeg };
+  // a nearly round ellipse of a silhouette that is not clean (noise or a holder attached) is taken
+  // for a circle: its few per cent of flattening are the attachment's, and they bend the grid (sem)
+  const round = offCentre || !(ratio > 0.3) || (!silGood && ratio > 0.95);
+  const shape = { center, ratio: round ? 1 : ratio, angleDeg: round ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
   const rMax = t ? 0.75 * tSize : Math.max(1.3 * R, 0.5 * Math.max(W, H));
   const rMin = 0.15 * Math.min(R, minSide / 2);
