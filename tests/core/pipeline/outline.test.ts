@@ -74,6 +74,22 @@ describe('SEM flank under heavy noise', () => {
   });
 });
 
+describe('SEM scan lines and edge glow', () => {
+  it('sem-strip-noise: scan lines removed before the texture, band within 4 % (was −9.9 %)', async () => {
+    const { r, meanUm } = await renderedScene('sem-strip-noise');
+    expect(r.warnings.map((w) => w.code)).toContain('SCAN_LINES_REMOVED');
+    expect(r.band.detected).toBe(true);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(4);
+  });
+
+  it('sem: the band is detected despite the edge glow (was not detected), within 4 %, outline within 0.5 %', async () => {
+    const { r, radiusPx, meanUm } = await renderedScene('sem');
+    expect(r.band.detected).toBe(true);
+    expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(0.5);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(4);
+  });
+});
+
 describe('tidy pictures keep the silhouette outline', () => {
   it('plain: the chosen edge follows the silhouette, which stays the outline', async () => {
     const { r, radiusPx } = await renderedScene('plain');
