@@ -28,6 +28,7 @@ import { edgeCues, type EdgeCues } from './polar.js';
 import { oncePerRaster } from './memo.js';
 import { findRings, voteCentre, type Ring } from './rings.js';
 import type { Specimen } from './specimen.js';
+import { fitCircle } from './fit.js';
 
 /** Edge cues per working copy (memo.ts). */
 const CUES = new WeakMap<GrayRaster, Map<string, EdgeCues>>();
@@ -66,9 +67,18 @@ function machined(a: Ring['outer']): boolean {
   return a.widthPx >= 8 && (a.radialShare >= MACHINED_RADIAL || a.concentricity >= MACHINED_CONCENTRIC);
 }
 
-/** Roughness drops outward across it, from about the core's own level (not from a smooth band). */
+/** Roughness drops outward across it, from about the core's own level (not from a smooth band, nor from a machined flank inside it). */
 function isCoreEdge(r: Ring, coreRoughness: number): boolean {
-  return r.coverage >= 0.5 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.8 && !(r.inner.roughness < coreRoughness - 0.6);
+  return r.coverage >= 0.5 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.8 && !(r.inner.roughness < coreRoughness - 0.6) && !machined(r.inner);
+}
+
+/**
+ * A partial core edge: roughness drops outward across it by ≥ 0.5 on ≥ 30 % of the rays, from about
+ * the core's level, no machined ring inside (sem-strip-noise-flank: the rim/core boundary under heavy
+ * noise, 36 % of the rays, step −0.59).
+ */
+function isWeakCoreEdge(r: Ring, coreRoughness: number): boolean {
+  return r.coverage >= 0.3 && r.prominence > 0 && r.inner.widthPx >= 4 && r.roughnessStep <= -0.5 && !(r.inner.roughness < coreRoughness - 0.6) && !machined(r.inner);
 }
 
 /** Options of {@link findFractureEdge}. */
@@ -114,11 +124,59 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
   const ratio = sil.ellipse.semiMajorPx > 0 ? Math.min(1, sil.ellipse.semiMinorPx / sil.ellipse.semiMajorPx) : 1;
   // a silhouette far off the voted centre (a holder or shadow merged with it) says nothing of the shape
   const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
-  const shape = { center, ratio: offCentre || !(ratio > 0.3) ? 1 : ratio, angleDeg: offCentre ? 0 : -sil.ellipse.angleDeg };
+  // a nearly round ellipse of a silhouette that is not clean (noise or a holder attached) is taken
+  // for a circle: its few per cent of flattening are the attachment's, and they bend the grid (sem)
+  const round = offCentre || !(ratio > 0.3) || (!silGood && ratio > 0.95);
+  const shape = { center, ratio: round ? 1 : ratio, angleDeg: round ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
   const rMax = t ? 0.75 * tSize : Math.max(1.3 * R, 0.5 * Math.max(W, H));
-  const search = findRings(cues, shape, { rMin: 0.15 * Math.min(R, minSide / 2), rMax, silhouette: offCentre ? null : sil.mask });
-  return choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
+  const rMin = 0.15 * Math.min(R, minSide / 2);
+  const search = findRings(cues, shape, { rMin, rMax, silhouette: offCentre ? null : sil.mask });
+  const first = choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
+  if (first.chosen) return first;
+  // No closed edge on the first grid: the silhouette that shaped it may be merged with a holder or a
+  // shadow (its ellipse then bends the grid), or a shadow pulled the centre vote off the edge. Look
+  // again on circles around the voted centre, then around the circle through the covered arcs of
+  // the clearest partial edge found so far; the silhouette is left out of these passes.
+  let rings = search.rings;
+  let last: PointPx | null = shape.ratio === 1 && shape.angleDeg === 0 && shape.center === center ? center : null;
+  for (let pass = 0; pass < 3; pass++) {
+    const c = pass === 0 && !last ? center : arcCentre(rings, W, H);
+    if (!c || (last && Math.hypot(c.x - last.x, c.y - last.y) < 1)) {
+      if (pass === 0 && last) continue;
+      break;
+    }
+    const again = findRings(cues, { center: c, ratio: 1, angleDeg: 0 }, { rMin, rMax, silhouette: null });
+    const found = choose(again.rings, c, o.sectionRadiusPx, again.coreRoughness);
+    if (found.chosen) return { ...found, rule: `${found.rule} (circles${c === center ? '' : ' through the covered arcs'})` };
+    rings = again.rings;
+    last = c;
+  }
+  return first;
+}
+
+/**
+ * Centre of the circle through the covered arcs of the clearest partial edge (coverage ≥ 0.25, the
+ * largest coverage × prominence), when those arcs lie in at least two quadrants (a quarter circle
+ * leaves the centre poorly determined) and the circle stays within 10 % of the edge's radius; null
+ * otherwise.
+ */
+function arcCentre(rings: Ring[], W: number, H: number): PointPx | null {
+  let best: Ring | null = null;
+  for (const r of rings) if (r.coverage >= 0.25 && r.prominence > 0 && (!best || r.coverage * r.prominence > best.coverage * best.prominence)) best = r;
+  if (!best) return null;
+  const n = best.covered.length;
+  const pts: PointPx[] = [];
+  const quadrants = new Set<number>();
+  for (let t = 0; t < n; t++) {
+    if (!best.covered[t]) continue;
+    pts.push(best.points[t]);
+    quadrants.add(Math.floor((4 * t) / n));
+  }
+  if (quadrants.size < 2 || pts.length < 16) return null;
+  const c = fitCircle(pts);
+  if (!c || !(c.cx >= 0 && c.cy >= 0 && c.cx < W && c.cy < H) || Math.abs(c.radiusPx - best.radiusPx) > 0.1 * best.radiusPx) return null;
+  return { x: c.cx, y: c.cy };
 }
 
 function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, coreRoughness: number): FractureEdge {
@@ -145,27 +203,33 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
     // walk outward from the core edge (else the innermost clear ring) to the first ring beyond which
     // the surface is not fracture surface: a machined flank or the background; at most one step
     // across a rim band from the core edge, two without one
-    const start = core >= 0 ? core : rings.findIndex(counts);
+    // Without a core edge, a partial one inside the innermost clear ring (see isWeakCoreEdge: heavy
+    // noise flattens the roughness step) still says that ring is the first edge outside the core.
+    const firstClear = rings.findIndex(counts);
+    const weak = core < 0 && firstClear > 0 ? rings.findIndex((r, k) => k < firstClear && isWeakCoreEdge(r, coreRoughness)) : -1;
+    if (weak >= 0) verdicts[weak].note = 'roughness drops outward across it on part of the circumference: a partial rim/core boundary';
+    const from = core >= 0 ? core : weak;
+    const start = core >= 0 ? core : weak >= 0 ? weak : firstClear;
     let i = start;
     let steps = 0;
     while (i >= 0) {
       const r = rings[i];
-      const strong = i === core ? (r.outer.widthPx >= 6 && r.outer.radialShare >= 0.8) || r.outer.inSilhouette < 0.3 : machined(r.outer) || r.outer.inSilhouette < 0.5;
+      const strong = i === weak ? false : i === core ? (r.outer.widthPx >= 6 && r.outer.radialShare >= 0.8) || r.outer.inSilhouette < 0.3 : machined(r.outer) || r.outer.inSilhouette < 0.5;
       if (strong) {
         chosen = i;
         confirmed = true;
         break;
       }
       const next = rings.findIndex((q, k) => k > i && counts(q));
-      if (next < 0 || steps >= (core >= 0 ? 1 : 2)) {
-        if (i !== core) chosen = i;
+      if (next < 0 || steps >= (from >= 0 ? 1 : 2)) {
+        if (i !== from) chosen = i;
         break;
       }
       i = next;
       steps++;
     }
-    stepped = steps > 0;
-    if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
+    stepped = weak >= 0 ? steps > 1 : steps > 0;
+    if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : weak >= 0 ? 'first-edge-outside-partial-core-edge' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
   }
   let ambiguous = false;
   let innerRoundEdge = false;
@@ -195,6 +259,8 @@ function noteFor(rule: string, r: Ring): string {
       return `the rough core reaches this edge (no band); ${outside}`;
     case 'first-edge-outside-core':
       return `first closed edge outside the rough core, the rim band between; ${outside}`;
+    case 'first-edge-outside-partial-core-edge':
+      return `first closed edge outside a partial rim/core boundary, the rim band between; ${outside}`;
     default:
       return `innermost closed round edge; ${outside}`;
   }

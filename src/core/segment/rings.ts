@@ -39,6 +39,8 @@ export interface Ring {
   /** Points of the path, working px, one per ray. */
   points: PointPx[];
   coverage: number;
+  /** 1 on the rays where the path is a clear local maximum of the edge strength (the covered arcs). */
+  covered: Uint8Array;
   prominence: number;
   roundnessPx: number;
   /** Signed mean steps across the edge (outside − inside): intensity and roughness. */
@@ -342,6 +344,7 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
   let sumRadius = 0;
   const points: PointPx[] = [];
   let covered = 0;
+  const coveredRays = new Uint8Array(nTheta);
   let strength = 0;
   let around = 0;
   let di = 0;
@@ -363,7 +366,10 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
       if (j + d < nR) mx = Math.max(mx, e[k + d]);
       if (j - d >= 0) mx = Math.max(mx, e[k - d]);
     }
-    if (e[k] > 2 * noise && e[k] >= mx) covered++;
+    if (e[k] > 2 * noise && e[k] >= mx) {
+      covered++;
+      coveredRays[t] = 1;
+    }
     around += mx;
     if (j - sR >= 0 && j + sR < nR && p.inside[k + sR] && p.inside[k - sR]) {
       di += p.intensity[k + sI] - p.intensity[k - sI];
@@ -383,6 +389,7 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
     path,
     points,
     coverage: nTheta ? covered / nTheta : 0,
+    covered: coveredRays,
     prominence: nInside ? (strength - around) / nInside / Math.max(noise, 1e-6) : 0,
     roundnessPx: fit ? fit.rmsResidualPx : Infinity,
     intensityStep: nInside ? di / nInside : 0,

@@ -9,6 +9,8 @@
 import type { Scale } from '../../calibrate/index.js';
 import type { GrayRaster } from '../../image/raster.js';
 import { suppressGlints } from '../../segment/index.js';
+import { oncePerRaster } from '../../segment/memo.js';
+import { removeScanLines, type ScanLineRemoval } from '../../segment/scanLines.js';
 import { buildRayIndex, castRay } from '../../measure/geometry.js';
 import { medianOf } from '../../measure/statistics.js';
 import type { FeatureName } from '../../texture/index.js';
@@ -83,14 +85,19 @@ export function medianBandWidthPx(outer: readonly { x: number; y: number }[], bo
  * result then says so (`FINER_WINDOW_USED`) and reports the finer window.
  */
 export function findRimBoundary(input: BandInput): BandFinding {
-  const glints = suppressGlints(input.frame.work, input.location.specimen.mask);
+  // scan lines of an SEM image out first (once per working copy: both halves share it), then glints
+  const lines = oncePerRaster(SCAN_LINES, input.frame.work, '', () => removeScanLines(input.frame.work));
+  const glints = suppressGlints(lines.raster, input.location.specimen.mask);
   const source = glints.raster;
-  const glintWarnings = glints.fraction > 0
-    ? [warn('GLINTS_SUPPRESSED', `bright specks (glints) on ${(100 * glints.fraction).toFixed(1)} % of the specimen were replaced by their surroundings before the texture was measured`)]
-    : [];
+  const before: Warning[] = [];
+  if (lines.removed) before.push(warn('SCAN_LINES_REMOVED', `scan-line noise was found (line offsets ${lines.ratio.toFixed(0)}× what texture alone gives, σ ${lines.offsetSigma.toFixed(3)} of full scale) and removed before the texture was measured`));
+  if (glints.fraction > 0) before.push(warn('GLINTS_SUPPRESSED', `bright specks (glints) on ${(100 * glints.fraction).toFixed(1)} % of the specimen were replaced by their surroundings before the texture was measured`));
   const found = findOnSource(input, source);
-  return { ...found, warnings: [...glintWarnings, ...found.warnings] };
+  return { ...found, warnings: [...before, ...found.warnings] };
 }
+
+/** Scan-line removal per working copy (segment/memo.ts). */
+const SCAN_LINES = new WeakMap<GrayRaster, Map<string, ScanLineRemoval>>();
 
 function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
   const first = pass(input, input.window, source);

@@ -129,7 +129,11 @@ export function locateSpecimen(input: LocateInput): SpecimenLocation {
   let fromSilhouette = true;
   if (fe.chosen) {
     const tol = Math.max(3, 0.015 * fe.chosen.radiusPx);
-    if (followsSilhouette(fe.chosen, fe.center, silhouette, tol) < 0.85) {
+    // a silhouette with a bulge (noise or a holder attached on one arc: its ellipse misses it by
+    // > 3 px RMS, three times the chosen edge's own roundness) gives way to the edge even where the
+    // rest follows it (sem: a 7 px bulge over 60°)
+    const bulged = silhouette.ellipse.rmsResidualPx > Math.max(3, 3 * fe.chosen.roundnessPx);
+    if (bulged || followsSilhouette(fe.chosen, fe.center, silhouette, tol) < 0.85) {
       const s = specimenFromRing(fe.chosen, silhouette, frame.work.width, frame.work.height);
       if (s) {
         specimen = s;
