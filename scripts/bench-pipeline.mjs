@@ -10,6 +10,9 @@ const require = createRequire(import.meta.url);
 const dist = new URL('../dist/', import.meta.url);
 const { setCv } = await import(new URL('core/cv.js', dist));
 setCv(require('opencv-wasm').cv);
+// PNG image data through Node's zlib, as in the CLI (core/zlib.ts; same pixels as fast-png's path)
+const { installNodeZlib } = await import(new URL('cli/nodeZlib.js', dist));
+installNodeZlib();
 const { renderFractograph } = await import(new URL('core/render/index.js', dist));
 const { encodeGrayRaster } = await import(new URL('core/encode/index.js', dist));
 const { analyseImage, defaultParams, remeasure } = await import(new URL('core/pipeline/index.js', dist));

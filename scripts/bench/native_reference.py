@@ -43,6 +43,13 @@ def _arg(name, default=None):
 
 
 THREADS = int(_arg('--threads', '1'))
+# NumPy asks the kernel for transparent huge pages for large arrays; where THP defrag is on
+# (/sys/kernel/mm/transparent_hugepage/defrag), compacting memory for them cost this reference
+# 1.0-1.5 s of system time per 12-MP run on this project's machine (2026-12-02: 6.7-7.2 s wall,
+# 2.0 s sys with them; 3.1-4.5 s, 0.6 s without). Off by default so the yardstick is not slowed by
+# the machine; --numpy-hugepages keeps NumPy's default.
+if '--numpy-hugepages' not in sys.argv:
+    os.environ.setdefault('NUMPY_MADVISE_HUGEPAGE', '0')
 if THREADS > 0:
     for v in ('OMP_NUM_THREADS', 'OPENBLAS_NUM_THREADS', 'MKL_NUM_THREADS', 'NUMEXPR_NUM_THREADS'):
         os.environ[v] = str(THREADS)
@@ -228,7 +235,7 @@ def main():
     if batch:
         files = sorted(os.path.join(batch, n) for n in os.listdir(batch) if n.lower().endswith(('.png', '.jpg', '.jpeg', '.tif', '.tiff')))
     else:
-        skip = {'--pixel-size-um', '--out', '--threads', '--batch'}
+        skip = {'--pixel-size-um', '--out', '--threads', '--batch'}  # options with a value
         files = [a for i, a in enumerate(sys.argv[1:], 1) if not a.startswith('--') and sys.argv[i - 1] not in skip]
     if not files:
         raise SystemExit('native_reference: no image given')
