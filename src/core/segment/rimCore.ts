@@ -9,10 +9,12 @@ import { createMask, createRaster, type GrayRaster, type Mask } from '../image/r
 import { markAboveSectors, sectorPositions, sectorThresholds } from './rimCoreSectors.js';
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morph, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';
 import { oncePerRaster } from './memo.js';
+import { addClampedZ, andMask, dilateMask, erodeMask, gather, histogramInto, indicesOf, maskAtScale, meanVar, splitClasses, splitSums, subtractScaled, Z_CLAMP } from './rimCoreLoops.js';
+
 
 /** Options of {@link classifyRimCore}. */
 export interface RimCoreOptions {
@@ -84,135 +86,6 @@ export interface RimCoreResult {
   /** Combined, normalised log-feature at feature resolution, on the interior pixels (0 elsewhere). */
   combined: GrayRaster;
   featureScale: number;
-}
-
-/** Downsample the specimen mask to feature resolution by sampling at feature-pixel centres. */
-function maskAtScale(mask: Mask, fw: number, fh: number, s: number): Mask {
-  const out = createMask(fw, fh);
-  if (s === 1 && fw === mask.width && fh === mask.height) {
-    out.data.set(mask.data); // every feature px centre is a mask px centre
-    return out;
-  }
-  for (let v = 0; v < fh; v++) {
-    const y = Math.min(mask.height - 1, Math.max(0, Math.round((v + 0.5) * s - 0.5)));
-    for (let u = 0; u < fw; u++) {
-      const x = Math.min(mask.width - 1, Math.max(0, Math.round((u + 0.5) * s - 0.5)));
-      out.data[v * fw + u] = mask.data[y * mask.width + x];
-    }
-  }
-  return out;
-}
-
-function erodeMask(m: Mask, r: number): Mask {
-  const mm = maskToMat(m);
-  try {
-    morphDisc(mm, 'erode', r);
-    return matToMask(mm);
-  } finally {
-    mm.delete();
-  }
-}
-function dilateMask(m: Mask, r: number): Mask {
-  const mm = maskToMat(m);
-  try {
-    morphDisc(mm, 'dilate', r);
-    return matToMask(mm);
-  } finally {
-    mm.delete();
-  }
-}
-
-export function meanVar(vals: ArrayLike<number>): [number, number] {
-  const n = vals.length;
-  if (!n) return [NaN, NaN];
-  let s = 0;
-  for (let i = 0; i < n; i++) s += vals[i];
-  const m = s / n;
-  let q = 0;
-  for (let i = 0; i < n; i++) q += (vals[i] - m) * (vals[i] - m);
-  return [m, q / Math.max(1, n - 1)];
-}
-
-/** Clamp of the per-feature robust z-score before combining (robust σ units). */
-const Z_CLAMP = 4;
-
-// The hot per-pixel loops live in small functions of their own: V8 optimises each one as a whole
-// (inside one long function every loop would first run unoptimised, then be OSR-compiled and
-// deoptimised again at the next unseen statement).
-
-/** Indices of the non-zero entries. */
-function indicesOf(m: Uint8Array): Int32Array {
-  let c = 0;
-  for (let i = 0; i < m.length; i++) if (m[i]) c++;
-  const idx = new Int32Array(c);
-  for (let i = 0, k = 0; i < m.length; i++) if (m[i]) idx[k++] = i;
-  return idx;
-}
-
-/** [Σ v > t, count v > t, Σ v ≤ t]. */
-export function splitSums(vals: Float32Array, t: number): [number, number, number] {
-  let sa = 0;
-  let na = 0;
-  let sb = 0;
-  for (let k = 0; k < vals.length; k++) {
-    if (vals[k] > t) {
-      sa += vals[k];
-      na++;
-    } else sb += vals[k];
-  }
-  return [sa, na, sb];
-}
-
-/** a[i] = 0 where b[i] = 0. */
-function andMask(a: Uint8Array, b: Uint8Array): void {
-  for (let i = 0; i < a.length; i++) if (!b[i]) a[i] = 0;
-}
-
-/** Core / rim sample values (transition zone left out) and the core / specimen pixel counts. */
-function splitClasses(
-  spec: Uint8Array, core: Uint8Array, interior: Uint8Array, coreIn: Uint8Array, coreOut: Uint8Array,
-  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array,
-): [number, number, number, number] {
-  let nCv = 0;
-  let nRv = 0;
-  let nCore = 0;
-  let nSpec = 0;
-  for (let i = 0; i < spec.length; i++) {
-    if (!spec[i]) continue;
-    nSpec++;
-    if (core[i]) nCore++;
-    if (!interior[i]) continue;
-    if (coreIn[i]) cvBuf[nCv++] = comb[i];
-    else if (!coreOut[i]) rvBuf[nRv++] = comb[i];
-  }
-  return [nCv, nRv, nCore, nSpec];
-}
-
-/** Normalised histogram of v over [lo, hi] into h (bins clamped at both ends). */
-function histogramInto(v: Float32Array, lo: number, hi: number, h: Float64Array): void {
-  const nb = h.length;
-  for (let k = 0; k < v.length; k++) {
-    const b = Math.min(nb - 1, Math.max(0, Math.floor(((v[k] - lo) / (hi - lo || 1)) * nb)));
-    h[b] += 1 / v.length;
-  }
-}
-
-/** out[k] = src[idx[k]]. */
-function gather(src: Float32Array, idx: Int32Array, out: Float32Array): void {
-  for (let k = 0; k < idx.length; k++) out[k] = src[idx[k]];
-}
-
-/** a[i] −= p·b[i]. */
-function subtractScaled(a: Float32Array, p: number, b: Float64Array): void {
-  for (let i = 0; i < a.length; i++) a[i] -= p * b[i];
-}
-
-/** comb[i] += clamp((lg[i] − med)/spread, ±Z_CLAMP)/nF. */
-function addClampedZ(lg: Float32Array, med: number, spread: number, nF: number, comb: Float32Array): void {
-  for (let i = 0; i < lg.length; i++) {
-    const z = (lg[i] - med) / spread;
-    comb[i] += (z < -Z_CLAMP ? -Z_CLAMP : z > Z_CLAMP ? Z_CLAMP : z) / nF;
-  }
 }
 
 /** Checks the inputs; returns the feature size and the full-resolution px per feature px. */

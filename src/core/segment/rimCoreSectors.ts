@@ -5,7 +5,7 @@
  */
 import type { PointPx } from '../image/geometry.js';
 import { otsuThreshold } from './cvutil.js';
-import { meanVar, splitSums } from './rimCore.js';
+import { meanVar, splitSums } from './rimCoreLoops.js';
 
 /** Number of angular sectors of the per-sector threshold. */
 const N_SECTORS = 12;
