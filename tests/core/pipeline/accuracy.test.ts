@@ -42,10 +42,14 @@ const CASES: Case[] = [
   // the default window is 1/25 of the 2.5 mm radius ≈ 100 µm: these bands are ≈ 1.5 windows wide
   { name: 'narrow band (150 µm ≈ 1.5 windows)', opts: { ...BASE, seed: 35, blurSigmaPx: 0.8, noiseSigma: 0.012, rim: { widthUm: 150, transitionUm: 25 } }, tolPct: 2 },
   { name: 'narrow band + noise σ = 0.035', opts: { ...BASE, seed: 48, blurSigmaPx: 0.8, noiseSigma: 0.035, rim: { widthUm: 150, transitionUm: 25 } }, tolPct: 4 },
-  // scene elements (issue 11): one-sided defocus (within 2 %), glints on a slanted rim (the 2 % of
-  // the issue not met yet: −2.2 % on the scene set's `glints`; bound 4 %)
+  // scene elements (issue 11), each alone within 2 %: one-sided defocus; glints on a slanted rim
+  // (−1.9 % here since the glints' pixels are left out of the boundary refinement). A densely
+  // sparkling rim under a high light from the lower right (the scene set's `glints-b`: −5.8 % before,
+  // −1.4 % after) gives −2.4 % on this file's background and noise, −2.8 % on a plain band
+  // (2026-12-02): bound 4 % there, the issue's 2 % not met on every such image yet.
   { name: 'one-sided defocus to σ = 4 px', opts: { ...BASE, seed: 30, blurSigmaPx: 0.8, noiseSigma: 0.012, defocus: { maxSigmaPx: 4, directionDeg: 0, focusAt: 0.3 } }, tolPct: 2 },
-  { name: 'glints on a 30° slanted rim', opts: { ...BASE, seed: 25, blurSigmaPx: 0.8, noiseSigma: 0.012, rim: { slopeDeg: 30 }, glints: {} }, tolPct: 4 },
+  { name: 'glints on a 30° slanted rim', opts: { ...BASE, seed: 25, blurSigmaPx: 0.8, noiseSigma: 0.012, rim: { slopeDeg: 30 }, glints: {} }, tolPct: 2 },
+  { name: 'dense fine glints, high light from the lower right', opts: { ...BASE, seed: 26, blurSigmaPx: 0.8, noiseSigma: 0.012, light: { azimuthDeg: 300, elevationDeg: 55 }, rim: { widthUm: 400, harmonics: [{ order: 1, amplitudePct: 6, phaseDeg: 40 }, { order: 3, amplitudePct: 4, phaseDeg: 110 }], transitionUm: 40, slopeDeg: 25 }, glints: { facetUm: 15, strength: 0.8 } }, tolPct: 4 },
   { name: 'strong noise σ = 0.04, JPEG q60', opts: { ...BASE, seed: 36, blurSigmaPx: 0.8, noiseSigma: 0.04 }, tolPct: 2, format: 'jpeg', jpegQuality: 60 },
 ];
 

@@ -14,6 +14,7 @@ describe('glint suppression', () => {
     const g = suppressGlints(img.raster, sp.mask);
     expect(g.fraction).toBe(0);
     expect(g.raster).toBe(img.raster);
+    expect(g.mask).toBeNull();
   });
 
   it('replaces bright specks on the rim by the level around them, and nothing far from them', () => {
@@ -44,6 +45,12 @@ describe('glint suppression', () => {
     expect(changedInCore).toBe(0);
     // the input raster is not modified
     expect(r.data).toEqual(before);
+    // the mask of unknown texture covers every speck and its 1-px border, and nothing in the core
+    const m = g.mask!;
+    for (const [x, y] of specks) for (let dy = -2; dy <= 2; dy++) for (let dx = -2; dx <= 2; dx++) expect(m[(y + dy) * W + x + dx]).toBe(1);
+    let maskedInCore = 0;
+    for (let y = 200; y < 400; y++) for (let x = 300; x < 500; x++) maskedInCore += m[y * W + x];
+    expect(maskedInCore).toBe(0);
   });
 });
 

@@ -51,6 +51,47 @@ describe('refineBoundary', () => {
     for (let i = 0; i < 360; i++) if (r.radiiPx[i] !== null && r.coarseRadiiPx[i] !== null) expect(Math.abs(r.radiiPx[i]! - r.coarseRadiiPx[i]!)).toBeLessThan(1.5 * W + 1);
   });
 
+  it('pixels flagged missing (glints) are left out: a sparkling rim sector no longer reads as core', () => {
+    // clean texture step (rim σ 0.01, core σ 0.1), boundary at 180 px, outer edge at 240 px; on the
+    // rim between 0° and 90° every other 2 × 2 px cell carries a bright speck (+0.5): there the rim's
+    // arc variance exceeds the core's, as on a glinting rim (scene set `glints-b`)
+    const img = makeDiscImage({ rimStd: 0.01, coreStd: 0.1, seed: 23 });
+    const r = img.raster;
+    const Wd = r.width;
+    const missing = new Uint8Array(r.data.length);
+    for (let y = 0; y < r.height; y++) {
+      for (let x = 0; x < Wd; x++) {
+        const dx = x - img.cx;
+        const dy = img.cy - y;
+        const rad = Math.hypot(dx, dy);
+        const th = (Math.atan2(dy, dx) * 180) / Math.PI;
+        if (rad < 181 || rad > 238 || th < 0 || th > 90) continue;
+        if ((Math.floor(x / 2) + Math.floor(y / 2)) % 2 === 0) r.data[y * Wd + x] = Math.min(1, r.data[y * Wd + x] + 0.5);
+        missing[y * Wd + x] = 1;
+      }
+    }
+    const sp = findSpecimen(r);
+    const c = { x: img.cx, y: img.cy };
+    // a coarse outline 6 px outside the truth (the classification's outward error beside glints)
+    const coarse = Array.from({ length: 360 }, (_, i) => {
+      const t = (i * Math.PI) / 180;
+      return { x: c.x + 186 * Math.cos(t), y: c.y - 186 * Math.sin(t) };
+    });
+    const sectorError = (radii: (number | null)[]): number => {
+      let s = 0;
+      for (let i = 10; i <= 80; i++) s += radii[i]! - img.boundaryRadiusAt(i);
+      return s / 71;
+    };
+    const plain = refineBoundary(r, sp.contour, coarse, c, { windowPx: W });
+    const masked = refineBoundary(r, sp.contour, coarse, c, { windowPx: W, missing });
+    // read as texture, the specks keep the boundary out at the coarse radius or beyond it
+    expect(sectorError(plain.radiiPx)).toBeGreaterThan(3);
+    // left out, the step sits where the core's texture ends: within 1.5 px (0.1 window) of the truth
+    expect(Math.abs(sectorError(masked.radiiPx))).toBeLessThan(1.5);
+    // elsewhere the mask changes nothing
+    for (let i = 120; i < 330; i++) expect(masked.radiiPx[i]).toBe(plain.radiiPx[i]);
+  });
+
   it('refuses a window under 1 px', () => {
     const img = makeDiscImage({ width: 200, height: 150, outerA: 60, seed: 9 });
     const sp = findSpecimen(img.raster);

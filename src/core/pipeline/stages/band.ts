@@ -56,10 +56,10 @@ export const SECOND_PASS_WINDOW_FRACTION = 0.5;
 const SECOND_PASS_MAX_WINDOWS = 2.5;
 
 /** One pass: texture, classification and refined boundary at one window, on `source` (the working copy, glints suppressed). */
-function pass(input: BandInput, window: TextureWindow, source: GrayRaster): { boundary: RimBoundary; warnings: Warning[]; texture: TextureMaps; classification: Classification } {
+function pass(input: BandInput, window: TextureWindow, source: GrayRaster, missing: Uint8Array | null): { boundary: RimBoundary; warnings: Warning[]; texture: TextureMaps; classification: Classification } {
   const texture = computeTexture({ frame: input.frame, window, features: input.features, source, region: specimenBox(input.location, REGION_MARGIN_PX) });
   const classification = classifyTexture({ location: input.location, texture });
-  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays, source });
+  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification, window, nRays: input.nRays, source, missing });
   return { boundary, warnings: classification.warnings, texture, classification };
 }
 
@@ -92,15 +92,15 @@ export function findRimBoundary(input: BandInput): BandFinding {
   const before: Warning[] = [];
   if (lines.removed) before.push(warn('SCAN_LINES_REMOVED', `scan-line noise was found (line offsets ${lines.ratio.toFixed(0)}× what texture alone gives, σ ${lines.offsetSigma.toFixed(3)} of full scale) and removed before the texture was measured`));
   if (glints.fraction > 0) before.push(warn('GLINTS_SUPPRESSED', `bright specks (glints) on ${(100 * glints.fraction).toFixed(1)} % of the specimen were replaced by their surroundings before the texture was measured`));
-  const found = findOnSource(input, source);
+  const found = findOnSource(input, source, glints.mask);
   return { ...found, warnings: [...before, ...found.warnings] };
 }
 
 /** Scan-line removal per working copy (segment/memo.ts). */
 const SCAN_LINES = new WeakMap<GrayRaster, Map<string, ScanLineRemoval>>();
 
-function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
-  const first = pass(input, input.window, source);
+function findOnSource(input: BandInput, source: GrayRaster, missing: Uint8Array | null): BandFinding {
+  const first = pass(input, input.window, source, missing);
   if (input.allowSecondPass === false) return { ...first, window: input.window, pass: 1 };
   const W1 = input.window.windowPxFull;
   const width1 = first.boundary.detected && first.boundary.polygon ? medianBandWidthPx(input.location.outer, first.boundary.polygon, input.location.center) : null;
@@ -108,7 +108,7 @@ function findOnSource(input: BandInput, source: GrayRaster): BandFinding {
   if (first.boundary.detected && !narrow) return { ...first, window: input.window, pass: 1 };
   const window2 = textureWindow({ frame: input.frame, scale: input.scale, location: input.location, windowUm: input.window.windowUm * SECOND_PASS_WINDOW_FRACTION, features: input.features });
   if (window2.windowPxWork >= input.window.windowPxWork) return { ...first, window: input.window, pass: 1 };
-  const second = pass(input, window2, source);
+  const second = pass(input, window2, source, missing);
   const width2 = second.boundary.detected && second.boundary.polygon ? medianBandWidthPx(input.location.outer, second.boundary.polygon, input.location.center) : null;
   if (width2 === null || !(width2 < SECOND_PASS_MAX_WINDOWS * W1)) return { ...first, window: input.window, pass: 1 };
   // a band the first pass found stays unless the finer window separates rim and core better

@@ -34,6 +34,8 @@ export interface RefineInput {
   nRays: number;
   /** The working copy to refine on, when not frame.work (e.g. with glints suppressed). */
   source?: GrayRaster;
+  /** Pixels of `source` whose texture is unknown (glints), left out of the refinement's profiles. */
+  missing?: Uint8Array | null;
   /** Where the step level sits in its tolerance (segment/refine.ts; default 'mean'). */
   level?: 'mean' | 'log' | 'std';
   /** Refine on exactly this many rays (the parameter range's quick runs); default max(nRays, 360). */
@@ -51,6 +53,7 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
     windowPx: input.window.windowPxWork,
     nRays: input.exactRays ?? Math.max(input.nRays, 360),
     level: input.level,
+    missing: input.missing,
   });
   return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
 }
