@@ -36,7 +36,7 @@ import type { GrayRaster } from '../image/raster.js';
 import { entropyTables } from '../texture/kernels/entropyKernel.js';
 import { DEFAULT_ENTROPY_BINS, entropyBins } from '../texture/localEntropy.js';
 import { quantile } from '../segment/cvutil.js';
-import { findSpecimen } from '../segment/specimen.js';
+import { outlineCues } from './edgeCandidates.js';
 import type { WorkingFrame } from '../pipeline/frame.js';
 import type { PointPx } from '../image/geometry.js';
 
@@ -365,11 +365,5 @@ export function pixelFeaturesAt(work: GrayRaster, umPerWorkPx: number, windowsUm
  * copy (segment/specimen.ts), or the image centre when that finds no specimen.
  */
 export function featureCentre(frame: WorkingFrame): PointPx {
-  try {
-    const s = findSpecimen(frame.work, { excludeBoxes: frame.workMarks });
-    return { x: s.circle.cx, y: s.circle.cy };
-  } catch (e) {
-    if ((e as { code?: string }).code !== 'NO_SPECIMEN') throw e;
-    return { x: (frame.work.width - 1) / 2, y: (frame.work.height - 1) / 2 };
-  }
+  return outlineCues(frame).centre;
 }
