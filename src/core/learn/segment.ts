@@ -7,8 +7,12 @@
  * 2. The fracture surface is where P(outside) < ½, cleaned by a closing and an opening (0.35 window),
  *    the component at the centre kept and its holes filled (the rule of segment/specimen.ts); a
  *    circle and an ellipse are fitted to its outline (points on the frame or on scale marks left
- *    out). The outer edge along each ray is where P(outside) crosses ½ nearest that outline,
- *    interpolated to sub-pixel precision.
+ *    out); the notch root is a RANSAC ellipse through the first exits to outside along the rays.
+ *    That ellipse and every closed edge the fixed-rule edge search counts (segment/fractureEdge.ts)
+ *    are scored by how well their discs agree with P(outside) (learn/edgeCandidates.ts) and the
+ *    best is taken. From the model's ellipse the outer edge along each ray is where P(outside)
+ *    crosses ½ nearest it, interpolated to sub-pixel precision; from a closed edge, the edge itself.
+ *    Either is then placed on the intensity step of the full image.
  * 3. The core probability q = P(core) / (P(core) + P(rim)) is the roughness signal of the existing
  *    rim/core classification (segment/rimCore.ts: Otsu split, morphology, the core as the component
  *    at the centre with its holes filled, the separability report and the refusals).
