@@ -309,9 +309,12 @@ function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: num
   const ellipse = ring ? fitEllipseToPoints(ring) : modelEllipse;
   const circle = ring ? fitCircle(ring) : ellipse ? fitCircle(ellipseOutline(ellipse, 360)) : null;
   if (!ellipse || !circle) throw new FractozoneError('NO_SPECIMEN', 'the outline the model finds is too short to fit an ellipse');
-  const specimen: Specimen = { ...base, circle, ellipse };
-  const centerWork = { x: circle.cx, y: circle.cy };
   const guide = ring ?? ellipseOutline(ellipse, nRays);
+  // cut by the frame where the outline taken reaches it (the surface mask may reach it through a
+  // holder or a flank the outline leaves out)
+  const cut = guide.filter((q) => q.x <= 0 || q.y <= 0 || q.x >= W - 1 || q.y >= H - 1).length / guide.length;
+  const specimen: Specimen = { ...base, circle, ellipse, touchesFrame: cut > 0, frameContactFraction: cut };
+  const centerWork = { x: circle.cx, y: circle.cy };
   const outerWork = (ring ? outlineRadii(ring, centerWork, nRays) : crossings(p.outside, W, H, centerWork, guide, nRays, 0.5 * w, true)).map((r, i) => {
     const d = rayDirection((360 * i) / nRays);
     return r !== null && inFrame(centerWork, d, r, W, H) ? r : null;
