@@ -17,8 +17,9 @@
  * striations, 0 for isotropic roughness; Bigün & Granlund, ICCV 1987) and `radiality@w` (the
  * same, signed by the orientation relative to the direction from the specimen centre: +1 for
  * marks running round it, −1 for radial ones). The centre comes from the fixed-rule outline
- * (segment/specimen.ts), which is concentric with the notch root even where it takes the bar's
- * outer edge; pixels far from it see θ change slowly, so an error of a few px does not matter.
+ * (learn/edgeCandidates.ts `outlineCues`: the silhouette's centre, or the chosen closed edge's when
+ * a flank, holder or shadow merged with the silhouette pulls that off); pixels far from it see θ
+ * change slowly, so an error of a few px does not matter.
  *
  * Evaluation: only at the pixels asked for ({@link pixelFeaturesAt}): the labelled pixels chosen
  * for training, the grid the forest is evaluated on when applying a model (learn/predict.ts). The
@@ -36,7 +37,7 @@ import type { GrayRaster } from '../image/raster.js';
 import { entropyTables } from '../texture/kernels/entropyKernel.js';
 import { DEFAULT_ENTROPY_BINS, entropyBins } from '../texture/localEntropy.js';
 import { quantile } from '../segment/cvutil.js';
-import { findSpecimen } from '../segment/specimen.js';
+import { outlineCues } from './edgeCandidates.js';
 import type { WorkingFrame } from '../pipeline/frame.js';
 import type { PointPx } from '../image/geometry.js';
 
@@ -362,14 +363,8 @@ export function pixelFeaturesAt(work: GrayRaster, umPerWorkPx: number, windowsUm
 
 /**
  * The centre the radiality is measured from: the centre of the fixed-rule outline of the working
- * copy (segment/specimen.ts), or the image centre when that finds no specimen.
+ * copy (learn/edgeCandidates.ts `outlineCues`), or the image centre when that finds no specimen.
  */
 export function featureCentre(frame: WorkingFrame): PointPx {
-  try {
-    const s = findSpecimen(frame.work, { excludeBoxes: frame.workMarks });
-    return { x: s.circle.cx, y: s.circle.cy };
-  } catch (e) {
-    if ((e as { code?: string }).code !== 'NO_SPECIMEN') throw e;
-    return { x: (frame.work.width - 1) / 2, y: (frame.work.height - 1) / 2 };
-  }
+  return outlineCues(frame).centre;
 }

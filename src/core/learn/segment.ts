@@ -7,8 +7,12 @@
  * 2. The fracture surface is where P(outside) < ½, cleaned by a closing and an opening (0.35 window),
  *    the component at the centre kept and its holes filled (the rule of segment/specimen.ts); a
  *    circle and an ellipse are fitted to its outline (points on the frame or on scale marks left
- *    out). The outer edge along each ray is where P(outside) crosses ½ nearest that outline,
- *    interpolated to sub-pixel precision.
+ *    out); the notch root is a RANSAC ellipse through the first exits to outside along the rays.
+ *    That ellipse and every closed edge the fixed-rule edge search counts (segment/fractureEdge.ts)
+ *    are scored by how well their discs agree with P(outside) (learn/edgeCandidates.ts) and the
+ *    best is taken. From the model's ellipse the outer edge along each ray is where P(outside)
+ *    crosses ½ nearest it, interpolated to sub-pixel precision; from a closed edge, the edge itself.
+ *    Either is then placed on the intensity step of the full image.
  * 3. The core probability q = P(core) / (P(core) + P(rim)) is the roughness signal of the existing
  *    rim/core classification (segment/rimCore.ts: Otsu split, morphology, the core as the component
  *    at the centre with its holes filled, the separability report and the refusals).
@@ -36,7 +40,10 @@ import { refineOuterEdge } from '../segment/outerEdge.js';
 import type { Specimen } from '../segment/specimen.js';
 import type { ResultModel } from '../pipeline/result.js';
 import { warn, type Warning } from '../warnings.js';
-import { featureCentre, windowPxAt } from './features.js';
+import { windowPxAt } from './features.js';
+import { ellipseRadii, outlineCues, outlineDisagreement, outlineRadii } from './edgeCandidates.js';
+import type { FractureEdge } from '../segment/fractureEdge.js';
+import type { EllipseFit } from '../segment/fit.js';
 import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
 
 /** Boundary or outer-edge confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
@@ -253,8 +260,36 @@ function firstExits(outside: Float32Array, W: number, H: number, centre: PointPx
   return out;
 }
 
+/** The outline chosen among the model's RANSAC ellipse and the edge search's closed edges. */
+interface OutlineChoice {
+  /** The chosen closed edge's points (working px), or null when the model's own ellipse is taken. */
+  ring: PointPx[] | null;
+  /** Disagreement of each candidate (learn/edgeCandidates.ts), the model's ellipse first. */
+  scores: { source: 'model' | 'edge-search'; meanRadiusPx: number; disagreement: number }[];
+}
+
+/**
+ * Scores the model's RANSAC ellipse and every closed edge the fixed-rule search counts
+ * (learn/edgeCandidates.ts `outlineDisagreement`, about `centre`, radii from half the smallest to
+ * 1.25 × the largest candidate) and takes the lowest; the model's ellipse keeps ties.
+ */
+function chooseOutline(p: ClassProbabilities, ellipse: EllipseFit | null, edges: FractureEdge | null, centre: PointPx, nRays: number): OutlineChoice {
+  const rings = (edges?.rings ?? []).filter((v) => v.role !== 'rejected').map((v) => v.ring.points);
+  const outlines = [...(ellipse ? [ellipseRadii(ellipse, centre, nRays)] : []), ...rings.map((r) => outlineRadii(r, centre, nRays))];
+  if (!rings.length || !outlines.length) return { ring: null, scores: [] };
+  const means = outlines.map((o) => { const v = o.filter((r): r is number => r !== null); return v.length ? v.reduce((a, b) => a + b, 0) / v.length : 0; });
+  const rMin = 0.5 * Math.min(...means);
+  const rMax = 1.25 * Math.max(...means);
+  const dis = outlineDisagreement(p.outside, p.width, p.height, centre, outlines, rMin, rMax);
+  const off = ellipse ? 1 : 0;
+  let best = 0;
+  for (let k = 1; k < dis.length; k++) if (dis[k] < dis[best]) best = k;
+  const scores = dis.map((d, k) => ({ source: (k < off ? 'model' : 'edge-search') as 'model' | 'edge-search', meanRadiusPx: Math.round(means[k] * 100) / 100, disagreement: Math.round(d * 1e4) / 1e4 }));
+  return { ring: best < off ? null : rings[best - off], scores };
+}
+
 /** Locate stage of the model branch: the surface, its fits and the sub-pixel outer edge. */
-function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: number, centre0: PointPx, nRays: number): { location: SpecimenLocation; outerWork: (number | null)[] } {
+function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: number, centre0: PointPx, nRays: number, edges: FractureEdge | null): { location: SpecimenLocation; outerWork: (number | null)[]; choice: OutlineChoice } {
   const mask = surfaceMask(p, w, centre0);
   const base = specimenOf(mask, frame);
   const c0 = { x: base.circle.cx, y: base.circle.cy };
@@ -268,13 +303,19 @@ function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: num
     const q = { x: c0.x + t * d.x, y: c0.y + t * d.y };
     if (q.x > 1 && q.y > 1 && q.x < W - 2 && q.y < H - 2 && !inBoxes(frame.workMarks, q.x, q.y, 2)) pts.push(q);
   });
-  const ellipse = robustEllipse(pts, Math.max(1.5, 0.15 * w));
-  const circle = ellipse ? fitCircle(ellipseOutline(ellipse, 360)) : null;
+  const modelEllipse = robustEllipse(pts, Math.max(1.5, 0.15 * w));
+  const choice = chooseOutline(p, modelEllipse, edges, centre0, nRays);
+  const ring = choice.ring;
+  const ellipse = ring ? fitEllipseToPoints(ring) : modelEllipse;
+  const circle = ring ? fitCircle(ring) : ellipse ? fitCircle(ellipseOutline(ellipse, 360)) : null;
   if (!ellipse || !circle) throw new FractozoneError('NO_SPECIMEN', 'the outline the model finds is too short to fit an ellipse');
-  const specimen: Specimen = { ...base, circle, ellipse };
+  const guide = ring ?? ellipseOutline(ellipse, nRays);
+  // cut by the frame where the outline taken reaches it (the surface mask may reach it through a
+  // holder or a flank the outline leaves out)
+  const cut = guide.filter((q) => q.x <= 0 || q.y <= 0 || q.x >= W - 1 || q.y >= H - 1).length / guide.length;
+  const specimen: Specimen = { ...base, circle, ellipse, touchesFrame: cut > 0, frameContactFraction: cut };
   const centerWork = { x: circle.cx, y: circle.cy };
-  const guide = ellipseOutline(ellipse, nRays);
-  const outerWork = crossings(p.outside, W, H, centerWork, guide, nRays, 0.5 * w, true).map((r, i) => {
+  const outerWork = (ring ? outlineRadii(ring, centerWork, nRays) : crossings(p.outside, W, H, centerWork, guide, nRays, 0.5 * w, true)).map((r, i) => {
     const d = rayDirection((360 * i) / nRays);
     return r !== null && inFrame(centerWork, d, r, W, H) ? r : null;
   });
@@ -292,7 +333,7 @@ function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: num
     radiusUm: radiusPx * scale.umPerPx,
     warnings,
   };
-  return { location, outerWork };
+  return { location, outerWork, choice };
 }
 
 /**
@@ -328,9 +369,10 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   const umPerWorkPx = scale.umPerPx * frame.lengthScale;
   const ws = loaded.model.windowsUm;
   const w = windowPxAt(ws[Math.floor(ws.length / 2)], umPerWorkPx, frame.work.width, frame.work.height);
-  const centre0 = featureCentre(frame);
+  const cues = outlineCues(frame);
+  const centre0 = cues.centre;
   const p = predictProbabilities(frame.work, umPerWorkPx, loaded, centre0);
-  const { location, outerWork } = locate(frame, scale, p, w, centre0, nRays);
+  const { location, outerWork, choice } = locate(frame, scale, p, w, centre0, nRays, cues.edges);
   const centre = location.centerWork;
   const q = coreShare(p);
   const rimCore = classifyRimCore(location.specimen, [createRaster(p.width, p.height, q)], { windowPx: w, featureScale: 1, center: centre, transforms: ['identity'] });

@@ -38,6 +38,7 @@ function labelsOf(t: RenderTruth): ReturnType<typeof strokeLabels> {
  */
 const SERIES: [string, 'accurate' | 'accurate-or-flagged'][] = [
   ['tint-blue', 'accurate'],
+  // notch flank: today images 1/2 −0.8 / −4.0 %, both flagged (outer-edge confidence 0.69–0.70; DEVELOPERS.md "Pixel classifier")
   ['flank-holder-tint', 'accurate-or-flagged'],
   // SEM look: today image 1 +3.4 % (flagged, boundary confidence 0.73), image 2 +0.1 % (DEVELOPERS.md "Pixel classifier")
   ['sem', 'accurate-or-flagged'],
