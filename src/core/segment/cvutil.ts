@@ -298,7 +298,7 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
       }
     }
     const out = createMask(mask.width, mask.height);
-    for (let i = 0; i < lab.length; i++) out.data[i] = lab[i] === best ? 1 : 0;
+    labelMask(lab, best, out.data);
     return out;
   } finally {
     m.delete();
@@ -306,6 +306,14 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
     stats.delete();
     cents.delete();
   }
+}
+
+/**
+ * out[i] = 1 where lab[i] = label, else 0. A loop of its own: inside `keepComponent` V8 reached it
+ * only by on-stack replacement (self time ≈ 130 ms in a 12-MP profile, issue 16).
+ */
+function labelMask(lab: Int32Array, label: number, out: Uint8Array): void {
+  for (let i = 0; i < lab.length; i++) out[i] = lab[i] === label ? 1 : 0;
 }
 
 /** Outer contour (largest external contour, every boundary pixel) of a mask, px. */
