@@ -50,13 +50,16 @@ export function samplesToRaster(
 ): GrayRaster {
   const out = new Float32Array(width * height);
   if (maxValue <= 255 && samples instanceof Uint8Array) {
-    // 8-bit fast path: per-channel look-up tables, monomorphic Uint8Array access
-    const [lr, lg, lb] = [WR, WG, WB].map((w) => Float64Array.from({ length: 256 }, (_, v) => (colour ? w : 1) * v / maxValue));
-    let o = 0;
-    for (let y = 0; y < height; y++) {
-      let i = y * rowStride;
-      if (colour) for (let x = 0; x < width; x++, i += spp) out[o++] = lr[samples[i]] + lg[samples[i + 1]] + lb[samples[i + 2]];
-      else for (let x = 0; x < width; x++, i += spp) out[o++] = lr[samples[i]];
+    // 8-bit fast path: per-channel look-up tables, monomorphic Uint8Array access, the row loops in
+    // small functions of their own (V8 optimises them at once instead of late by on-stack replacement;
+    // 12-MP gray PNG: 57–79 → 46–64 ms in a fresh process, issue 16). The gray table holds v / max
+    // already rounded to float32 — the value the Float32Array store made of it before.
+    if (colour) {
+      const [lr, lg, lb] = [WR, WG, WB].map((w) => Float64Array.from({ length: 256 }, (_, v) => (w * v) / maxValue));
+      for (let y = 0; y < height; y++) rgbRow8(samples, out, lr, lg, lb, y * rowStride, y * width, width, spp);
+    } else {
+      const lut = Float32Array.from({ length: 256 }, (_, v) => (1 * v) / maxValue);
+      for (let y = 0; y < height; y++) grayRow8(samples, out, lut, y * rowStride, y * width, width, spp);
     }
     return createRaster(width, height, out);
   }
@@ -76,4 +79,25 @@ export function samplesToRaster(
     }
   }
   return createRaster(width, height, out);
+}
+
+/** One row of 8-bit gray samples through the look-up table (see `samplesToRaster`). */
+function grayRow8(samples: Uint8Array, out: Float32Array, lut: Float32Array, i: number, o: number, width: number, spp: number): void {
+  if (spp === 1) for (const e = o + width; o < e; o++, i++) out[o] = lut[samples[i]];
+  else for (const e = o + width; o < e; o++, i += spp) out[o] = lut[samples[i]];
+}
+
+/** One row of 8-bit R, G, B samples through the per-channel tables (see `samplesToRaster`). */
+function rgbRow8(
+  samples: Uint8Array,
+  out: Float32Array,
+  lr: Float64Array,
+  lg: Float64Array,
+  lb: Float64Array,
+  i: number,
+  o: number,
+  width: number,
+  spp: number,
+): void {
+  for (const e = o + width; o < e; o++, i += spp) out[o] = lr[samples[i]] + lg[samples[i + 1]] + lb[samples[i + 2]];
 }

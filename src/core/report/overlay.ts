@@ -161,15 +161,7 @@ function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
     const y0 = Math.floor(oy * fy);
     const y1 = Math.max(y0 + 1, Math.floor((oy + 1) * fy));
     acc.fill(0);
-    for (let y = y0; y < y1; y++) {
-      const row = y * W;
-      for (let ox = 0; ox < outW; ox++) {
-        let s = 0;
-        const e = row + xb[ox];
-        for (let i = row + xa[ox]; i < e; i++) s += src[i];
-        acc[ox] += s;
-      }
-    }
+    for (let y = y0; y < y1; y++) addBlockSums(src, y * W, xb, acc, outW);
     const ny = y1 - y0;
     let o = oy * outW * 4;
     for (let ox = 0; ox < outW; ox++, o += 4) {
@@ -180,6 +172,23 @@ function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
     }
   }
   return img;
+}
+
+/**
+ * acc[ox] += the sum of input row `row`'s block ox, left to right (the same additions in the same
+ * order as a loop from xa[ox]). The blocks of an overlay (never larger than its image, fx ≥ 1) are
+ * contiguous from column 0 (xa[ox + 1] = xb[ox]), so one sweep along the row reads them all; in a
+ * function of its own V8 optimises it at once (12 MP → 1600 px, fresh process: CPU best 50.2 →
+ * 45.4 ms, median 51.8 → 50.0 ms over 7, load ≈ 5).
+ */
+function addBlockSums(src: Float32Array, row: number, xb: Int32Array, acc: Float64Array, outW: number): void {
+  let i = row;
+  for (let ox = 0; ox < outW; ox++) {
+    const e = row + xb[ox];
+    let s = src[i++];
+    while (i < e) s += src[i++];
+    acc[ox] += s;
+  }
 }
 
 /** Draws the overlay; see the module comment for what is drawn. */

@@ -16,17 +16,54 @@ export function rasterToMat(r: GrayRaster): Mat {
 export function maskToMat(mask: Mask): Mat {
   const cv = getCv();
   const m = new cv.Mat(mask.height, mask.width, cv.CV_8U);
-  const d = m.data;
-  const s = mask.data;
-  for (let i = 0; i < s.length; i++) d[i] = s[i] ? 255 : 0;
+  maskBytesTo255(mask.data, m.data);
   return m;
+}
+
+/*
+ * The two conversions below run 4 bytes at a time on aligned Uint32 views (a 0/1 word times 255
+ * is 0/255 in each byte; "byte ≠ 0" is bit 7 of ((b & 0x7f) + 0x7f) | b, no carry between bytes),
+ * with the byte loop for the rest: the same bytes. 1200 × 900 mask, warm: 1.55 → 0.44 ms per call;
+ * they are called dozens of times per 12-MP measure (≈ 90 ms each in the profile, issue 16).
+ */
+function maskBytesTo255(s: Uint8Array, d: Uint8Array): void {
+  const n = s.length;
+  let j = 0;
+  if (((s.byteOffset | d.byteOffset) & 3) === 0) {
+    const n4 = n >> 2;
+    const s32 = new Uint32Array(s.buffer, s.byteOffset, n4);
+    const d32 = new Uint32Array(d.buffer, d.byteOffset, n4);
+    let i = 0;
+    for (; i < n4; i++) {
+      const w = s32[i];
+      if (w & 0xfefefefe) break; // a byte other than 0/1: the byte loop from here
+      d32[i] = Math.imul(w, 255);
+    }
+    j = 4 * i;
+  }
+  for (; j < n; j++) d[j] = s[j] ? 255 : 0;
+}
+
+function bytesToMask01(s: Uint8Array, d: Uint8Array): void {
+  const n = d.length;
+  let j = 0;
+  if (((s.byteOffset | d.byteOffset) & 3) === 0) {
+    const n4 = n >> 2;
+    const s32 = new Uint32Array(s.buffer, s.byteOffset, n4);
+    const d32 = new Uint32Array(d.buffer, d.byteOffset, n4);
+    for (let i = 0; i < n4; i++) {
+      const x = s32[i];
+      d32[i] = ((((x & 0x7f7f7f7f) + 0x7f7f7f7f) | x) >>> 7) & 0x01010101;
+    }
+    j = 4 * n4;
+  }
+  for (; j < n; j++) d[j] = s[j] ? 1 : 0;
 }
 
 /** Read a CV_8U Mat (non-zero = inside) into a Mask. */
 export function matToMask(m: Mat): Mask {
   const out = createMask(m.cols, m.rows);
-  const d = m.data;
-  for (let i = 0; i < out.data.length; i++) out.data[i] = d[i] ? 1 : 0;
+  bytesToMask01(m.data as Uint8Array, out.data);
   return out;
 }
 
@@ -261,7 +298,7 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
       }
     }
     const out = createMask(mask.width, mask.height);
-    for (let i = 0; i < lab.length; i++) out.data[i] = lab[i] === best ? 1 : 0;
+    labelMask(lab, best, out.data);
     return out;
   } finally {
     m.delete();
@@ -269,6 +306,14 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
     stats.delete();
     cents.delete();
   }
+}
+
+/**
+ * out[i] = 1 where lab[i] = label, else 0. A loop of its own: inside `keepComponent` V8 reached it
+ * only by on-stack replacement (self time ≈ 130 ms in a 12-MP profile, issue 16).
+ */
+function labelMask(lab: Int32Array, label: number, out: Uint8Array): void {
+  for (let i = 0; i < lab.length; i++) out[i] = lab[i] === label ? 1 : 0;
 }
 
 /** Outer contour (largest external contour, every boundary pixel) of a mask, px. */
