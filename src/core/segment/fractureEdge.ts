@@ -126,7 +126,10 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
   const offCentre = !silUsable || (!silGood && Math.hypot(center.x - sil.circle.cx, center.y - sil.circle.cy) > 0.08 * sil.circle.radiusPx);
   // a nearly round ellipse of a silhouette that is not clean (noise or a holder attached) is taken
   // for a circle: its few per cent of flattening are the attachment's, and they bend the grid (sem)
-  const round = offCentre || !(ratio > 0.3) || (!silGood && ratio > 0.95);
+  // ("clean": little misfit and off the frame; silGood further asks for a clearly elliptic outline,
+  // so a round clean silhouette such as a wobbly bar end keeps its own ellipse here)
+  const silClean = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx);
+  const round = offCentre || !(ratio > 0.3) || (!silClean && ratio > 0.95);
   const shape = { center, ratio: round ? 1 : ratio, angleDeg: round ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;
   const rMax = t ? 0.75 * tSize : Math.max(1.3 * R, 0.5 * Math.max(W, H));

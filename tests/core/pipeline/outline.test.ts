@@ -97,6 +97,18 @@ describe('tidy pictures keep the silhouette outline', () => {
     expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(0.5);
     expect(r.quality.verdict).toBe('ok');
   });
+
+  it('a clean round silhouette with an order-2 wobble (invented sample fz7-U-r1e-3) keeps its own ellipse as the search grid: outline = silhouette, band within 1.5 %', async () => {
+    const dir = join(__dirname, '../../../samples');
+    const truth = JSON.parse(readFileSync(join(dir, 'fz7-U-r1e-3.truth.json'), 'utf8'));
+    const p = defaultParams();
+    p.scale.pixelSizeUm = truth.umPerPxX;
+    p.bootstrap = 100;
+    const { result: r } = await analyseImage(new Uint8Array(readFileSync(join(dir, 'fz7-U-r1e-3.jpg'))), { file: 'fz7-U-r1e-3.jpg', sha256: 'test' }, p);
+    // with the round grid the chosen ring strayed 10 px out on one arc: +2.0 %, outline from that ring
+    expect(r.specimen.edgeSearch!.outlineFromSilhouette).toBe(true);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, truth.band.meanWidthUm))).toBeLessThan(1.5);
+  });
 });
 
 describe('section diameter: prior and cross-check of the scale', () => {
