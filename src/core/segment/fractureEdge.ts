@@ -201,6 +201,9 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
   const core = rings.findIndex((r) => isCoreEdge(r, coreRoughness));
   if (core >= 0) verdicts[core].note = 'roughness drops outward across it: the rim/core boundary, or the edge of a surface without a band';
   let confirmed = rule === 'section-diameter';
+  let twin = -1;
+  // the ring the edge was first taken for, when a rounder twin just inside it replaced it
+  let bent = -1;
   let stepped = false;
   if (chosen < 0) {
     // walk outward from the core edge (else the innermost clear ring) to the first ring beyond which
@@ -232,6 +235,11 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
       steps++;
     }
     stepped = weak >= 0 ? steps > 1 : steps > 0;
+    twin = chosen >= 0 && chosen !== core ? roundTwinInside(rings, chosen, core, weak) : -1;
+    if (twin >= 0) {
+      bent = chosen;
+      chosen = twin;
+    }
     if (chosen >= 0) rule = chosen === core ? 'core-is-edge' : core >= 0 ? 'first-edge-outside-core' : weak >= 0 ? 'first-edge-outside-partial-core-edge' : stepped ? 'edge-outside-inner-boundary' : 'innermost-edge';
   }
   let ambiguous = false;
@@ -242,15 +250,37 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
     verdicts[chosen].note = noteFor(rule, ch);
     for (let i = 0; i < rings.length; i++) {
       if (i === chosen || verdicts[i].role !== 'candidate') continue;
-      if (i > chosen) verdicts[i].note = outsideNote(rings[i], rings[i - 1]);
+      if (i === bent) verdicts[i].note = 'the same edge as the rounder ring just inside it, bent outward over part of the circumference (a shadow or a flank against it)';
+      else if (i > chosen) verdicts[i].note = outsideNote(rings[i], rings[i - 1]);
       else if (i !== core) innerRoundEdge = innerRoundEdge || rings[i].roundnessPx <= 1.5;
     }
-    const further = rings.some((r, i) => i > chosen && counts(r) && r.outer.inSilhouette >= 0.5 && !machined(r.inner));
+    const further = rings.some((r, i) => i > chosen && i !== bent && counts(r) && r.outer.inSilhouette >= 0.5 && !machined(r.inner));
     // not confirmed (neither a machined flank nor background outside it) and no core edge to count
     // from, or another candidate further out: a person should look
     ambiguous = (!confirmed && (further || core < 0)) || (core < 0 && stepped);
   }
   return { chosen: chosen >= 0 ? rings[chosen] : null, rule, rings: verdicts, center, innerRoundEdge, ambiguous, sectionNotFound };
+}
+
+/**
+ * The edge itself, found twice: a much rounder ring a few px inside the chosen one, clear on ≥ 50 % of
+ * the rays and on ≥ 60 % together with the chosen ring, that the coverage rule alone rejected. A soft
+ * cast shadow against one side of the root (external shadow_left: root 505.7 px across, round to
+ * 0.63 px, clear on 59 % of the rays; the ring chosen 516.9 px, round to 1.47 px, follows the shadow
+ * 6–8 px outside the root over 150° of the circumference) pulls the path outward on that side only,
+ * so the chosen ring is less round. Returns its index, or −1.
+ */
+function roundTwinInside(rings: Ring[], chosen: number, core: number, weak: number): number {
+  const i = chosen - 1;
+  if (i < 0 || i === core || i === weak) return -1;
+  const r = rings[i];
+  const ch = rings[chosen];
+  const gap = ch.radiusPx - r.radiusPx;
+  if (!(gap > 0 && gap <= Math.max(4, 0.03 * ch.radiusPx))) return -1;
+  if (!(r.coverage >= 0.5 && r.prominence >= 0.3 && r.roundnessPx <= 1 && r.roundnessPx <= 0.5 * ch.roundnessPx)) return -1;
+  let both = 0;
+  for (let t = 0; t < r.covered.length; t++) if (r.covered[t] || ch.covered[t]) both++;
+  return both >= 0.6 * r.covered.length ? i : -1;
 }
 
 function noteFor(rule: string, r: Ring): string {
