@@ -3,6 +3,7 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { isFractozoneError } from '../../../src/core/errors.js';
 import { decodeImage, readImageHeader } from '../../../src/core/decode/index.js';
+import { concatBytes, pngChunk as chunk } from '../../helpers/pngBytes.js';
 
 const DIR = new URL('../../fixtures/decode/', import.meta.url);
 const load = (name: string): Uint8Array => new Uint8Array(readFileSync(new URL(name, DIR)));
@@ -20,38 +21,13 @@ function codeOf(fn: () => unknown): string {
   return 'NO ERROR';
 }
 
-// CRC-32 as in the PNG specification (2nd ed., Annex D), for hand-made headers
-function crc32(bytes: Uint8Array): number {
-  let c = ~0;
-  for (const b of bytes) {
-    c ^= b;
-    for (let k = 0; k < 8; k++) c = c & 1 ? (c >>> 1) ^ 0xedb88320 : c >>> 1;
-  }
-  return ~c >>> 0;
-}
-function chunk(type: string, data: Uint8Array): Uint8Array {
-  const out = new Uint8Array(12 + data.length);
-  const dv = new DataView(out.buffer);
-  dv.setUint32(0, data.length);
-  for (let i = 0; i < 4; i++) out[4 + i] = type.charCodeAt(i);
-  out.set(data, 8);
-  dv.setUint32(8 + data.length, crc32(out.subarray(4, 8 + data.length)));
-  return out;
-}
 function pngWithHeader(w: number, h: number, rest: Uint8Array[] = []): Uint8Array {
   const ihdr = new Uint8Array(13);
   const dv = new DataView(ihdr.buffer);
   dv.setUint32(0, w);
   dv.setUint32(4, h);
   ihdr.set([8, 0, 0, 0, 0], 8);
-  const parts = [new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), ...rest, chunk('IEND', new Uint8Array(0))];
-  const out = new Uint8Array(parts.reduce((s, p) => s + p.length, 0));
-  let o = 0;
-  for (const p of parts) {
-    out.set(p, o);
-    o += p.length;
-  }
-  return out;
+  return concatBytes([new Uint8Array([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]), chunk('IHDR', ihdr), ...rest, chunk('IEND', new Uint8Array(0))]);
 }
 /** Little-endian classic TIFF with one IFD of SHORT/LONG tags and no pixel data. */
 function tiffWithTags(tags: [number, number, number][]): Uint8Array {

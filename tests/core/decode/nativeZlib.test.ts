@@ -12,6 +12,7 @@ import { afterEach, describe, expect, it } from 'vitest';
 import { decodeImage } from '../../../src/core/decode/index.js';
 import { crc32 } from '../../../src/core/encode/png.js';
 import { setZlib, type NativeZlib } from '../../../src/core/zlib.js';
+import { concatBytes as concat, pngChunk as chunk } from '../../helpers/pngBytes.js';
 
 const DIR = new URL('../../fixtures/decode/', import.meta.url);
 const pngFixtures = readdirSync(DIR).filter((n) => n.endsWith('.png'));
@@ -51,25 +52,6 @@ function both(bytes: Uint8Array): { js: unknown; native: unknown; inflates: numb
   return { js, native, inflates: z.inflates };
 }
 
-function chunk(type: string, data: Uint8Array): Uint8Array {
-  const out = new Uint8Array(12 + data.length);
-  const dv = new DataView(out.buffer);
-  dv.setUint32(0, data.length);
-  out.set([...type].map((c) => c.charCodeAt(0)), 4);
-  out.set(data, 8);
-  dv.setUint32(8 + data.length, crc32(out.subarray(4, 8 + data.length)));
-  return out;
-}
-
-const concat = (parts: Uint8Array[]): Uint8Array => {
-  const out = new Uint8Array(parts.reduce((s, p) => s + p.length, 0));
-  let o = 0;
-  for (const p of parts) {
-    out.set(p, o);
-    o += p.length;
-  }
-  return out;
-};
 
 /**
  * A PNG whose row y uses filter type `filters[y % filters.length]` (forward filters of PNG spec.
