@@ -27,7 +27,7 @@ import type { GrayRaster, Mask } from '../image/raster.js';
 import { edgeCues, type EdgeCues } from './polar.js';
 import { oncePerRaster } from './memo.js';
 import { findRings, voteCentre, type Ring } from './rings.js';
-import type { Specimen } from './specimen.js';
+import { silhouetteIsClean, type Specimen } from './specimen.js';
 import { fitCircle } from './fit.js';
 
 /** Edge cues per working copy (memo.ts). */
@@ -109,7 +109,7 @@ function centreOf(cues: EdgeCues, W: number, H: number, sil: Specimen, t: BoxPx 
   const silUsable = sil.circle.cx >= 0 && sil.circle.cy >= 0 && sil.circle.cx < W && sil.circle.cy < H && sil.circle.radiusPx < 0.75 * Math.max(W, H);
   const near = t ? { x: t.x + t.w / 2, y: t.y + t.h / 2 } : silUsable ? { x: sil.circle.cx, y: sil.circle.cy } : { x: W / 2, y: H / 2 };
   const tSize = t ? Math.max(t.w, t.h) : Math.max(W, H);
-  const silGood = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
+  const silGood = silUsable && silhouetteIsClean(sil) && sil.ellipse.semiMinorPx < 0.95 * sil.ellipse.semiMajorPx;
   const center = silGood ? { x: sil.ellipse.cx, y: sil.ellipse.cy } : voteCentre(cues, 0.1 * minSide, 0.6 * minSide, near, t ? 0.3 * tSize : 0.45 * Math.max(W, H));
   return { center, silUsable, silGood, tSize };
 }
@@ -128,7 +128,7 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
   // for a circle: its few per cent of flattening are the attachment's, and they bend the grid (sem)
   // ("clean": little misfit and off the frame; silGood further asks for a clearly elliptic outline,
   // so a round clean silhouette such as a wobbly bar end keeps its own ellipse here)
-  const silClean = silUsable && sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx);
+  const silClean = silUsable && silhouetteIsClean(sil);
   const round = offCentre || !(ratio > 0.3) || (!silClean && ratio > 0.95);
   const shape = { center, ratio: round ? 1 : ratio, angleDeg: round ? 0 : -sil.ellipse.angleDeg };
   const R = silUsable ? sil.circle.radiusPx : 0.35 * minSide;

@@ -53,6 +53,14 @@ export interface Specimen {
 }
 
 /**
+ * A clean silhouette: off the frame (< 5 % contact) and well fitted by its ellipse (RMS misfit
+ * < max(1.5 px, 1 % of the radius)) — no holder, shadow or noise attached to it.
+ */
+export function silhouetteIsClean(sil: Specimen): boolean {
+  return sil.frameContactFraction < 0.05 && sil.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * sil.circle.radiusPx);
+}
+
+/**
  * Find the specimen (fracture surface) in a fractograph.
  *
  * Method: (1) downsample to ≤ workSizePx (area average) and smooth (Gaussian σ = 1.5 px);

@@ -14,6 +14,7 @@ import type { Scale } from '../../calibrate/index.js';
 import type { BoxPx, PointPx } from '../../image/geometry.js';
 import { findSpecimen, refineOuterEdge, type Specimen } from '../../segment/index.js';
 import { findFractureEdge, polygonMask, type FractureEdge } from '../../segment/fractureEdge.js';
+import { silhouetteIsClean } from '../../segment/specimen.js';
 import type { Ring } from '../../segment/rings.js';
 import { fitCircle, fitEllipseToPoints } from '../../segment/fit.js';
 import { polygonArea } from '../../measure/geometry.js';
@@ -137,8 +138,7 @@ export function locateSpecimen(input: LocateInput): SpecimenLocation {
     // the chosen edge runs on a clean elliptic silhouette over half the rays or more and is bent off
     // it elsewhere, less round than the silhouette's own misfit: the same edge, bent by a shadow or a
     // dark halo beside it — the silhouette stays (invented sample fz7-V-r1e-3: +4.5 % → −0.6 %)
-    const silClean = silhouette.frameContactFraction < 0.05 && silhouette.ellipse.rmsResidualPx < Math.max(1.5, 0.01 * silhouette.circle.radiusPx);
-    const sameEdgeBent = !bulged && silClean && follows >= 0.5 && fe.chosen.roundnessPx > 1.5 * silhouette.ellipse.rmsResidualPx;
+    const sameEdgeBent = !bulged && silhouetteIsClean(silhouette) && follows >= 0.5 && fe.chosen.roundnessPx > 1.5 * silhouette.ellipse.rmsResidualPx;
     if (!sameEdgeBent && (bulged || follows < 0.85)) {
       const s = specimenFromRing(fe.chosen, silhouette, frame.work.width, frame.work.height);
       if (s) {
