@@ -140,7 +140,7 @@ export function morphDisc(m: Mat, op: 'open' | 'close' | 'erode' | 'dilate', r: 
 }
 
 /** Inclusive bounding box of the non-zero pixels, or null. */
-function setBox(o: Uint8Array, W: number, H: number): { x0: number; y0: number; x1: number; y1: number } | null {
+export function setBox(o: Uint8Array, W: number, H: number): { x0: number; y0: number; x1: number; y1: number } | null {
   let y0 = -1;
   let y1 = -1;
   let x0 = W;

@@ -10,7 +10,7 @@
  * `missing`).
  */
 import { createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { quantiles, rectMorph } from './cvutil.js';
+import { quantiles, rectMorph, setBox } from './cvutil.js';
 
 /** Radius of the opening, working px (specks narrower than 7 px are removed). */
 const OPEN_RADIUS = 3;
@@ -143,26 +143,13 @@ export function openRect(r: GrayRaster, radius: number): Float32Array {
 function openNearMask(r: GrayRaster, mask: Mask, radius: number): Float32Array {
   const W = r.width;
   const H = r.height;
-  let x0 = W;
-  let x1 = -1;
-  let y0 = H;
-  let y1 = -1;
-  for (let y = 0; y < H; y++) {
-    const row = y * W;
-    for (let x = 0; x < W; x++) {
-      if (!mask.data[row + x]) continue;
-      if (x < x0) x0 = x;
-      if (x > x1) x1 = x;
-      if (y < y0) y0 = y;
-      y1 = y;
-    }
-  }
+  const b = setBox(mask.data, W, H);
+  if (!b) return new Float32Array(W * H);
   const g = 1 + 2 * radius;
-  x0 = Math.max(0, x0 - g);
-  y0 = Math.max(0, y0 - g);
-  x1 = Math.min(W - 1, x1 + g);
-  y1 = Math.min(H - 1, y1 + g);
-  if (x1 < x0 || y1 < y0) return new Float32Array(W * H);
+  const x0 = Math.max(0, b.x0 - g);
+  const y0 = Math.max(0, b.y0 - g);
+  const x1 = Math.min(W - 1, b.x1 + g);
+  const y1 = Math.min(H - 1, b.y1 + g);
   const w = x1 - x0 + 1;
   const h = y1 - y0 + 1;
   if (w === W && h === H) return openRect(r, radius);

@@ -4,6 +4,7 @@
  * mean brightness the classification normalises them by.
  */
 import { oncePerRaster } from '../../segment/memo.js';
+import { setBox } from '../../segment/cvutil.js';
 import type { Scale } from '../../calibrate/index.js';
 import type { GrayRaster } from '../../image/raster.js';
 import { boxMean, computeFeature, defaultWindowUm, FEATURES, localEntropyInBox, windowPxFromUm, type FeatureName, type PixelBox } from '../../texture/index.js';
@@ -72,22 +73,8 @@ export const REGION_MARGIN_PX = 3;
  */
 export function specimenBox(location: SpecimenLocation, margin: number): PixelBox {
   const m = location.specimen.mask;
-  const W = m.width;
-  let x0 = W;
-  let x1 = -1;
-  let y0 = m.height;
-  let y1 = -1;
-  for (let y = 0; y < m.height; y++) {
-    const row = y * W;
-    for (let x = 0; x < W; x++) {
-      if (!m.data[row + x]) continue;
-      if (x < x0) x0 = x;
-      if (x > x1) x1 = x;
-      if (y < y0) y0 = y;
-      y1 = y;
-    }
-  }
-  return x1 < 0 ? { x0: 0, y0: 0, x1: -1, y1: -1 } : { x0: x0 - margin, y0: y0 - margin, x1: x1 + margin, y1: y1 + margin };
+  const b = setBox(m.data, m.width, m.height);
+  return b ? { x0: b.x0 - margin, y0: b.y0 - margin, x1: b.x1 + margin, y1: b.y1 + margin } : { x0: 0, y0: 0, x1: -1, y1: -1 };
 }
 
 /**
