@@ -17,6 +17,7 @@ import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay, rayDirection, type RayIndex } from '../measure/geometry.js';
 import { medianOf as median } from '../measure/statistics.js';
 import { fillCoreNotches } from './coreNotches.js';
+import { POOL_WINDOWS, pooledProfile, poolHalfRays } from './rayPool.js';
 import { rasterToMat } from './cvutil.js';
 
 /**
@@ -110,6 +111,12 @@ export interface RefineBoundaryOptions {
    * too few are left the profile has a gap, which the levels skip and the step fit does not count.
    */
   missing?: Uint8Array | null;
+  /**
+   * 'step' only: the step is fitted to the median profile of the rays whose arcs lie within ± this
+   * many windows of arc length (segment/rayPool.ts; 0: each ray's own profile). Default
+   * {@link POOL_WINDOWS}, and 0 where pixels are `missing` (see there).
+   */
+  poolWindows?: number;
 }
 
 /** Result of {@link refineBoundary}. */
@@ -200,8 +207,10 @@ function rayProfile(E: GrayRaster, o: number | null, c: number | null, center: P
   const p = new Float64Array(Math.max(1, Math.floor(len / STEP) + 1));
   if (method === 'box') {
     for (let k = 0; k < p.length; k++) p[k] = sample(E, center.x + k * STEP * d.x, center.y + k * STEP * d.y);
-  } else if (c !== null) {
-    arcVarianceProfile(E, center, th, c, p, W, missing);
+  } else {
+    // radii without an arc variance are unknown (NaN), not 0: the step fit pools neighbouring rays
+    p.fill(NaN);
+    if (c !== null) arcVarianceProfile(E, center, th, c, p, W, missing);
   }
   return { th, o, c, p };
 }
@@ -399,6 +408,8 @@ export function refineBoundary(
     };
   });
   const search = (opts.searchWindows ?? 1.5) * W;
+  const poolWindows = method === 'step' ? opts.poolWindows ?? (opts.missing ? 0 : POOL_WINDOWS) : 0;
+  const profiles = rays.map((ray) => ray.p);
   const refined: (number | null)[] = [];
   let nFallback = 0;
   for (let i = 0; i < nRays; i++) {
@@ -414,7 +425,8 @@ export function refineBoundary(
       const mid = stepLevel(eR, eC, method, opts.level);
       const k0 = Math.max(1, Math.floor(Math.max(0, c - search) / STEP));
       const k1 = Math.min(p.length - 1, Math.ceil(Math.min(o - 0.5 * W, c + search) / STEP));
-      best = method === 'box' ? boxCrossing(p, mid, k0, k1, c) : stepFit(p, mid, k0, k1);
+      const half = poolHalfRays(poolWindows, W, nRays, c);
+      best = method === 'box' ? boxCrossing(p, mid, k0, k1, c) : stepFit(pooledProfile(profiles, i, half, k0, k1), mid, k0, k1);
     }
     if (best === null) nFallback++;
     refined.push(best ?? c);
