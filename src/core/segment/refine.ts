@@ -260,7 +260,8 @@ function pooled(arr: readonly number[], i: number, halfSector: number): number {
  * variance is b²V_c + (1 − b)²V_r: the log midpoint is reached before b = ½ (towards the rim), the
  * std midpoint after it (towards the core). Measured on two independent synthetic generators
  * (src/core/render and scripts/fixtures/make_external_fractographs.py) the first sat 0.6 px
- * rimward / ~0.1 px, the second 0.2 px / 0.7 px coreward; their mean stays within ~0.3 px on both.
+ * rimward / ~0.1 px, the second 0.2 px / 0.7 px coreward; their mean stays within ~0.3 px on both
+ * (single-ray fits; fitted to the pooled profile, segment/rayPool.ts, it sits 0.33 px rimward on plain).
  */
 function stepLevel(eR: number, eC: number, method: 'step' | 'box', level: 'mean' | 'log' | 'std' = 'mean'): number {
   const logMid = 0.5 * (eR + eC);
