@@ -13,6 +13,7 @@ import { assessQuality, QUALITY_RULES, ruleWarnings } from '../../../src/core/pi
 import { severityOf, warn, WARNING_CODES, WARNINGS } from '../../../src/core/warnings.js';
 import { makeDiscImage } from '../../helpers/discImages.js';
 import { makeResult } from '../../helpers/result.js';
+import { expectSameResult } from '../../helpers/sameResult.js';
 
 function decoded(img: ReturnType<typeof makeDiscImage>): DecodedImage {
   const { raster } = img;
@@ -98,7 +99,8 @@ describe('quality of whole runs (synthetic discs, truth from the geometry)', () 
     const back = remeasure(cut, { exclude: [] });
     expect(back.quality).toEqual({ verdict: 'ok', reasons: [] });
     expect(back.warnings).toEqual(r.warnings);
-    expect(back.band).toEqual(r.band);
+    // the band as it was; its uncertainty block recomputed from the profile (shares may move one 0.1 % step)
+    expectSameResult({ band: back.band }, { band: r.band });
     expect(Object.keys(back)).toEqual(Object.keys(r));
   });
 });
