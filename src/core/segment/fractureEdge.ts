@@ -18,6 +18,9 @@
  *   steps (`innermost-edge`, `edge-outside-inner-boundary`);
  * - a choice not confirmed by what lies outside it and without a core edge, or with another candidate
  *   further out, is ambiguous (OUTLINE_AMBIGUOUS), as is every step taken without a core edge;
+ * - a much rounder ring just inside the chosen one is the same edge, the chosen one bent outward by a
+ *   shadow: the twin is taken (`roundTwinInside`), and the rings are searched again on circles around
+ *   the circle through the arcs where either is clear (`recentred`: the shadow pulled the centre vote);
  * - with a section diameter given, the ring nearest it within 12 % wins — rule `section-diameter`;
  * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
  * Every ring is reported with its role and a note.
