@@ -176,25 +176,45 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
  * it runs on the root on all rays (coverage 1.0, round to 0.5 px) where the twin covered 59 %.
  */
 function recentred(cues: EdgeCues, fe: FractureEdge, W: number, H: number, ro: { rMin: number; rMax: number; silhouette: Mask | null }, sectionRadiusPx: number | null): FractureEdge {
-  const twin = fe.chosen;
-  const bent = fe.bent;
-  if (!twin || !bent) return fe;
+  const inner = fe.chosen;
+  const outer = inner ? fe.bent ?? partnerOutside(fe, inner) : null;
+  if (!inner || !outer) return fe;
   const pts: PointPx[] = [];
-  for (let t = 0; t < twin.covered.length; t++) {
-    if (twin.covered[t]) pts.push(twin.points[t]);
-    else if (bent.covered[t]) pts.push(bent.points[t]);
+  for (let t = 0; t < inner.covered.length; t++) {
+    if (inner.covered[t]) pts.push(inner.points[t]);
+    else if (outer.covered[t]) pts.push(outer.points[t]);
   }
   const c = pts.length >= 16 ? fitCircle(pts) : null;
   if (!c || !(c.cx >= 0 && c.cy >= 0 && c.cx < W && c.cy < H)) return fe;
   const shift = Math.hypot(c.cx - fe.center.x, c.cy - fe.center.y);
-  // under a pixel the search would find the same rings; beyond 10 % of the radius the arcs are not one circle
-  if (shift < 1 || shift > 0.1 * twin.radiusPx) return fe;
+  // under a pixel the search would find the same rings; beyond 10 % of the radius, or arcs that miss
+  // their circle by more than 1.5 px RMS, they are not one round edge
+  if (shift < 1 || shift > 0.1 * inner.radiusPx || c.rmsResidualPx > 1.5) return fe;
   const centre = { x: c.cx, y: c.cy };
   const again = findRings(cues, { center: centre, ratio: 1, angleDeg: 0 }, ro);
   const found = choose(again.rings, centre, sectionRadiusPx, again.coreRoughness);
   const r = found.chosen;
-  if (!r || Math.abs(r.radiusPx - c.radiusPx) > Math.max(2, 0.01 * c.radiusPx) || r.coverage < twin.coverage || r.roundnessPx > twin.roundnessPx) return fe;
+  if (!r || Math.abs(r.radiusPx - c.radiusPx) > Math.max(2, 0.01 * c.radiusPx) || r.coverage < inner.coverage || r.roundnessPx > inner.roundnessPx) return fe;
   return { ...found, rule: `${found.rule} (circles around the edge found twice)` };
+}
+
+/**
+ * The same edge found twice without the twin rule: the next counted ring just outside the chosen one
+ * (gap ≤ max(4 px, 3 % of r)), clear on ≥ 15 % of the rays where the chosen ring is not, the chosen
+ * ring being clear on < 90 %. A 1 px shift of shadow_left moves the vote so that the inner trace is
+ * chosen directly (it has a core edge inside) and the outer one, on the root on the lit side, is
+ * reported outside: −2.9 % with verdict OK before this.
+ */
+function partnerOutside(fe: FractureEdge, chosen: Ring): Ring | null {
+  if (chosen.coverage >= 0.9) return null;
+  const i = fe.rings.findIndex((v) => v.ring === chosen);
+  const next = fe.rings[i + 1];
+  if (i < 0 || !next || next.role !== 'candidate') return null;
+  const gap = next.ring.radiusPx - chosen.radiusPx;
+  if (!(gap > 0 && gap <= Math.max(4, 0.03 * chosen.radiusPx))) return null;
+  let adds = 0;
+  for (let t = 0; t < chosen.covered.length; t++) if (!chosen.covered[t] && next.ring.covered[t]) adds++;
+  return adds >= 0.15 * chosen.covered.length ? next.ring : null;
 }
 
 /**
