@@ -19,8 +19,9 @@
  * - a choice not confirmed by what lies outside it and without a core edge, or with another candidate
  *   further out, is ambiguous (OUTLINE_AMBIGUOUS), as is every step taken without a core edge;
  * - a much rounder ring just inside the chosen one is the same edge, the chosen one bent outward by a
- *   shadow: the twin is taken (`roundTwinInside`), and the rings are searched again on circles around
- *   the circle through the arcs where either is clear (`recentred`: the shadow pulled the centre vote);
+ *   shadow: the twin is taken (`roundTwinInside`); the rings are then searched again on circles around
+ *   the circle through the arcs where either is clear (`recentred`: the shadow pulled the centre vote),
+ *   as they are when the inner trace was chosen directly beside its partner just outside it;
  * - with a section diameter given, the ring nearest it within 12 % wins — rule `section-diameter`;
  * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
  * Every ring is reported with its role and a note.
@@ -164,8 +165,9 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
 }
 
 /**
- * The edge found twice (a rounder twin taken for a ring bent outward by a shadow, `roundTwinInside`):
- * the twin's covered arcs and the bent ring's covered arcs where the twin is not covered are the same
+ * The edge found twice (a rounder twin taken for a ring bent outward by a shadow, `roundTwinInside`,
+ * or the inner trace chosen directly beside its partner just outside, `partnerOutside`): the twin's
+ * covered arcs and the bent ring's covered arcs where the twin is not covered are the same
  * edge, seen from a centre that the shadow pulled towards itself. On the lit side the twin cannot
  * reach the edge (its search band stops half-way to the bent ring) and the bent ring runs on it; on
  * the shadow side the twin runs on it and the bent ring follows the shadow. The circle through those
