@@ -27,6 +27,7 @@ export {
   WorkingFrame,
   WORKING_LONG_SIDE_PX,
   RESULT_SCHEMA,
+  runWindowVariationJob,
 } from './pipeline/index.js';
 export type {
   Analysis,
@@ -58,6 +59,8 @@ export type {
   Diagnostics,
   Quality,
   QualityVerdict,
+  VariationHelper,
+  WindowVariationJob,
 } from './pipeline/index.js';
 export { judgeQuality, assessQuality, QUALITY_RULES, type QualityRule } from './pipeline/stages/quality.js';
 export { recompute, fullRunReason, rescaleResult, withOutline, scaleFor, OUTLINE_CORRECTED, type RecomputeOutcome } from './pipeline/recompute.js';

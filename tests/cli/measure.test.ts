@@ -59,6 +59,26 @@ describe('fractozone measure', () => {
     expect(JSON.parse(readFileSync(join(out, 'rendered.result.json'), 'utf8')).band.widthUm.mean).toBe(w.mean);
   });
 
+  it('a second thread changes no number: --threads 2 gives the same result as one thread', () => {
+    const args = ['measure', img, '--bar-length', '1mm', '--json', '--bootstrap', '200'];
+    const a = run(args);
+    const b = run([...args, '--threads', '2']);
+    expect(a.status, a.stderr).toBe(0);
+    expect(b.status, b.stderr).toBe(0);
+    const strip = (t: string): MeasureResult => {
+      const r = JSON.parse(t) as MeasureResult;
+      r.diagnostics.timingsMs = {};
+      return r;
+    };
+    const ra = strip(a.stdout);
+    expect(ra.band.uncertainty?.variations.length).toBeGreaterThan(2);
+    expect(ra).toEqual(strip(b.stdout));
+    // nor does running in the one process with V8's background threads (main.ts starts a child without them)
+    const c = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8', env: { ...process.env, FRACTOZONE_V8_THREADS: '1' } });
+    expect(c.status, c.stderr).toBe(0);
+    expect(strip(c.stdout)).toEqual(ra);
+  });
+
   it('--boundary re-measures a corrected boundary and agrees with the core remeasure()', () => {
     const auto = JSON.parse(run(['measure', img, '--pixel-size', '9um', '--json', '--bootstrap', '100']).stdout) as MeasureResult;
     // a corrected boundary: every point moved 4 px towards the centre (band 4 px = 36 µm wider)
@@ -119,6 +139,9 @@ describe('fractozone measure', () => {
     [['IMG', '--pixel-size', '9um', '--exclude', '10-abc'], 2, 'BAD_PARAMETER'],
     [['IMG', '--pixel-size', '9um', '--boundary', 'package.json'], 2, 'BAD_BOUNDARY'],
     [['IMG', '--pixel-size', '9um', '--features', 'localStd,roughness'], 2, 'BAD_PARAMETER'],
+    // with a second thread the errors are the same (the main thread decodes again and reports them)
+    [['package.json', '--pixel-size', '4um', '--threads', '2'], 1, 'NOT_AN_IMAGE'],
+    [['IMG', '--pixel-size', '9um', '--threads', '3'], 2, 'BAD_PARAMETER'],
   ])('bad input %j → exit %i, one line [%s]', (args, code, errCode) => {
     const r = run(['measure', ...args.map((a) => (a === 'IMG' ? img : a)), '--json']);
     expect(r.status).toBe(code);

@@ -4,7 +4,8 @@
  * arcs taken from the truth; the class map appears and covers each class about as the truth does;
  * the model file saved is fractozone.model/1 with the SHA-256 the app shows; the command line
  * measures with that file exactly what the app measures after "Apply to all images"; a second
- * image is measured with the model too; the saved file opens again. The time from the end of the
+ * image is measured with the model too; the saved file opens again and, applied right after
+ * "Without model", measures the shown image with it again. The time from the end of the
  * last stroke to the class map on screen is printed (the target ≤ 1 s is a bench figure, not
  * asserted here).
  */
@@ -146,7 +147,7 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     expect(session.model?.text).toBe(readFileSync(modelFile, 'utf8'));
   });
 
-  it('applies the model to every open image, and opens the saved file again', async () => {
+  it('applies the model to every open image, opens the saved file again and applies it again', async () => {
     const { page } = s;
     const copy = join(dir, 'invented-copy.jpg');
     copyFileSync(sample, copy);
@@ -170,6 +171,12 @@ describe.skipIf(SKIP_E2E)('teach mode in Chromium', () => {
     await page.getByTestId('model-input').setInputFiles(modelFile);
     await expect.poll(() => page.getByTestId('model-shown').textContent(), { timeout: 30_000 }).toContain('taught.model.json');
     expect(await page.getByTestId('model-shown').getAttribute('data-sha256')).toBe(sha);
+    // and applied again: the shown image is measured with it (not left with the fixed rules' result)
+    await page.getByTestId('apply-model').click();
+    await page.getByTestId('model-in-use').waitFor();
+    await page.locator(`[data-testid=result-model][data-sha256="${sha}"]`).waitFor({ timeout: 60_000 });
+    await waitCurrent(page);
+    expect(Math.abs((await currentMean(page)) - meanSample) / meanSample).toBeLessThan(1e-9);
     expect(s.consoleErrors).toEqual([]);
     expect(s.foreignRequests).toEqual([]);
   });

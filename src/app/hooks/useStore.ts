@@ -14,14 +14,16 @@ export interface Store {
 export function useStore(): Store {
   const [state, setState] = useState<AppState>(initialState);
   const ref = useRef(state);
+  // The change is applied to the latest state at once and React is given the result: a flow that
+  // reads get() right after update() must see its own change. With a functional setState React may
+  // run the updater only at the next render (when other updates are queued), so get() returned the
+  // state before the change — "Apply to all" right after a model was opened then measured the
+  // shown image with the series' previous model (none) and left it out of date.
   const update = useCallback<Update>((f) => {
-    setState((s) => {
-      const next = f(s);
-      ref.current = next;
-      return next;
-    });
+    const next = f(ref.current);
+    ref.current = next;
+    setState(next);
   }, []);
   const get = useCallback(() => ref.current, []);
-  ref.current = state;
   return { state, update, get };
 }

@@ -16,8 +16,14 @@
  * 3. The core probability q = P(core) / (P(core) + P(rim)) is the roughness signal of the existing
  *    rim/core classification (segment/rimCore.ts: Otsu split, morphology, the core as the component
  *    at the centre with its holes filled, the separability report and the refusals).
- * 4. Along each ray the boundary is where q crosses ½ nearest the classified core outline; a 5-ray
- *    running median rejects outliers.
+ * 4. Along each ray the model places the boundary and the image refines it: the matched step of q
+ *    (`coreStep`: mean q over a window inside, mean 1 − q over a window outside, largest within
+ *    1.5 windows of the classified core outline), a 5-ray running median, then the texture step of
+ *    the working copy (segment/refine.ts `refineBoundary`) within one window of it. The classified
+ *    core outline alone is a poor start: Otsu's split of q (per sector) takes patches of the band
+ *    the model half takes for core (q ≈ 0.3) into the core, and the texture step searched from
+ *    there found a step inside the band (flank-holder-tint image 2: −4.0 %) or, on the SEM look,
+ *    inside the core (image 1: +3.4 %).
  * 5. Confidence: along the boundary (and the outer edge), the mean probability of the class each
  *    side should have, half a window from the line.
  */
@@ -206,6 +212,56 @@ function polygonOf(radii: (number | null)[], centre: PointPx, nRays: number): Po
   return out;
 }
 
+/**
+ * Along each ray from `centre`: the radius r within ±search of the coarse line (and at least half a
+ * window inside the outer edge) that best separates the core probability q into core inside and
+ * rim outside: the largest mean of q over [r − w, r] and of 1 − q over [r, r + w] (w cut at the
+ * outer edge). A matched step on the probability: a patch of the band the model half takes for core
+ * (q ≈ 0.3) next to the core scores less than the true step, and a dark blob of the core reaching the
+ * band does not move the step outward.
+ */
+export function coreStep(q: Float32Array, W: number, H: number, centre: PointPx, coarse: readonly PointPx[], outer: (number | null)[], nRays: number, w: number, search: number): (number | null)[] {
+  const idx = buildRayIndex(coarse, centre);
+  const out: (number | null)[] = [];
+  const step = 0.5;
+  const k = Math.max(1, Math.round(w / step));
+  for (let i = 0; i < nRays; i++) {
+    const th = (360 * i) / nRays;
+    const hits = castRay(idx, th);
+    const o = outer[i];
+    if (!hits.length || o === null) {
+      out.push(null);
+      continue;
+    }
+    const c = Math.min(hits[hits.length - 1], o - 0.5 * w);
+    const d = rayDirection(th);
+    const t0 = Math.max(0, c - search - w);
+    const t1 = o;
+    const n = Math.max(2, Math.floor((t1 - t0) / step) + 1);
+    const cum = new Float64Array(n + 1);
+    for (let j = 0; j < n; j++) {
+      const t = t0 + j * step;
+      cum[j + 1] = cum[j] + sampleAt(q, W, H, centre.x + t * d.x, centre.y + t * d.y);
+    }
+    let best = -Infinity;
+    let bestT = c;
+    const jLo = Math.max(1, Math.ceil((c - search - t0) / step));
+    const jHi = Math.min(n - 2, Math.floor((Math.min(c + search, o - 0.5 * w) - t0) / step));
+    for (let j = jLo; j <= jHi; j++) {
+      const a = Math.max(0, j - k);
+      const b = Math.min(n, j + k);
+      const score = (cum[j] - cum[a]) / (j - a) + 1 - (cum[b] - cum[j]) / (b - j);
+      const t = t0 + j * step;
+      if (score > best + 1e-9 || (Math.abs(score - best) <= 1e-9 && Math.abs(t - c) < Math.abs(bestT - c))) {
+        best = score;
+        bestT = t;
+      }
+    }
+    out.push(bestT);
+  }
+  return out;
+}
+
 /** q = P(core) / (P(core) + P(rim)): the core probability within the fracture surface. */
 function coreShare(p: ClassProbabilities): Float32Array {
   const q = new Float32Array(p.core.length);
@@ -386,7 +442,10 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
     return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: null, outerEdge: edgeConf }, warnings };
   }
   const outerPoly = polygonOf(outerWork, centre, nRays);
-  const bRadii = refineBoundary(frame.work, outerPoly, rimCore.boundary, centre, { windowPx: w, nRays }).radiiPx;
+  // the model places the step (the matched step of q nearest the classified core outline), the
+  // image refines it (the texture step of refineBoundary within a window of it); see the module comment
+  const guide = runningMedian(coreStep(q, p.width, p.height, centre, rimCore.boundary, outerWork, nRays, w, 1.5 * w), 5);
+  const bRadii = refineBoundary(frame.work, outerPoly, polygonOf(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1 }).radiiPx;
   // a boundary crossing beyond the outer edge is no boundary there
   const b = bRadii.map((r, i) => (r !== null && outerWork[i] !== null && r >= (outerWork[i] as number) ? null : r));
   const halfBand = (i: number): number => Math.max(0.5, Math.min(w / 2, ((outerWork[i] ?? 0) - (b[i] ?? 0)) / 2));

@@ -2,7 +2,10 @@
  * Overlay picture of a measurement: the fractograph in gray, the outer edge, the rim/core boundary,
  * a sample of rays, the detected scale bar, a width label and a drawn scale bar of our own.
  * Pure: returns an RGBA image (the shell encodes it as PNG). Large images are drawn at reduced size
- * (long side ≤ `maxSidePx`, default 1600 px) so an overlay stays a few MB at most.
+ * (the image's long side ≤ `maxSidePx`, default 1600 px) so an overlay stays a few MB at most.
+ * The label sits in a caption band above the image, never over it: a box over the picture hid the
+ * top of the outline and the image's own scale bar (seen on the invented sample fz7-V-r1e-3, where
+ * the label spans 70 % of the width, so no corner was free).
  *
  * Colours (our own choice): outer edge sky blue, boundary amber, valid rays white, invalid or
  * excluded rays red, outlier rays magenta, detected scale bar box green.
@@ -90,6 +93,7 @@ function drawSpecimen(
   lw: number,
   ts: number,
   rayStep: number | undefined,
+  imageTop: number,
 ): void {
   if (o.center && o.rays.length) {
     const step = rayStep ?? Math.max(1, Math.round(o.rays.length / 36));
@@ -119,7 +123,7 @@ function drawSpecimen(
     const size = 2 * ts;
     const tw = measureText(o.name, size).width;
     const x = top.x - tw / 2;
-    const y = Math.max(0, top.y - 12 * size);
+    const y = Math.max(imageTop + size, top.y - 12 * size);
     fillRect(img, x - 2 * size, y - size, x + tw + 2 * size, y + 9 * size, { rgb: [0, 0, 0], alpha: 0.65 });
     drawText(img, o.name, x, y, size, { rgb: [255, 255, 255] });
   }
@@ -143,8 +147,8 @@ function lengthLabel(um: number): string {
  * x1 = max(x0 + 1, ⌊(ox + 1)·fx⌋) (same for y). One sequential pass over the input rows: each
  * row's block sums are added into one accumulator per output column.
  */
-function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
-  const img = createRgbaImage(outW, outH, [0, 0, 0, 255]);
+function grayToRgba(r: GrayRaster, outW: number, outH: number, top = 0): RgbaImage {
+  const img = createRgbaImage(outW, outH + top, [0, 0, 0, 255]);
   const fx = r.width / outW;
   const fy = r.height / outH;
   const d = img.data;
@@ -163,7 +167,7 @@ function grayToRgba(r: GrayRaster, outW: number, outH: number): RgbaImage {
     acc.fill(0);
     for (let y = y0; y < y1; y++) addBlockSums(src, y * W, xb, acc, outW);
     const ny = y1 - y0;
-    let o = oy * outW * 4;
+    let o = (oy + top) * outW * 4;
     for (let ox = 0; ox < outW; ox++, o += 4) {
       const v = Math.max(0, Math.min(255, Math.round((acc[ox] / (ny * (xb[ox] - xa[ox]))) * 255)));
       d[o] = v;
@@ -197,14 +201,17 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
   const k = Math.min(1, maxSide / Math.max(o.raster.width, o.raster.height));
   const W = Math.max(1, Math.round(o.raster.width * k));
   const H = Math.max(1, Math.round(o.raster.height * k));
-  const img = grayToRgba(o.raster, W, H);
-  // Map full-resolution pixel centres to overlay pixel centres.
-  const m = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * k - 0.5, y: (p.y + 0.5) * k - 0.5 });
+  const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
+  const lineH = 9 * ts;
+  // caption band above the image, as tall as the label
+  const top = o.label.length ? o.label.length * lineH + 6 * ts : 0;
+  const img = grayToRgba(o.raster, W, H, top);
+  // Map full-resolution pixel centres to overlay pixel centres (below the caption band).
+  const m = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * k - 0.5, y: (p.y + 0.5) * k - 0.5 + top });
   const lw = Math.max(1.5, Math.min(W, H) / 500);
 
-  const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
-  drawSpecimen(img, { name: o.name ?? '', center: o.center, outer: o.outer, boundary: o.boundary, rays: o.rays }, m, lw, ts, o.rayStep);
-  for (const sp of o.others ?? []) drawSpecimen(img, sp, m, lw, ts, o.rayStep);
+  drawSpecimen(img, { name: o.name ?? '', center: o.center, outer: o.outer, boundary: o.boundary, rays: o.rays }, m, lw, ts, o.rayStep, top);
+  for (const sp of o.others ?? []) drawSpecimen(img, sp, m, lw, ts, o.rayStep, top);
   if (o.scaleBar) {
     const b = o.scaleBar;
     const t = (b.thicknessPx ?? 4) / 2 + 4 / k;
@@ -213,13 +220,8 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
     drawPolyline(img, [p0, { x: p1.x, y: p0.y }, p1, { x: p0.x, y: p1.y }], Math.max(1, lw * 0.7), BAR_BOX, true);
   }
 
-  // Label box, top-left.
-  const lineH = 9 * ts;
-  const textW = Math.max(0, ...o.label.map((s) => measureText(s, ts).width));
-  if (o.label.length) {
-    fillRect(img, 0, 0, Math.min(W - 1, textW + 8 * ts), Math.min(H - 1, o.label.length * lineH + 6 * ts), { rgb: [0, 0, 0], alpha: 0.65 });
-    o.label.forEach((s, i) => drawText(img, s, 4 * ts, 3 * ts + i * lineH, ts, { rgb: [255, 255, 255] }));
-  }
+  // Label in the caption band (black already).
+  o.label.forEach((s, i) => drawText(img, s, 4 * ts, 3 * ts + i * lineH, ts, { rgb: [255, 255, 255] }));
 
   // Our own scale bar, bottom-left on a dark plate: a round length near 1/5 of the width.
   const umPerOverlayPx = o.umPerPx / k;
@@ -230,8 +232,8 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
     const plateW = Math.max(lenPx, measureText(txt, ts).width) + 8 * ts;
     const plateH = 9 * ts + 4 * ts + 6 * ts;
     const x0 = 4 * ts;
-    const y0 = H - plateH - 4 * ts;
-    if (y0 > 0 && x0 + plateW < W) {
+    const y0 = top + H - plateH - 4 * ts;
+    if (y0 > top && x0 + plateW < W) {
       fillRect(img, x0, y0, x0 + plateW, y0 + plateH, { rgb: [0, 0, 0], alpha: 0.65 });
       drawText(img, txt, x0 + 4 * ts, y0 + 2 * ts, ts, { rgb: [255, 255, 255] });
       fillRect(img, x0 + 4 * ts, y0 + 11 * ts, x0 + 4 * ts + lenPx - 1, y0 + 14 * ts, { rgb: [255, 255, 255] });

@@ -18,6 +18,10 @@
  *   steps (`innermost-edge`, `edge-outside-inner-boundary`);
  * - a choice not confirmed by what lies outside it and without a core edge, or with another candidate
  *   further out, is ambiguous (OUTLINE_AMBIGUOUS), as is every step taken without a core edge;
+ * - a much rounder ring just inside the chosen one is the same edge, the chosen one bent outward by a
+ *   shadow: the twin is taken (`roundTwinInside`); the rings are then searched again on circles around
+ *   the circle through the arcs where either is clear (`recentred`: the shadow pulled the centre vote),
+ *   as they are when the inner trace was chosen directly beside its partner just outside it;
  * - with a section diameter given, the ring nearest it within 12 % wins — rule `section-diameter`;
  * - no ring chosen: the silhouette, with warning OUTLINE_FROM_SILHOUETTE.
  * Every ring is reported with its role and a note.
@@ -53,6 +57,8 @@ export interface FractureEdge {
   ambiguous: boolean;
   /** The section diameter was given and no ring lies within 12 % of it. */
   sectionNotFound: boolean;
+  /** The ring first taken for the edge when a rounder twin just inside it replaced it (`roundTwinInside`), else null. */
+  bent: Ring | null;
 }
 
 const MACHINED_RADIAL = 0.68;
@@ -136,7 +142,7 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
   const rMin = 0.15 * Math.min(R, minSide / 2);
   const search = findRings(cues, shape, { rMin, rMax, silhouette: offCentre ? null : sil.mask });
   const first = choose(search.rings, center, o.sectionRadiusPx, search.coreRoughness);
-  if (first.chosen) return first;
+  if (first.chosen) return recentred(cues, first, W, H, { rMin, rMax, silhouette: offCentre ? null : sil.mask }, o.sectionRadiusPx);
   // No closed edge on the first grid: the silhouette that shaped it may be merged with a holder or a
   // shadow (its ellipse then bends the grid), or a shadow pulled the centre vote off the edge. Look
   // again on circles around the voted centre, then around the circle through the covered arcs of
@@ -151,11 +157,66 @@ function searchAround(cues: EdgeCues, work: GrayRaster, o: FractureEdgeOptions):
     }
     const again = findRings(cues, { center: c, ratio: 1, angleDeg: 0 }, { rMin, rMax, silhouette: null });
     const found = choose(again.rings, c, o.sectionRadiusPx, again.coreRoughness);
-    if (found.chosen) return { ...found, rule: `${found.rule} (circles${c === center ? '' : ' through the covered arcs'})` };
+    if (found.chosen) return recentred(cues, { ...found, rule: `${found.rule} (circles${c === center ? '' : ' through the covered arcs'})` }, W, H, { rMin, rMax, silhouette: null }, o.sectionRadiusPx);
     rings = again.rings;
     last = c;
   }
   return first;
+}
+
+/**
+ * The edge found twice (a rounder twin taken for a ring bent outward by a shadow, `roundTwinInside`,
+ * or the inner trace chosen directly beside its partner just outside, `partnerOutside`): the twin's
+ * covered arcs and the bent ring's covered arcs where the twin is not covered are the same
+ * edge, seen from a centre that the shadow pulled towards itself. On the lit side the twin cannot
+ * reach the edge (its search band stops half-way to the bent ring) and the bent ring runs on it; on
+ * the shadow side the twin runs on it and the bent ring follows the shadow. The circle through those
+ * arcs re-centres the search: the rings are found again on circles around it, and that search is
+ * taken when its chosen ring is the same edge (within max(2 px, 1 %) of the circle's radius), at least
+ * as clear (coverage) and as round as the twin. External shadow_left: the vote was 5.5 px off towards
+ * the shadow, the circle through the arcs is 0.1 px from the true centre, and the ring found around
+ * it runs on the root on all rays (coverage 1.0, round to 0.5 px) where the twin covered 59 %.
+ */
+function recentred(cues: EdgeCues, fe: FractureEdge, W: number, H: number, ro: { rMin: number; rMax: number; silhouette: Mask | null }, sectionRadiusPx: number | null): FractureEdge {
+  const inner = fe.chosen;
+  const outer = inner ? fe.bent ?? partnerOutside(fe, inner) : null;
+  if (!inner || !outer) return fe;
+  const pts: PointPx[] = [];
+  for (let t = 0; t < inner.covered.length; t++) {
+    if (inner.covered[t]) pts.push(inner.points[t]);
+    else if (outer.covered[t]) pts.push(outer.points[t]);
+  }
+  const c = pts.length >= 16 ? fitCircle(pts) : null;
+  if (!c || !(c.cx >= 0 && c.cy >= 0 && c.cx < W && c.cy < H)) return fe;
+  const shift = Math.hypot(c.cx - fe.center.x, c.cy - fe.center.y);
+  // under a pixel the search would find the same rings; beyond 10 % of the radius, or arcs that miss
+  // their circle by more than 1.5 px RMS, they are not one round edge
+  if (shift < 1 || shift > 0.1 * inner.radiusPx || c.rmsResidualPx > 1.5) return fe;
+  const centre = { x: c.cx, y: c.cy };
+  const again = findRings(cues, { center: centre, ratio: 1, angleDeg: 0 }, ro);
+  const found = choose(again.rings, centre, sectionRadiusPx, again.coreRoughness);
+  const r = found.chosen;
+  if (!r || Math.abs(r.radiusPx - c.radiusPx) > Math.max(2, 0.01 * c.radiusPx) || r.coverage < inner.coverage || r.roundnessPx > inner.roundnessPx) return fe;
+  return { ...found, rule: `${found.rule} (circles around the edge found twice)` };
+}
+
+/**
+ * The same edge found twice without the twin rule: the next counted ring just outside the chosen one
+ * (gap ≤ max(4 px, 3 % of r)), clear on ≥ 15 % of the rays where the chosen ring is not, the chosen
+ * ring being clear on < 90 %. A 1 px shift of shadow_left moves the vote so that the inner trace is
+ * chosen directly (it has a core edge inside) and the outer one, on the root on the lit side, is
+ * reported outside: −2.9 % with verdict OK before this.
+ */
+function partnerOutside(fe: FractureEdge, chosen: Ring): Ring | null {
+  if (chosen.coverage >= 0.9) return null;
+  const i = fe.rings.findIndex((v) => v.ring === chosen);
+  const next = fe.rings[i + 1];
+  if (i < 0 || !next || next.role !== 'candidate') return null;
+  const gap = next.ring.radiusPx - chosen.radiusPx;
+  if (!(gap > 0 && gap <= Math.max(4, 0.03 * chosen.radiusPx))) return null;
+  let adds = 0;
+  for (let t = 0; t < chosen.covered.length; t++) if (!chosen.covered[t] && next.ring.covered[t]) adds++;
+  return adds >= 0.15 * chosen.covered.length ? next.ring : null;
 }
 
 /**
@@ -259,7 +320,7 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
     // from, or another candidate further out: a person should look
     ambiguous = (!confirmed && (further || core < 0)) || (core < 0 && stepped);
   }
-  return { chosen: chosen >= 0 ? rings[chosen] : null, rule, rings: verdicts, center, innerRoundEdge, ambiguous, sectionNotFound };
+  return { chosen: chosen >= 0 ? rings[chosen] : null, rule, rings: verdicts, center, innerRoundEdge, ambiguous, sectionNotFound, bent: bent >= 0 ? rings[bent] : null };
 }
 
 /**

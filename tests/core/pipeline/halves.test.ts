@@ -152,9 +152,10 @@ describe('the rendered halves scene', () => {
     const img = resultOverlay(raster, result, 800);
     // the amber boundary colour near B's boundary: B is drawn, not only A
     const k = 800 / raster.width;
+    const band = img.height - Math.round(raster.height * k); // the caption band above the image
     const q = result.specimens![1].band.boundary!.polygon[0];
     const x = Math.round((q.x + 0.5) * k - 0.5);
-    const y = Math.round((q.y + 0.5) * k - 0.5);
+    const y = Math.round((q.y + 0.5) * k - 0.5) + band;
     let amber = 0;
     for (let dy = -2; dy <= 2; dy++) {
       for (let dx = -2; dx <= 2; dx++) {

@@ -8,7 +8,8 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { encodeRender, findScene, renderFractograph } from '../../../src/core/render/index.js';
-import { analyseImage, defaultParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
+import { analyseDecoded, analyseImage, defaultParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
+import { decodeImage } from '../../../src/core/decode/index.js';
 
 const EXT = join(__dirname, '../../fixtures/external/scenes');
 
@@ -162,23 +163,40 @@ describe('specimen in a holder: the edge is found on circles when the silhouette
   }
 });
 
-describe('no silent wrong outline', () => {
-  it('shadow_left.jpg (independent generator): an edge not confirmed by what lies outside it is flagged OUTLINE_AMBIGUOUS, verdict not ok', async () => {
-    const { r } = await externalScene('shadow_left.jpg');
-    expect(r.warnings.map((w) => w.code)).toContain('OUTLINE_AMBIGUOUS');
-    expect(r.quality.verdict).not.toBe('ok');
-  });
-
-  it('shadow_left.jpg: the rounder twin just inside the shadow-bent ring is taken (outline within 1 %, band within 4 %, was +6.8 %)', async () => {
+describe('a shadow against one side of the root', () => {
+  it('shadow_left.jpg (independent generator): the edge found twice (a rounder twin inside a shadow-bent ring) re-centres the search; the edge found again around the circle through both is round and clear on every ray: outline within 0.5 %, band within 2 % (was −3.3 %, flagged OUTLINE_AMBIGUOUS)', async () => {
     const { r, radiusPx, meanUm } = await externalScene('shadow_left.jpg');
     const es = r.specimen.edgeSearch!;
+    expect(es.rule).toContain('circles around the edge found twice');
     const chosen = es.candidates.find((c) => c.role === 'chosen')!;
-    // the bent ring (follows the shadow) is reported beside it, a few px larger and less round
-    const bent = es.candidates.find((c) => c.note.startsWith('the same edge as the rounder ring'));
-    expect(bent).toBeDefined();
-    expect(bent!.diameterPx).toBeGreaterThan(chosen.diameterPx);
-    expect(bent!.roundnessPx).toBeGreaterThan(2 * chosen.roundnessPx);
-    expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(1);
-    expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(4);
+    // the twin alone covered 59 % of the rays and sat up to 6 px inside the root on the lit side
+    expect(chosen.coverage).toBeGreaterThanOrEqual(0.9);
+    expect(chosen.roundnessPx).toBeLessThan(1);
+    // the search centre is the specimen's, not the shadow-pulled vote (5.5 px off)
+    const truth = JSON.parse(readFileSync(join(EXT, 'shadow_left.truth.json'), 'utf8'));
+    expect(Math.hypot(chosen.center.x - truth.center.x, chosen.center.y - truth.center.y)).toBeLessThan(1);
+    expect(Math.abs(errPct(r.specimen.radiusPx, radiusPx))).toBeLessThan(0.5);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, meanUm))).toBeLessThan(2);
+    expect(r.band.widthUm!.ci95[0]).toBeLessThanOrEqual(meanUm);
+    expect(r.band.widthUm!.ci95[1]).toBeGreaterThanOrEqual(meanUm);
+  });
+
+  // The centre vote moves by a few px when the picture is shifted by one: on main, 9 of 15 shifts of up
+  // to 3 px gave −2.8 … −3.3 % (five of them with verdict OK). Shifted right by 1 px the inner trace is
+  // chosen directly (a core edge inside it) and the outer one runs on the root on the lit side; shifted
+  // down by 2 px the twin rule fires as on the original. Both are re-centred.
+  it.each([[1, 0], [0, 2]])('shadow_left.jpg shifted by (%i, %i) px: re-centred as well, band within 2 %', (dx, dy) => {
+    const truth = JSON.parse(readFileSync(join(EXT, 'shadow_left.truth.json'), 'utf8'));
+    const d = decodeImage(new Uint8Array(readFileSync(join(EXT, 'shadow_left.jpg'))));
+    const { width: W, height: H, data } = d.raster;
+    const moved = new (data.constructor as new (n: number) => typeof data)(data.length);
+    for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) moved[y * W + x] = data[Math.min(H - 1, Math.max(0, y - dy)) * W + Math.min(W - 1, Math.max(0, x - dx))];
+    const p = defaultParams();
+    p.scale.pixelSizeUm = truth.umPerPx;
+    p.bootstrap = 0;
+    const { result: r } = analyseDecoded({ ...d, raster: { ...d.raster, data: moved } }, { file: 'shadow_left.jpg', sha256: 'test' }, p);
+    expect(r.specimen.edgeSearch!.rule).toContain('circles around the edge found twice');
+    expect(Math.abs(errPct(r.specimen.radiusPx, 255))).toBeLessThan(0.5);
+    expect(Math.abs(errPct(r.band.widthUm!.mean, truth.band.meanWidthUm))).toBeLessThan(2);
   });
 });
