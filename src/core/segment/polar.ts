@@ -99,12 +99,28 @@ export interface PolarShape {
 
 /** The point at polar coordinates (θ index of nTheta, radius r along the major-axis scale). */
 export function polarPoint(shape: PolarShape, theta: number, r: number): PointPx {
+  return polarAt(shape, polarRay(shape, theta), r);
+}
+
+/** The trigonometry of one ray of the polar frame (the angle θ and the major-axis angle). */
+export interface PolarRay {
+  cosT: number;
+  sinT: number;
+  ca: number;
+  sa: number;
+}
+
+/** Cosines and sines of one ray, computed once for all its radii (annulus.ts reads many). */
+export function polarRay(shape: PolarShape, theta: number): PolarRay {
   const a = (shape.angleDeg * Math.PI) / 180;
-  const ca = Math.cos(a);
-  const sa = Math.sin(a);
-  const u = r * Math.cos(theta);
-  const v = r * shape.ratio * Math.sin(theta);
-  return { x: shape.center.x + u * ca - v * sa, y: shape.center.y + u * sa + v * ca };
+  return { cosT: Math.cos(theta), sinT: Math.sin(theta), ca: Math.cos(a), sa: Math.sin(a) };
+}
+
+/** The point at radius r on a ray: the same operations as {@link polarPoint}. */
+export function polarAt(shape: PolarShape, ray: PolarRay, r: number): PointPx {
+  const u = r * ray.cosT;
+  const v = r * shape.ratio * ray.sinT;
+  return { x: shape.center.x + u * ray.ca - v * ray.sa, y: shape.center.y + u * ray.sa + v * ray.ca };
 }
 
 /** Cues sampled on an (nTheta × nR) polar grid; row = angle, column = radius step. */

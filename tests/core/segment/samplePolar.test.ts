@@ -3,7 +3,7 @@
  * against four separate `bilinear` calls per sample, as it was written before.
  */
 import { describe, expect, it } from 'vitest';
-import { bilinear, samplePolar, type EdgeCues } from '../../../src/core/segment/polar.js';
+import { bilinear, polarAt, polarPoint, polarRay, samplePolar, type EdgeCues } from '../../../src/core/segment/polar.js';
 
 function lcg(seed: number): () => number {
   let s = seed >>> 0;
@@ -49,5 +49,26 @@ describe('samplePolar', () => {
       }
     }
     expect(inside).toBeGreaterThan(500);
+  });
+});
+
+describe('polarRay / polarAt', () => {
+  it('give the points of polarPoint (the ray computed once for many radii)', () => {
+    const rnd = lcg(11);
+    for (let n = 0; n < 50; n++) {
+      const shape = { center: { x: rnd() * 500, y: rnd() * 400 }, ratio: 0.3 + 0.7 * rnd(), angleDeg: rnd() * 360 - 180 };
+      const theta = (2 * Math.PI * Math.floor(rnd() * 180)) / 180;
+      const ray = polarRay(shape, theta);
+      for (let j = 0; j < 40; j++) {
+        const r = j * 0.5 + 3 * rnd();
+        // polarPoint as it was written before (its own trigonometry per call)
+        const a = (shape.angleDeg * Math.PI) / 180;
+        const u = r * Math.cos(theta);
+        const v = r * shape.ratio * Math.sin(theta);
+        const ref = { x: shape.center.x + u * Math.cos(a) - v * Math.sin(a), y: shape.center.y + u * Math.sin(a) + v * Math.cos(a) };
+        expect(polarAt(shape, ray, r)).toEqual(ref);
+        expect(polarPoint(shape, theta, r)).toEqual(ref);
+      }
+    }
   });
 });
