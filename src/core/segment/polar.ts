@@ -67,13 +67,7 @@ export function edgeCues(r: GrayRaster, windowPx: number): EdgeCues {
     const meanSq = mk();
     cv.blur(g1, mean, new cv.Size(w, w), anchor, cv.BORDER_REFLECT_101);
     cv.blur(sq, meanSq, new cv.Size(w, w), anchor, cv.BORDER_REFLECT_101);
-    const m = mean.data32F;
-    const m2 = meanSq.data32F;
-    const rough = new Float32Array(m.length);
-    for (let i = 0; i < m.length; i++) {
-      const v = Math.max(0, m2[i] - m[i] * m[i]);
-      rough[i] = Math.log((Math.sqrt(v) + 1e-4) / (m[i] + 0.05));
-    }
+    const rough = logRoughness(mean.data32F as Float32Array, meanSq.data32F as Float32Array);
     return {
       width: r.width,
       height: r.height,
@@ -86,6 +80,19 @@ export function edgeCues(r: GrayRaster, windowPx: number): EdgeCues {
   } finally {
     for (const m of mats) m.delete();
   }
+}
+
+/**
+ * ln((local std + 1e-4) / (local mean + 0.05)) per pixel. A loop of its own (issue 16: per-pixel
+ * loops inside a long function are optimised late, DEVELOPERS.md "Performance notes").
+ */
+function logRoughness(m: Float32Array, m2: Float32Array): Float32Array {
+  const rough = new Float32Array(m.length);
+  for (let i = 0; i < m.length; i++) {
+    const v = Math.max(0, m2[i] - m[i] * m[i]);
+    rough[i] = Math.log((Math.sqrt(v) + 1e-4) / (m[i] + 0.05));
+  }
+  return rough;
 }
 
 /** An elliptic polar frame: centre, axis ratio (minor/major ≤ 1) and major-axis angle. */
