@@ -157,10 +157,11 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
     if (box) decideBand(up.data as Uint8Array, W, H, box, band, gaussian1(r), level, bright, others ? upsampleNearest(others, W, H) : null, out.data);
     fillHoles(out);
     const target = maskCentroid(coarse, W, H);
+    // no fillHoles after this: `out` has no holes, and one 8-connected component of it has none
+    // either (a removed component is not 8-adjacent to the kept one, so each of its pixels reaches
+    // the old background along a row: tests/core/segment/specimenBand.test.ts checks it)
     const kept = keepComponent(out, target, 0.25);
-    if (!kept) return out;
-    fillHoles(kept);
-    return kept;
+    return kept ?? out;
   } finally {
     c.delete();
     up.delete();

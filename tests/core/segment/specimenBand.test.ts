@@ -5,10 +5,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
-import { rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
+import { fillHoles, keepComponent, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
 import { decideBand } from '../../../src/core/segment/specimen.js';
 import { gaussian1 } from '../../../src/core/segment/smooth.js';
-import { createRaster } from '../../../src/core/image/raster.js';
+import { createMask, createRaster } from '../../../src/core/image/raster.js';
 
 function lcg(seed: number): () => number {
   let s = seed >>> 0;
@@ -72,6 +72,39 @@ describe('gaussian1', () => {
       expect(gaussian1(r)).toBe(g);
     } finally {
       m.delete();
+    }
+  });
+});
+
+describe('one component of a hole-free mask', () => {
+  it('has no holes: fillHoles after keepComponent changes nothing (specimen.ts skips it)', () => {
+    for (let seed = 1; seed <= 12; seed++) {
+      const rnd = lcg(seed * 31);
+      const W = 60 + Math.floor(rnd() * 40);
+      const H = 50 + Math.floor(rnd() * 40);
+      const m = createMask(W, H);
+      // rings, discs and specks, some inside others' holes, some touching diagonally or the frame
+      for (let n = 0; n < 14; n++) {
+        const cx = rnd() * W;
+        const cy = rnd() * H;
+        const ro = 2 + rnd() * 18;
+        const ri = rnd() < 0.5 ? ro * (0.3 + 0.5 * rnd()) : 0;
+        for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+          const d = Math.hypot(x - cx, y - cy);
+          if (d < ro && d >= ri) m.data[y * W + x] = 1;
+        }
+      }
+      for (let i = 0; i < m.data.length; i++) if (rnd() < 0.03) m.data[i] = 1;
+      fillHoles(m);
+      for (const target of [{ x: W / 2, y: H / 2 }, { x: 3, y: 3 }, { x: W - 5, y: H / 3 }]) {
+        const kept = keepComponent(m, target, 0);
+        expect(kept).not.toBeNull();
+        if (!kept) continue;
+        const again = createMask(W, H);
+        again.data.set(kept.data);
+        fillHoles(again);
+        expect(Array.from(again.data)).toEqual(Array.from(kept.data));
+      }
     }
   });
 });
