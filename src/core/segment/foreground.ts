@@ -91,7 +91,7 @@ function computeForeground(r: GrayRaster, opts: ForegroundOptions): CoarseForegr
     const bgMed = quantile(border, 0.5);
     level = 0.5 * (level + bgMed);
     const m = createMask(w, h);
-    for (let i = 0; i < sd.length; i++) m.data[i] = (sd[i] > level) !== bright ? 1 : 0;
+    thresholdInto(sd, level, bright, m.data);
     if (opts.useTexture ?? true) addTexture(small, m, border.length, w, h);
     let mask: Mask;
     const mm = maskToMat(m);
@@ -129,8 +129,7 @@ function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number)
     cv.boxFilter(sq, mean2, -1, k, new cv.Point(-1, -1), true, cv.BORDER_REFLECT_101);
     const a = mean.data32F as Float32Array;
     const b = mean2.data32F as Float32Array;
-    const ls = new Float32Array(a.length);
-    for (let i = 0; i < a.length; i++) ls[i] = 0.5 * Math.log(Math.max(b[i] - a[i] * a[i], 1e-12));
+    const ls = logStd(a, b);
     const border: number[] = [];
     for (let x = 0; x < w; x++) border.push(ls[x], ls[(h - 1) * w + x]);
     for (let y = 0; y < h; y++) border.push(ls[y * w], ls[y * w + w - 1]);
@@ -147,3 +146,15 @@ function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number)
   }
 }
 
+
+/** 1 where the smoothed intensity lies on the surface's side of `level` (loops of their own: issue 16, see logRoughness in polar.ts). */
+function thresholdInto(sd: Float32Array, level: number, bright: boolean, out: Uint8Array): void {
+  for (let i = 0; i < sd.length; i++) out[i] = (sd[i] > level) !== bright ? 1 : 0;
+}
+
+/** ln of the local standard deviation from the box means of x and x² (variance floored at 1e-12). */
+function logStd(a: Float32Array, b: Float32Array): Float32Array {
+  const ls = new Float32Array(a.length);
+  for (let i = 0; i < a.length; i++) ls[i] = 0.5 * Math.log(Math.max(b[i] - a[i] * a[i], 1e-12));
+  return ls;
+}

@@ -16,6 +16,7 @@ import { getCv, type Mat } from '../cv.js';
 import type { GrayRaster } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
 import { rasterToMat } from './cvutil.js';
+import { gaussian1 } from './smooth.js';
 
 /** The cue rasters (working px, same size as the working copy). */
 export interface EdgeCues {
@@ -46,8 +47,10 @@ export function edgeCues(r: GrayRaster, windowPx: number): EdgeCues {
   };
   try {
     const anchor = new cv.Point(-1, -1);
-    const g1 = mk();
-    cv.GaussianBlur(src, g1, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT_101);
+    // σ = 1: shared with the silhouette's edge band (smooth.ts)
+    const g1 = new cv.Mat(r.height, r.width, cv.CV_32F);
+    mats.push(g1);
+    (g1.data32F as Float32Array).set(gaussian1(r));
     const g07 = mk();
     cv.GaussianBlur(src, g07, new cv.Size(0, 0), 0.7, 0.7, cv.BORDER_REFLECT_101);
     const g2 = mk();
@@ -64,13 +67,7 @@ export function edgeCues(r: GrayRaster, windowPx: number): EdgeCues {
     const meanSq = mk();
     cv.blur(g1, mean, new cv.Size(w, w), anchor, cv.BORDER_REFLECT_101);
     cv.blur(sq, meanSq, new cv.Size(w, w), anchor, cv.BORDER_REFLECT_101);
-    const m = mean.data32F;
-    const m2 = meanSq.data32F;
-    const rough = new Float32Array(m.length);
-    for (let i = 0; i < m.length; i++) {
-      const v = Math.max(0, m2[i] - m[i] * m[i]);
-      rough[i] = Math.log((Math.sqrt(v) + 1e-4) / (m[i] + 0.05));
-    }
+    const rough = logRoughness(mean.data32F as Float32Array, meanSq.data32F as Float32Array);
     return {
       width: r.width,
       height: r.height,
@@ -85,6 +82,19 @@ export function edgeCues(r: GrayRaster, windowPx: number): EdgeCues {
   }
 }
 
+/**
+ * ln((local std + 1e-4) / (local mean + 0.05)) per pixel. A loop of its own (issue 16: per-pixel
+ * loops inside a long function are optimised late, DEVELOPERS.md "Performance notes").
+ */
+function logRoughness(m: Float32Array, m2: Float32Array): Float32Array {
+  const rough = new Float32Array(m.length);
+  for (let i = 0; i < m.length; i++) {
+    const v = Math.max(0, m2[i] - m[i] * m[i]);
+    rough[i] = Math.log((Math.sqrt(v) + 1e-4) / (m[i] + 0.05));
+  }
+  return rough;
+}
+
 /** An elliptic polar frame: centre, axis ratio (minor/major ≤ 1) and major-axis angle. */
 export interface PolarShape {
   center: PointPx;
@@ -96,12 +106,28 @@ export interface PolarShape {
 
 /** The point at polar coordinates (θ index of nTheta, radius r along the major-axis scale). */
 export function polarPoint(shape: PolarShape, theta: number, r: number): PointPx {
+  return polarAt(shape, polarRay(shape, theta), r);
+}
+
+/** The trigonometry of one ray of the polar frame (the angle θ and the major-axis angle). */
+export interface PolarRay {
+  cosT: number;
+  sinT: number;
+  ca: number;
+  sa: number;
+}
+
+/** Cosines and sines of one ray, computed once for all its radii (annulus.ts reads many). */
+export function polarRay(shape: PolarShape, theta: number): PolarRay {
   const a = (shape.angleDeg * Math.PI) / 180;
-  const ca = Math.cos(a);
-  const sa = Math.sin(a);
-  const u = r * Math.cos(theta);
-  const v = r * shape.ratio * Math.sin(theta);
-  return { x: shape.center.x + u * ca - v * sa, y: shape.center.y + u * sa + v * ca };
+  return { cosT: Math.cos(theta), sinT: Math.sin(theta), ca: Math.cos(a), sa: Math.sin(a) };
+}
+
+/** The point at radius r on a ray: the same operations as {@link polarPoint}. */
+export function polarAt(shape: PolarShape, ray: PolarRay, r: number): PointPx {
+  const u = r * ray.cosT;
+  const v = r * shape.ratio * ray.sinT;
+  return { x: shape.center.x + u * ray.ca - v * ray.sa, y: shape.center.y + u * ray.sa + v * ray.ca };
 }
 
 /** Cues sampled on an (nTheta × nR) polar grid; row = angle, column = radius step. */
@@ -119,7 +145,8 @@ export interface PolarCues {
   inside: Uint8Array;
 }
 
-function bilinear(d: Float32Array, w: number, h: number, x: number, y: number): number {
+/** Bilinear sample of a w × h raster at (x, y) (0 ≤ x ≤ w − 1, 0 ≤ y ≤ h − 1). */
+export function bilinear(d: Float32Array, w: number, h: number, x: number, y: number): number {
   const x0 = Math.floor(x);
   const y0 = Math.floor(y);
   const fx = x - x0;
@@ -170,14 +197,38 @@ export function samplePolar(cues: EdgeCues, shape: PolarShape, nTheta: number, r
       const k = t * nR + j;
       if (x < 0 || y < 0 || x > W - 1 || y > H - 1) continue;
       out.inside[k] = 1;
-      out.intensity[k] = bilinear(cues.intensity, W, H, x, y);
-      out.roughness[k] = bilinear(cues.roughness, W, H, x, y);
-      const gx = bilinear(cues.detailGx, W, H, x, y);
-      const gy = bilinear(cues.detailGy, W, H, x, y);
-      const gr = gx * nx + gy * ny;
-      out.gradRadial2[k] = gr * gr;
-      out.grad2[k] = gx * gx + gy * gy;
+      sampleAt(cues, W, H, x, y, nx, ny, out, k);
     }
   }
   return out;
+}
+
+/**
+ * The four cues at (x, y) into sample k: `bilinear` of each, with the cell and the weights found
+ * once (the same expression per cue, so the same values; issue 16: four separate calls per sample).
+ */
+function sampleAt(cues: EdgeCues, W: number, H: number, x: number, y: number, nx: number, ny: number, out: PolarCues, k: number): void {
+  const x0 = Math.floor(x);
+  const y0 = Math.floor(y);
+  const fx = x - x0;
+  const fy = y - y0;
+  const x1 = Math.min(W - 1, x0 + 1);
+  const y1 = Math.min(H - 1, y0 + 1);
+  const i00 = y0 * W + x0;
+  const i01 = y0 * W + x1;
+  const i10 = y1 * W + x0;
+  const i11 = y1 * W + x1;
+  const ex = 1 - fx;
+  const ey = 1 - fy;
+  const I = cues.intensity;
+  const R = cues.roughness;
+  const Gx = cues.detailGx;
+  const Gy = cues.detailGy;
+  out.intensity[k] = (I[i00] * ex + I[i01] * fx) * ey + (I[i10] * ex + I[i11] * fx) * fy;
+  out.roughness[k] = (R[i00] * ex + R[i01] * fx) * ey + (R[i10] * ex + R[i11] * fx) * fy;
+  const gx = (Gx[i00] * ex + Gx[i01] * fx) * ey + (Gx[i10] * ex + Gx[i11] * fx) * fy;
+  const gy = (Gy[i00] * ex + Gy[i01] * fx) * ey + (Gy[i10] * ex + Gy[i11] * fx) * fy;
+  const gr = gx * nx + gy * ny;
+  out.gradRadial2[k] = gr * gr;
+  out.grad2[k] = gx * gx + gy * gy;
 }

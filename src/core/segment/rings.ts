@@ -62,7 +62,7 @@ export interface RingSearch {
 }
 
 /** The value at rank round(p·(n − 1)) of the sorted values (selection on a copy: statistics.ts `select`). */
-function q(values: Float32Array | number[], p: number): number {
+function q(values: Float32Array | Float64Array | number[], p: number): number {
   const a = Float64Array.from(values);
   if (a.length === 0) return NaN;
   return select(a, Math.min(a.length - 1, Math.max(0, Math.round(p * (a.length - 1)))));
@@ -77,54 +77,17 @@ export function voteCentre(cues: EdgeCues, rMin: number, rMax: number, near: Poi
   const { width: W, height: H } = cues;
   const aw = Math.ceil(W / 2);
   const ah = Math.ceil(H / 2);
-  const acc = new Float32Array(aw * ah);
-  const fields = [cues.intensity, cues.roughness];
-  for (const f of fields) {
-    const gm: number[] = [];
-    const gxs = new Float32Array(W * H);
-    const gys = new Float32Array(W * H);
-    const step = 2;
-    const sd = Math.max(1, Math.round(cues.windowPx / 4));
-    for (let y = sd; y < H - sd; y += step) {
-      for (let x = sd; x < W - sd; x += step) {
-        const i = y * W + x;
-        const gx = f[i + sd] - f[i - sd];
-        const gy = f[i + sd * W] - f[i - sd * W];
-        gxs[i] = gx;
-        gys[i] = gy;
-        gm.push(gx * gx + gy * gy);
-      }
-    }
-    const thr = q(gm, 0.93);
+  // vote counts are whole numbers far below 2^24: integer counts are what a float accumulator held
+  const acc = new Int32Array(aw * ah);
+  const step = 2;
+  const sd = Math.max(1, Math.round(cues.windowPx / 4));
+  for (const f of [cues.intensity, cues.roughness]) {
+    const g = sampledGradients(f, W, H, sd, step);
+    const thr = q(g.m2, 0.93);
     if (!(thr > 0)) continue;
-    for (let y = sd; y < H - sd; y += step) {
-      for (let x = sd; x < W - sd; x += step) {
-        const i = y * W + x;
-        const m2 = gxs[i] * gxs[i] + gys[i] * gys[i];
-        if (m2 < thr) continue;
-        const m = Math.sqrt(m2);
-        const ux = gxs[i] / m;
-        const uy = gys[i] / m;
-        for (const s of [-1, 1]) {
-          for (let r = rMin; r <= rMax; r += 1.5) {
-            const px = x + s * ux * r;
-            const py = y + s * uy * r;
-            if (px < 0 || py < 0 || px >= W || py >= H) break;
-            acc[(py >> 1) * aw + (px >> 1)] += 1;
-          }
-        }
-      }
-    }
+    castVotes(acc, aw, W, H, g, thr, rMin, rMax);
   }
-  // 5 × 5 box smoothing, then the maximum within the allowed disc
-  const sm = new Float32Array(aw * ah);
-  for (let y = 2; y < ah - 2; y++) {
-    for (let x = 2; x < aw - 2; x++) {
-      let s = 0;
-      for (let dy = -2; dy <= 2; dy++) for (let dx = -2; dx <= 2; dx++) s += acc[(y + dy) * aw + x + dx];
-      sm[y * aw + x] = s;
-    }
-  }
+  const sm = boxSum5(acc, aw, ah);
   let best = -1;
   let bx = near.x;
   let by = near.y;
@@ -139,6 +102,93 @@ export function voteCentre(cues: EdgeCues, rMin: number, rMax: number, near: Poi
     }
   }
   return { x: bx, y: by };
+}
+
+/** Central-difference gradients at every `step`-th pixel (row-major order of the grid). */
+interface SampledGradients {
+  /** Pixel coordinates of each sample. */
+  xs: Int32Array;
+  ys: Int32Array;
+  /** The gradient as stored (float32). */
+  gx: Float32Array;
+  gy: Float32Array;
+  /** gx² + gy² of the unrounded (float64) differences: the values the vote threshold is the quantile of. */
+  m2: Float64Array;
+}
+
+/**
+ * The gradients of `f` on the vote grid. Only the grid samples are kept (was: two full-size
+ * float32 rasters and a number[] of the squared magnitudes) — the same values in the same order.
+ */
+export function sampledGradients(f: Float32Array, W: number, H: number, sd: number, step: number): SampledGradients {
+  const nx = W - sd > sd ? Math.ceil((W - 2 * sd) / step) : 0;
+  const ny = H - sd > sd ? Math.ceil((H - 2 * sd) / step) : 0;
+  const n = nx * ny;
+  const out: SampledGradients = { xs: new Int32Array(n), ys: new Int32Array(n), gx: new Float32Array(n), gy: new Float32Array(n), m2: new Float64Array(n) };
+  let k = 0;
+  for (let y = sd; y < H - sd; y += step) {
+    for (let x = sd; x < W - sd; x += step) {
+      const i = y * W + x;
+      const gx = f[i + sd] - f[i - sd];
+      const gy = f[i + sd * W] - f[i - sd * W];
+      out.xs[k] = x;
+      out.ys[k] = y;
+      out.gx[k] = gx;
+      out.gy[k] = gy;
+      out.m2[k] = gx * gx + gy * gy;
+      k++;
+    }
+  }
+  return out;
+}
+
+/**
+ * Each sample whose stored gradient has m² ≥ thr votes along its gradient line, both ways, at
+ * r = rMin, rMin + 1.5, … ≤ rMax until the line leaves the image, into the half-resolution
+ * accumulator. The same points as `x + s·ux·r` with s = ±1 (a sign flip is exact); the order of
+ * the increments does not matter to integer counts. A loop of its own, one direction at a time:
+ * ≈ 23 M votes on the 12-MP bench image, where the loop inside `voteCentre` with a float
+ * accumulator cost ≈ 280 ms of a profile.
+ */
+function castVotes(acc: Int32Array, aw: number, W: number, H: number, g: SampledGradients, thr: number, rMin: number, rMax: number): void {
+  for (let k = 0; k < g.m2.length; k++) {
+    const gx = g.gx[k];
+    const gy = g.gy[k];
+    const m2 = gx * gx + gy * gy;
+    if (m2 < thr) continue;
+    const m = Math.sqrt(m2);
+    const ux = gx / m;
+    const uy = gy / m;
+    voteRay(acc, aw, W, H, g.xs[k], g.ys[k], -ux, -uy, rMin, rMax);
+    voteRay(acc, aw, W, H, g.xs[k], g.ys[k], ux, uy, rMin, rMax);
+  }
+}
+
+function voteRay(acc: Int32Array, aw: number, W: number, H: number, x: number, y: number, ux: number, uy: number, rMin: number, rMax: number): void {
+  for (let r = rMin; r <= rMax; r += 1.5) {
+    const px = x + ux * r;
+    const py = y + uy * r;
+    if (px < 0 || py < 0 || px >= W || py >= H) break;
+    acc[(py >> 1) * aw + (px >> 1)]++;
+  }
+}
+
+/**
+ * 5 × 5 box sums of the counts (0 within 2 px of the border), as a row pass then a column pass:
+ * sums of whole numbers below 2^24 are exact in any order, so this equals the direct 25-term sum.
+ */
+export function boxSum5(acc: Int32Array, aw: number, ah: number): Float32Array {
+  const rows = new Int32Array(aw * ah);
+  for (let y = 0; y < ah; y++) {
+    const o = y * aw;
+    for (let x = 2; x < aw - 2; x++) rows[o + x] = acc[o + x - 2] + acc[o + x - 1] + acc[o + x] + acc[o + x + 1] + acc[o + x + 2];
+  }
+  const sm = new Float32Array(aw * ah);
+  for (let y = 2; y < ah - 2; y++) {
+    const o = y * aw;
+    for (let x = 2; x < aw - 2; x++) sm[o + x] = rows[o + x - 2 * aw] + rows[o + x - aw] + rows[o + x] + rows[o + x + aw] + rows[o + x + 2 * aw];
+  }
+  return sm;
 }
 
 /** Edge strength on the polar grid (step 2). */

@@ -6,7 +6,8 @@ import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
-import { fillHoles, keepComponent, maskToMat, outerContour, rasterToMat, rectMorph } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, outerContour, rectMorph, setBox } from './cvutil.js';
+import { gaussian1 } from './smooth.js';
 import { coarseForeground } from './foreground.js';
 import { separatedForeground } from './severalSpecimens.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
@@ -103,8 +104,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   }
   // band: the texture window (7 px) + smoothing can push the coarse edge ~6 work px outwards
   const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2, others);
-  let area = 0;
-  for (let i = 0; i < mask.data.length; i++) area += mask.data[i];
+  const area = countSet(mask.data);
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
   const contour = outerContour(mask);
   const onFrame = (p: PointPx): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
@@ -124,6 +124,13 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   };
 }
 
+/** Number of set (1) pixels of a 0/1 mask (a loop of its own, issue 16). */
+function countSet(d: Uint8Array): number {
+  let n = 0;
+  for (let i = 0; i < d.length; i++) n += d[i];
+  return n;
+}
+
 /** A coarse mask at W × H (nearest coarse pixel). */
 function upsampleNearest(m: Mask, W: number, H: number): Uint8Array {
   const out = new Uint8Array(W * H);
@@ -141,41 +148,65 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
   const H = r.height;
   const c = maskToMat(coarse);
   const up = new cv.Mat();
-  const img = rasterToMat(r);
   try {
     if (coarse.width !== W || coarse.height !== H) cv.resize(c, up, new cv.Size(W, H), 0, 0, cv.INTER_LINEAR);
     else c.copyTo(up);
     cv.threshold(up, up, 127, 255, cv.THRESH_BINARY);
-    const upData = up.data as Uint8Array;
-    const a = rectMorph(upData, W, H, band, 'erode');
-    const b = rectMorph(upData, W, H, band, 'dilate');
-    cv.GaussianBlur(img, img, new cv.Size(0, 0), 1, 1, cv.BORDER_REFLECT_101);
-    const d = img.data32F as Float32Array;
-    const ou = others ? upsampleNearest(others, W, H) : null;
     const out = createMask(W, H);
-    for (let i = 0; i < out.data.length; i++) {
-      if (a[i]) out.data[i] = 1;
-      else if (b[i] && !(ou && ou[i])) out.data[i] = (d[i] > level) !== bright ? 1 : 0;
-    }
+    const box = setBox(up.data as Uint8Array, W, H);
+    if (box) decideBand(up.data as Uint8Array, W, H, box, band, gaussian1(r), level, bright, others ? upsampleNearest(others, W, H) : null, out.data);
     fillHoles(out);
-    let sxm = 0;
-    let sym = 0;
-    let nm = 0;
-    for (let i = 0; i < coarse.data.length; i++) {
-      if (coarse.data[i]) {
-        sxm += i % coarse.width;
-        sym += Math.floor(i / coarse.width);
-        nm++;
-      }
-    }
-    const target = nm ? { x: ((sxm / nm + 0.5) * W) / coarse.width - 0.5, y: ((sym / nm + 0.5) * H) / coarse.height - 0.5 } : { x: W / 2, y: H / 2 };
+    const target = maskCentroid(coarse, W, H);
+    // no fillHoles after this: `out` has no holes, and one 8-connected component of it has none
+    // either (a removed component is not 8-adjacent to the kept one, so each of its pixels reaches
+    // the old background along a row: tests/core/segment/specimenBand.test.ts checks it)
     const kept = keepComponent(out, target, 0.25);
-    if (!kept) return out;
-    fillHoles(kept);
-    return kept;
+    return kept ?? out;
   } finally {
     c.delete();
     up.delete();
-    img.delete();
   }
+}
+
+/**
+ * The edge band's decision: 1 where the square erosion (side 2·band + 1) of `up` is set, the
+ * intensity threshold of the smoothed image `d` where only its dilation is (and no other object
+ * lies), 0 elsewhere. Both morphologies run on the bounding box of `up` grown by band + 1 px only
+ * (≈ half of the working copy for a centred disc, issue 16): every pixel farther from the box is
+ * 0 in both, and inside the grown box each pixel sees the same verdict as on the whole image
+ * (a window crossing the grown box's edge also holds the 1-px ring of 0s just outside the set
+ * pixels' box, as in `morphDisc`; tests/core/segment/specimenBand.test.ts compares the two).
+ */
+export function decideBand(up: Uint8Array, W: number, H: number, box: { x0: number; y0: number; x1: number; y1: number }, band: number, d: Float32Array, level: number, bright: boolean, ou: Uint8Array | null, out: Uint8Array): void {
+  const g = band + 1;
+  const x0 = Math.max(0, box.x0 - g);
+  const y0 = Math.max(0, box.y0 - g);
+  const cw = Math.min(W - 1, box.x1 + g) - x0 + 1;
+  const ch = Math.min(H - 1, box.y1 + g) - y0 + 1;
+  const crop = new Uint8Array(cw * ch);
+  for (let y = 0; y < ch; y++) crop.set(up.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  const a = rectMorph(crop, cw, ch, band, 'erode');
+  const b = rectMorph(crop, cw, ch, band, 'dilate');
+  for (let y = 0, k = 0; y < ch; y++) {
+    for (let x = 0, i = (y0 + y) * W + x0; x < cw; x++, i++, k++) {
+      if (a[k]) out[i] = 1;
+      else if (b[k] && !(ou && ou[i])) out[i] = (d[i] > level) !== bright ? 1 : 0;
+    }
+  }
+}
+
+/** Centroid of the set pixels of the coarse mask in px of a W × H image (its centre when empty). */
+function maskCentroid(coarse: Mask, W: number, H: number): PointPx {
+  let sxm = 0;
+  let sym = 0;
+  let nm = 0;
+  const cw = coarse.width;
+  for (let i = 0; i < coarse.data.length; i++) {
+    if (coarse.data[i]) {
+      sxm += i % cw;
+      sym += Math.floor(i / cw);
+      nm++;
+    }
+  }
+  return nm ? { x: ((sxm / nm + 0.5) * W) / cw - 0.5, y: ((sym / nm + 0.5) * H) / coarse.height - 0.5 } : { x: W / 2, y: H / 2 };
 }
