@@ -1,10 +1,10 @@
-// After `tsc`: bundles the CLI program (dist/cli/cli.js, started by the small entry dist/cli/main.js
-// that npm links as `bin`) into one file and makes the entry executable.
+// After `tsc`: bundles the CLI entry into one file and makes it executable (npm links `bin` to
+// dist/cli/main.js).
 //
 // Why a bundle: Node 20 resolves, reads and compiles the ~200 ES modules of the CLI and its
 // libraries one by one at every start — `fractozone --help` took 0.30 s of CPU against 0.11 s
 // bundled (2026-12-02, this project's 2-core machine), and every `measure` pays it. esbuild (already
-// installed for tsx) writes dist/cli/cli.js with everything but opencv-wasm (a CommonJS package
+// installed for tsx) writes dist/cli/main.js with everything but opencv-wasm (a CommonJS package
 // that reads its .wasm beside itself); tsc's modules stay in dist/ for the scripts, the tests and
 // the batch workers (long-lived processes forked from dist/cli/batch/worker.js). `import.meta.url`
 // in each bundled module is rewritten to that module's own URL in dist/, so the paths it computes
@@ -18,7 +18,7 @@ const dist = fileURLToPath(new URL('../dist/', import.meta.url));
 
 // the CLI, and the threads `measure` starts (cli/decodeThread.ts, cli/variationHelper.ts), which would
 // otherwise load the modules of core one by one beside the main thread
-for (const name of ['cli', 'decodeWorker', 'variationWorker']) await bundle(name);
+for (const name of ['main', 'decodeWorker', 'variationWorker']) await bundle(name);
 
 async function bundle(name) {
   const entry = fileURLToPath(new URL(`../dist/cli/${name}.js`, import.meta.url));
@@ -66,7 +66,6 @@ async function bundle(name) {
         console.error(`postbuild: bundling failed (${e.message.split('\n')[0]}) — dist/cli/${name}.js left unbundled`);
       }
     }
-    }
+    chmodSync(entry, 0o755);
+  }
 }
-const main = fileURLToPath(new URL('../dist/cli/main.js', import.meta.url));
-if (existsSync(main)) chmodSync(main, 0o755);

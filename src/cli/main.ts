@@ -1,28 +1,45 @@
 #!/usr/bin/env node
+/** fractozone command-line entry. Exit codes: 0 ok, 1 processing/input error, 2 usage error. */
+import { CommanderError } from 'commander';
+import { isFractozoneError } from '../core/errors.js';
+import { printable } from '../core/text/printable.js';
+import { installNodeZlib } from './nodeZlib.js';
+import { buildProgram, exitCodeFor } from './program.js';
+
 /**
- * fractozone command-line entry (the program itself is cli.ts). `measure` runs in a child Node
- * process with V8's background threads off (`--single-threaded`: no concurrent compilation,
- * parallel or concurrent GC): a one-shot measure is mostly code running its first time, and on a
- * busy machine those helper threads cost more than they save. Measured on the 12-MP bench image
- * (2026-12-03, load 7.6–9.4 on 2 cores, 5 interleaved rounds, the extra process included): CPU
- * best/median 3.15/3.52 → 2.86/3.13 s, wall 6.61/8.22 → 5.08/6.29 s; see DEVELOPERS.md
- * "Performance notes". The flag can only be given at start-up (not in NODE_OPTIONS, and setting
- * it from inside a running process crashed the GC), hence the child. The numbers are the same
- * either way (no flag changes arithmetic); `FRACTOZONE_V8_THREADS=1` keeps the background threads
- * and the one process.
+ * Error messages are one printable line, whatever a library or a file put in them: line breaks
+ * become spaces, other control characters are escaped (`\x1b`).
  */
-import { spawnSync } from 'node:child_process';
-import { constants } from 'node:os';
-import { fileURLToPath } from 'node:url';
+const oneLine = (s: string): string => printable(s.replace(/\s*[\r\n]+\s*/g, ' ').trim());
 
-const cli = fileURLToPath(new URL('./cli.js', import.meta.url));
-const args = process.argv.slice(2);
-const single = process.execArgv.includes('--single-threaded') || process.env.FRACTOZONE_V8_THREADS === '1';
-
-if (args[0] === 'measure' && !single) {
-  const r = spawnSync(process.execPath, [...process.execArgv, '--single-threaded', cli, ...args], { stdio: 'inherit' });
-  const signal = r.signal ? constants.signals[r.signal] : undefined;
-  process.exitCode = r.status ?? (signal !== undefined ? 128 + signal : 1);
-} else {
-  await import('./cli.js');
+async function main(argv: string[]): Promise<number> {
+  installNodeZlib(); // PNG image data through Node's zlib (core/zlib.ts)
+  const program = buildProgram();
+  try {
+    await program.parseAsync(argv);
+    return typeof process.exitCode === 'number' ? process.exitCode : 0;
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      // commander already printed its message (help, version or usage error)
+      return e.exitCode === 0 ? 0 : 2;
+    }
+    if (isFractozoneError(e)) {
+      process.stderr.write(`fractozone: error [${e.code}]: ${oneLine(e.message)}\n`);
+      return exitCodeFor(e);
+    }
+    const msg = e instanceof Error ? e.message : String(e);
+    process.stderr.write(`fractozone: internal error: ${oneLine(msg)}\n`);
+    if (process.env.FRACTOZONE_DEBUG) process.stderr.write(`${(e as Error)?.stack ?? ''}\n`);
+    return 1;
+  }
 }
+
+main(process.argv).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (e) => {
+    process.stderr.write(`fractozone: internal error: ${oneLine(String(e))}\n`);
+    process.exitCode = 1;
+  },
+);

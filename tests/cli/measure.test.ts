@@ -73,10 +73,6 @@ describe('fractozone measure', () => {
     const ra = strip(a.stdout);
     expect(ra.band.uncertainty?.variations.length).toBeGreaterThan(2);
     expect(ra).toEqual(strip(b.stdout));
-    // nor does running in the one process with V8's background threads (main.ts starts a child without them)
-    const c = spawnSync(process.execPath, [CLI, ...args], { encoding: 'utf8', env: { ...process.env, FRACTOZONE_V8_THREADS: '1' } });
-    expect(c.status, c.stderr).toBe(0);
-    expect(strip(c.stdout)).toEqual(ra);
   });
 
   it('--boundary re-measures a corrected boundary and agrees with the core remeasure()', () => {
