@@ -16,9 +16,9 @@ import { fileURLToPath } from 'node:url';
 
 const dist = fileURLToPath(new URL('../dist/', import.meta.url));
 
-// the CLI, and the threads `measure` starts (cli/decodeThread.ts, cli/variationHelper.ts), which would
-// otherwise load the modules of core one by one beside the main thread
-for (const name of ['main', 'decodeWorker', 'variationWorker']) await bundle(name);
+// the CLI, and the helper thread `measure` starts (cli/variationHelper.ts), which would otherwise
+// load the ~100 modules of core one by one beside the main thread
+for (const name of ['main', 'variationWorker']) await bundle(name);
 
 async function bundle(name) {
   const entry = fileURLToPath(new URL(`../dist/cli/${name}.js`, import.meta.url));

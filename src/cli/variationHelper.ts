@@ -1,5 +1,5 @@
 /**
- * A helper thread for `measure --threads 2` (one image): the parameter range's window
+ * A helper thread for `measure --helper-thread` (one image): the parameter range's window
  * variations (core/pipeline/helperJob.ts) run on it beside the pipeline's own texture stages, which
  * the pipeline would otherwise compute after them on the one thread. Same numbers either way (the
  * same function on the same data); wall time only, and only with a core to spare: off by default,

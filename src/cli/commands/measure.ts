@@ -4,12 +4,11 @@
  */
 import { basename, extname, join } from 'node:path';
 import type { Command } from 'commander';
-import { analyseDecoded, analyseImage, encodeOverlayPng, FractozoneError, type Analysis, formatValue, specimenLines, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
+import { analyseImage, encodeOverlayPng, formatValue, specimenLines, summarise, type Figure, type MeasureResult, type ResultSummary } from '../../core/index.js';
 import { printableLines } from '../../core/text/printable.js';
 import { safeFileName } from '../../core/text/safeName.js';
 import { loadCvNode } from '../cvNode.js';
 import { startVariationHelper, type HelperThread } from '../variationHelper.js';
-import { decodeOnThread } from '../decodeThread.js';
 import { nodeDeflate } from '../nodeZlib.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
@@ -108,47 +107,26 @@ export function register(program: Command): void {
     .option('--out <dir>', 'write <name>.result.json and <name>.overlay.png into this folder')
     .option('--json', 'print only the result JSON on stdout')
     .option('-q, --quiet', 'no progress messages on stderr')
-    .option('--threads <n>', 'threads for one image: 1 (default) or 2 — decode beside loading opencv-wasm and run the parameter range\'s window variations beside the texture stages; same results (measured slower under load, see DEVELOPERS.md)', '1')
-    .action(async (image: string, o: Options & { threads?: string }) => {
-      const threads = threadCount(o.threads);
+    .option('--helper-thread', 'compute the parameter range\'s window variations on a second thread (same results; off by default: it costs more CPU than it saves, see DEVELOPERS.md)')
+    .action(async (image: string, o: Options & { helperThread?: boolean }) => {
       // started first: it loads opencv-wasm while this thread reads and decodes the image
-      const helper = threads > 1 ? startVariationHelper() : null;
+      const helper = o.helperThread === true ? startVariationHelper() : null;
       try {
-        await measureOne(image, o, threads, helper);
+        await measureOne(image, o, helper);
       } finally {
         helper?.close();
       }
     });
 }
 
-/** `--threads`: 1 or 2. */
-function threadCount(v: string | undefined): number {
-  const n = Number(v ?? '1');
-  if (n !== 1 && n !== 2) throw new FractozoneError('BAD_PARAMETER', `--threads must be 1 or 2, got ${String(v)}`);
-  return n;
-}
-
-/** The decode time first among the stage timings, as `analyseImage` reports it (wall-clock, diagnostics only; here decoding and loading opencv-wasm together). */
-function withDecodeTime(a: Analysis, ms: number): Analysis {
-  a.result.diagnostics.timingsMs = { decode: Math.round(ms * 10) / 10, ...a.result.diagnostics.timingsMs };
-  return a;
-}
-
-async function measureOne(image: string, o: Options, threads: number, helper: HelperThread | null): Promise<void> {
+async function measureOne(image: string, o: Options, helper: HelperThread | null): Promise<void> {
   const params = paramsFromOptions(o);
   const model = o.model !== undefined ? readModelFile(o.model) : undefined;
   if (model) params.modelSha256 = model.sha256;
   const bytes = readInputFile(image);
-  // the image is decoded beside the loading of opencv-wasm (decodeThread.ts)
-  const t0 = performance.now();
-  const decoding = threads > 1 ? decodeOnThread(bytes, params.maxPixels) : null;
   loadCvNode();
-  const decoded = decoding ? await decoding : null;
-  const tDecode = performance.now() - t0;
   const progress = o.quiet || o.json || !process.stderr.isTTY ? undefined : (stage: string) => process.stderr.write(`\r  ${stage}…`.padEnd(40));
-  const input = { file: basename(image), sha256: sha256Hex(bytes) };
-  const options = { model, ...(helper ? { helper } : {}) };
-  const { result, overlay } = decoded ? withDecodeTime(analyseDecoded(decoded, input, params, progress, options), tDecode) : await analyseImage(bytes, input, params, progress, options);
+  const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress, { model, ...(helper ? { helper } : {}) });
   if (progress) process.stderr.write('\r'.padEnd(41) + '\r');
   if (o.json) process.stdout.write(toJsonText(result));
   else process.stdout.write(printableLines(summaryText(result)));
