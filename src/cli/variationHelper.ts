@@ -1,11 +1,9 @@
 /**
- * A helper thread for `measure --helper-thread` (one image): the parameter range's window
- * variations (core/pipeline/helperJob.ts) run on it beside the pipeline's own texture stages, which
- * the pipeline would otherwise compute after them on the one thread. Same numbers either way (the
- * same function on the same data); wall time only, and only with a core to spare: off by default,
- * because the job runs cold in a second isolate (≈ 0.8 s CPU plus 0.3 s loading, against ≈ 0.3 s on
- * the warmed main thread; DEVELOPERS.md "Performance notes"). Never in batch: its forked workers
- * already keep both cores busy and run single-threaded.
+ * A helper thread for `measure` (one image): the parameter range's window variations
+ * (core/pipeline/helperJob.ts) run on it beside the pipeline's own texture stages, which the
+ * pipeline would otherwise compute after them on the one thread. Same numbers either way (the same
+ * function on the same data); wall time only. Not for batch: its forked workers already keep both
+ * cores busy, so they run single-threaded (no helper).
  *
  * The pipeline is synchronous, so the answer comes back through shared memory: the worker writes
  * the means and a flag, the main thread waits on the flag with `Atomics.wait` (allowed on Node's

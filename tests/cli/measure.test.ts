@@ -59,10 +59,10 @@ describe('fractozone measure', () => {
     expect(JSON.parse(readFileSync(join(out, 'rendered.result.json'), 'utf8')).band.widthUm.mean).toBe(w.mean);
   });
 
-  it('the helper thread changes no number: --helper-thread gives the same result as one thread', () => {
+  it('the helper thread (default) changes no number: the same result as --no-helper-thread', () => {
     const args = ['measure', img, '--bar-length', '1mm', '--json', '--bootstrap', '200'];
     const a = run(args);
-    const b = run([...args, '--helper-thread']);
+    const b = run([...args, '--no-helper-thread']);
     expect(a.status, a.stderr).toBe(0);
     expect(b.status, b.stderr).toBe(0);
     const strip = (t: string): MeasureResult => {

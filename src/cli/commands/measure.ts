@@ -107,10 +107,10 @@ export function register(program: Command): void {
     .option('--out <dir>', 'write <name>.result.json and <name>.overlay.png into this folder')
     .option('--json', 'print only the result JSON on stdout')
     .option('-q, --quiet', 'no progress messages on stderr')
-    .option('--helper-thread', 'compute the parameter range\'s window variations on a second thread (same results; off by default: it costs more CPU than it saves, see DEVELOPERS.md)')
+    .option('--no-helper-thread', 'compute everything on one thread (same results; by default a second thread computes part of the parameter range)')
     .action(async (image: string, o: Options & { helperThread?: boolean }) => {
       // started first: it loads opencv-wasm while this thread reads and decodes the image
-      const helper = o.helperThread === true ? startVariationHelper() : null;
+      const helper = o.helperThread === false ? null : startVariationHelper();
       try {
         await measureOne(image, o, helper);
       } finally {
