@@ -59,22 +59,6 @@ describe('fractozone measure', () => {
     expect(JSON.parse(readFileSync(join(out, 'rendered.result.json'), 'utf8')).band.widthUm.mean).toBe(w.mean);
   });
 
-  it('the helper thread (default) changes no number: the same result as --no-helper-thread', () => {
-    const args = ['measure', img, '--bar-length', '1mm', '--json', '--bootstrap', '200'];
-    const a = run(args);
-    const b = run([...args, '--no-helper-thread']);
-    expect(a.status, a.stderr).toBe(0);
-    expect(b.status, b.stderr).toBe(0);
-    const strip = (t: string): MeasureResult => {
-      const r = JSON.parse(t) as MeasureResult;
-      r.diagnostics.timingsMs = {};
-      return r;
-    };
-    const ra = strip(a.stdout);
-    expect(ra.band.uncertainty?.variations.length).toBeGreaterThan(2);
-    expect(ra).toEqual(strip(b.stdout));
-  });
-
   it('--boundary re-measures a corrected boundary and agrees with the core remeasure()', () => {
     const auto = JSON.parse(run(['measure', img, '--pixel-size', '9um', '--json', '--bootstrap', '100']).stdout) as MeasureResult;
     // a corrected boundary: every point moved 4 px towards the centre (band 4 px = 36 µm wider)
