@@ -14,58 +14,52 @@ import { chmodSync, existsSync, readFileSync, renameSync, rmSync } from 'node:fs
 import { dirname, relative } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
+const entry = fileURLToPath(new URL('../dist/cli/main.js', import.meta.url));
+const modules = fileURLToPath(new URL('../dist/cli/main.modules.js', import.meta.url));
 const dist = fileURLToPath(new URL('../dist/', import.meta.url));
 
-// the CLI, and the helper thread `measure` starts (cli/variationHelper.ts), which would otherwise
-// load the ~100 modules of core one by one beside the main thread
-for (const name of ['main', 'variationWorker']) await bundle(name);
-
-async function bundle(name) {
-  const entry = fileURLToPath(new URL(`../dist/cli/${name}.js`, import.meta.url));
-  const modules = fileURLToPath(new URL(`../dist/cli/${name}.modules.js`, import.meta.url));
-  if (existsSync(entry)) {
-    let esbuild;
-    try {
-      esbuild = await import('esbuild');
-    } catch {
-      console.error(`postbuild: esbuild not found — dist/cli/${name}.js left unbundled (slower start-up)`);
-    }
-    if (esbuild) {
-      renameSync(entry, modules);
-      const here = dirname(entry);
-      const metaUrl = {
-        name: 'module-import-meta-url',
-        setup(b) {
-          b.onLoad({ filter: /\.js$/ }, (args) => {
-            if (!args.path.startsWith(dist)) return undefined;
-            const src = readFileSync(args.path, 'utf8');
-            if (!src.includes('import.meta.url')) return undefined;
-            const rel = relative(here, args.path).split('\\').join('/');
-            const own = `new URL(${JSON.stringify(rel.startsWith('.') ? rel : `./${rel}`)}, import.meta.url).href`;
-            return { contents: src.split('import.meta.url').join(own), loader: 'js', resolveDir: dirname(args.path) };
-          });
-        },
-      };
-      try {
-        await esbuild.build({
-          entryPoints: [modules],
-          outfile: entry,
-          bundle: true,
-          platform: 'node',
-          format: 'esm',
-          target: 'node20',
-          external: ['opencv-wasm'],
-          // CommonJS dependencies inside an ES module bundle call require()
-          banner: { js: "import { createRequire as __fzCreateRequire } from 'node:module';\nconst require = __fzCreateRequire(import.meta.url);" },
-          plugins: [metaUrl],
-          logLevel: 'warning',
-        });
-        rmSync(modules);
-      } catch (e) {
-        renameSync(modules, entry);
-        console.error(`postbuild: bundling failed (${e.message.split('\n')[0]}) — dist/cli/${name}.js left unbundled`);
-      }
-    }
-    chmodSync(entry, 0o755);
+if (existsSync(entry)) {
+  let esbuild;
+  try {
+    esbuild = await import('esbuild');
+  } catch {
+    console.error('postbuild: esbuild not found — dist/cli/main.js left unbundled (slower start-up)');
   }
+  if (esbuild) {
+    renameSync(entry, modules);
+    const here = dirname(entry);
+    const metaUrl = {
+      name: 'module-import-meta-url',
+      setup(b) {
+        b.onLoad({ filter: /\.js$/ }, (args) => {
+          if (!args.path.startsWith(dist)) return undefined;
+          const src = readFileSync(args.path, 'utf8');
+          if (!src.includes('import.meta.url')) return undefined;
+          const rel = relative(here, args.path).split('\\').join('/');
+          const own = `new URL(${JSON.stringify(rel.startsWith('.') ? rel : `./${rel}`)}, import.meta.url).href`;
+          return { contents: src.split('import.meta.url').join(own), loader: 'js', resolveDir: dirname(args.path) };
+        });
+      },
+    };
+    try {
+      await esbuild.build({
+        entryPoints: [modules],
+        outfile: entry,
+        bundle: true,
+        platform: 'node',
+        format: 'esm',
+        target: 'node20',
+        external: ['opencv-wasm'],
+        // CommonJS dependencies inside an ES module bundle call require()
+        banner: { js: "import { createRequire as __fzCreateRequire } from 'node:module';\nconst require = __fzCreateRequire(import.meta.url);" },
+        plugins: [metaUrl],
+        logLevel: 'warning',
+      });
+      rmSync(modules);
+    } catch (e) {
+      renameSync(modules, entry);
+      console.error(`postbuild: bundling failed (${e.message.split('\n')[0]}) — dist/cli/main.js left unbundled`);
+    }
+  }
+  chmodSync(entry, 0o755);
 }

@@ -27,7 +27,6 @@ export {
   WorkingFrame,
   WORKING_LONG_SIDE_PX,
   RESULT_SCHEMA,
-  runWindowVariationJob,
 } from './pipeline/index.js';
 export type {
   Analysis,
@@ -59,8 +58,6 @@ export type {
   Diagnostics,
   Quality,
   QualityVerdict,
-  VariationHelper,
-  WindowVariationJob,
 } from './pipeline/index.js';
 export { judgeQuality, assessQuality, QUALITY_RULES, type QualityRule } from './pipeline/stages/quality.js';
 export { recompute, fullRunReason, rescaleResult, withOutline, scaleFor, OUTLINE_CORRECTED, type RecomputeOutcome } from './pipeline/recompute.js';

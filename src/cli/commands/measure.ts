@@ -8,7 +8,6 @@ import { analyseImage, encodeOverlayPng, formatValue, specimenLines, summarise, 
 import { printableLines } from '../../core/text/printable.js';
 import { safeFileName } from '../../core/text/safeName.js';
 import { loadCvNode } from '../cvNode.js';
-import { startVariationHelper, type HelperThread } from '../variationHelper.js';
 import { nodeDeflate } from '../nodeZlib.js';
 import { readInputFile, sha256Hex, stderrLine, toJsonText, writeFileAtomic } from '../io.js';
 import { addMeasureOptions, paramsFromOptions, type MeasureCliOptions } from '../measureOptions.js';
@@ -107,33 +106,22 @@ export function register(program: Command): void {
     .option('--out <dir>', 'write <name>.result.json and <name>.overlay.png into this folder')
     .option('--json', 'print only the result JSON on stdout')
     .option('-q, --quiet', 'no progress messages on stderr')
-    .option('--no-helper-thread', 'compute everything on one thread (same results; by default a second thread computes part of the parameter range)')
-    .action(async (image: string, o: Options & { helperThread?: boolean }) => {
-      // started first: it loads opencv-wasm while this thread reads and decodes the image
-      const helper = o.helperThread === false ? null : startVariationHelper();
-      try {
-        await measureOne(image, o, helper);
-      } finally {
-        helper?.close();
+    .action(async (image: string, o: Options) => {
+      const params = paramsFromOptions(o);
+      const model = o.model !== undefined ? readModelFile(o.model) : undefined;
+      if (model) params.modelSha256 = model.sha256;
+      const bytes = readInputFile(image);
+      loadCvNode();
+      const progress = o.quiet || o.json || !process.stderr.isTTY ? undefined : (stage: string) => process.stderr.write(`\r  ${stage}…`.padEnd(40));
+      const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress, { model });
+      if (progress) process.stderr.write('\r'.padEnd(41) + '\r');
+      if (o.json) process.stdout.write(toJsonText(result));
+      else process.stdout.write(printableLines(summaryText(result)));
+      if (o.out) {
+        const stem = outputStem(image);
+        writeFileAtomic(join(o.out, `${stem}.result.json`), toJsonText(result));
+        writeFileAtomic(join(o.out, `${stem}.overlay.png`), encodeOverlayPng(overlay, nodeDeflate));
+        if (!o.json && !o.quiet) stderrLine(`wrote ${join(o.out, `${stem}.result.json`)} and ${join(o.out, `${stem}.overlay.png`)}`);
       }
     });
-}
-
-async function measureOne(image: string, o: Options, helper: HelperThread | null): Promise<void> {
-  const params = paramsFromOptions(o);
-  const model = o.model !== undefined ? readModelFile(o.model) : undefined;
-  if (model) params.modelSha256 = model.sha256;
-  const bytes = readInputFile(image);
-  loadCvNode();
-  const progress = o.quiet || o.json || !process.stderr.isTTY ? undefined : (stage: string) => process.stderr.write(`\r  ${stage}…`.padEnd(40));
-  const { result, overlay } = await analyseImage(bytes, { file: basename(image), sha256: sha256Hex(bytes) }, params, progress, { model, ...(helper ? { helper } : {}) });
-  if (progress) process.stderr.write('\r'.padEnd(41) + '\r');
-  if (o.json) process.stdout.write(toJsonText(result));
-  else process.stdout.write(printableLines(summaryText(result)));
-  if (o.out) {
-    const stem = outputStem(image);
-    writeFileAtomic(join(o.out, `${stem}.result.json`), toJsonText(result));
-    writeFileAtomic(join(o.out, `${stem}.overlay.png`), encodeOverlayPng(overlay, nodeDeflate));
-    if (!o.json && !o.quiet) stderrLine(`wrote ${join(o.out, `${stem}.result.json`)} and ${join(o.out, `${stem}.overlay.png`)}`);
-  }
 }

@@ -31,8 +31,7 @@ import { measureWidths, minWidthPxFor, type StoredGeometry } from './stages/meas
 import { findRimBoundary } from './stages/band.js';
 import { manualBoundary, type RimBoundary } from './stages/refineBoundary.js';
 import { textureWindow, type TextureWindow } from './stages/texture.js';
-import { bandUncertainty, MANUAL_RANGE_NOTE, methodVariations, WINDOW_FACTORS } from './stages/uncertainty.js';
-import { windowVariationJob, type VariationHelper } from './helperJob.js';
+import { bandUncertainty, MANUAL_RANGE_NOTE, methodVariations } from './stages/uncertainty.js';
 import type { Classification } from './stages/classify.js';
 import type { TextureMaps } from './stages/texture.js';
 import type { InputInfo, MeasureParams, ProgressFn } from './types.js';
@@ -56,8 +55,6 @@ export interface Analysis {
 export interface AnalyseOptions {
   /** A pixel classifier to segment with (learn/); `params.modelSha256` must name its file's SHA-256. */
   model?: LoadedModel;
-  /** Runs the parameter range's window variations on another thread (helperJob.ts); the same numbers without. */
-  helper?: VariationHelper;
 }
 
 /** The model branch when a model is given (the parameters and the model must agree). */
@@ -113,7 +110,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     const own = [...loc.warnings];
     let boundary: RimBoundary;
     let window: TextureWindow = window0;
-    let auto: { texture: TextureMaps; classification: Classification; windowMeans?: () => ReadonlyMap<number, number | null> | null } | null = null;
+    let auto: { texture: TextureMaps; classification: Classification } | null = null;
     if (first && p.boundaryPolygon) {
       boundary = manualBoundary(p.boundaryPolygon);
       T.lap('texture', 'band width', 0.8);
@@ -121,16 +118,12 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
       own.push(...seg.classification.warnings, ...seg.warnings);
       boundary = seg.boundary;
     } else {
-      // the window variations of the parameter range can start now, beside the texture stages (helperJob.ts)
-      const pending = first && options.helper ? options.helper.start(windowVariationJob({ frame, scale: calibration.scale, location: loc, window: window0, marks: calibration.marks, params: p }, WINDOW_FACTORS)) : null;
       // texture → classify → refine, with a finer second pass for narrow bands (stages/band.ts)
       const found = findRimBoundary({ frame, scale: calibration.scale, location: loc, window: window0, features: p.features, nRays: p.nRays, allowSecondPass: windowUm === null });
       own.push(...found.warnings);
       boundary = found.boundary;
       window = found.window;
-      // a second pass's finer window is another window: its variations are computed here
-      const helped = pending && found.window === window0 ? pending : null;
-      auto = { texture: found.texture, classification: found.classification, windowMeans: helped ? () => meansByFactor(helped()) : undefined };
+      auto = { texture: found.texture, classification: found.classification };
       if (first) T.lap('texture+boundary', 'band width', 0.85);
     }
     const geometry = storedGeometry(loc, boundary, calibration.marks);
@@ -171,11 +164,6 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
   const overlay = overlayFor(decoded.raster, result, a.profile, calibration.bar);
   T.lap('overlay', 'done', 1);
   return { result, overlay };
-}
-
-/** A helper's window-variation means keyed by factor (null: none came back). */
-function meansByFactor(means: (number | null)[] | null): ReadonlyMap<number, number | null> | null {
-  return means && means.length === WINDOW_FACTORS.length ? new Map(WINDOW_FACTORS.map((f, i) => [f, means[i]])) : null;
 }
 
 /** One specimen through the boundary and measure stages. */

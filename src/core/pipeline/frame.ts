@@ -79,34 +79,4 @@ export class WorkingFrame {
   get fullSize(): { width: number; height: number } {
     return { width: this.full.width, height: this.full.height };
   }
-
-  /** The frame without its full-resolution pixels, as plain data (to hand to another thread). */
-  parts(): FrameParts {
-    const { factor, sx, sy, lengthScale, work, workMarks, marks } = this;
-    return { fullWidth: this.full.width, fullHeight: this.full.height, marks: [...marks], factor, sx, sy, lengthScale, work, workMarks };
-  }
-
-  /**
-   * A frame made again from {@link parts}: the same working copy and mapping, but `full` holds no
-   * pixels (its data is empty), so it serves only stages that read the working copy and the
-   * full-resolution size (the parameter range's window variations, stages/uncertainty.ts).
-   */
-  static fromParts(p: FrameParts): WorkingFrame {
-    const f = Object.create(WorkingFrame.prototype) as WorkingFrame;
-    const full: GrayRaster = { width: p.fullWidth, height: p.fullHeight, data: new Float32Array(0) };
-    return Object.assign(f, { full, marks: p.marks, factor: p.factor, sx: p.sx, sy: p.sy, lengthScale: p.lengthScale, work: p.work, workMarks: p.workMarks });
-  }
-}
-
-/** A {@link WorkingFrame} as plain data, without the full-resolution pixels. */
-export interface FrameParts {
-  fullWidth: number;
-  fullHeight: number;
-  marks: BoxPx[];
-  factor: number;
-  sx: number;
-  sy: number;
-  lengthScale: number;
-  work: GrayRaster;
-  workMarks: BoxPx[];
 }

@@ -9,4 +9,3 @@ export type { Analysis } from './analyse.js';
 export * from './result.js';
 export { encodeOverlayPng } from './overlayPng.js';
 export { HALVES_TOLERANCE_PCT, compareHalves } from './specimens.js';
-export { runWindowVariationJob, type VariationHelper, type WindowVariationJob } from './helperJob.js';

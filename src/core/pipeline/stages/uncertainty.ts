@@ -58,20 +58,7 @@ export interface VariationInput {
   classification: Classification;
   marks: readonly BoxPx[];
   params: MeasureParams;
-  /**
-   * The window variations' own means ({@link windowVariationMean}) by factor, computed for these
-   * inputs elsewhere (a helper thread, pipeline/helperJob.ts): asked for after the other
-   * variations (it may wait for them); null, or a factor missing, and it is computed here. The same
-   * function on the same inputs: the same numbers.
-   */
-  windowMeans?: () => ReadonlyMap<number, number | null> | null;
 }
-
-/** What a window variation reads: no texture or classification of the measurement's own window. */
-export type WindowVariationInput = Pick<VariationInput, 'frame' | 'scale' | 'location' | 'window' | 'marks' | 'params'>;
-
-/** The texture window's factors of the parameter range. */
-export const WINDOW_FACTORS: readonly number[] = [0.7, 1.4];
 
 /**
  * Rays of the variation runs: each variation is compared with a baseline run on the same rays, so
@@ -80,7 +67,7 @@ export const WINDOW_FACTORS: readonly number[] = [0.7, 1.4];
 export const VARIATION_RAYS = 120;
 
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
-function variationMean(v: WindowVariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
+function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
   const full = rays !== VARIATION_RAYS;
   const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level });
   if (!boundary.polygon) return null;
@@ -150,27 +137,9 @@ const BINNED = new WeakMap<GrayRaster, Map<string, GrayRaster>>();
  * Classification of binned maps (feature scale {@link BIN}): a coarse seed for the refinement on 1/BIN² of the pixels.
  * The per-feature scores are shared between the runs on the same maps (the same numbers, computed once).
  */
-function classifyBinned(v: Pick<VariationInput, 'location'>, maps: readonly FeatureMap[], brightness: GrayRaster, window: TextureWindow): Classification {
+function classifyBinned(v: VariationInput, maps: readonly FeatureMap[], brightness: GrayRaster, window: TextureWindow): Classification {
   const texture: TextureMaps = { window, maps: maps.map((m) => ({ name: m.name, raster: binnedOnce(m.raster) })), brightness: binnedOnce(brightness) };
   return classifyTexture({ location: v.location, texture, featureScale: BIN, shareScores: true });
-}
-
-/**
- * One window variation's own mean (before the shift from the baseline): the texture at `factor` ×
- * the window, classified on binned maps, refined and measured on {@link VARIATION_RAYS} rays; null
- * when it finds no band. Reads only the working copy, the location and the parameters, so it can
- * run before (or beside) the measurement's own texture stage.
- */
-export function windowVariationMean(v: WindowVariationInput, factor: number): number | null {
-  const windowUm = v.window.windowUm * factor;
-  const window: TextureWindow = {
-    windowUm,
-    windowPxWork: windowPxFromUm(windowUm, v.scale.umPerPx * v.frame.lengthScale),
-    windowPxFull: windowPxFromUm(windowUm, v.scale.umPerPx),
-  };
-  const texture = computeTexture({ frame: v.frame, window, features: v.params.features, region: specimenBox(v.location, REGION_MARGIN_PX) });
-  const cls = classifyBinned(v, texture.maps, texture.brightness, window);
-  return cls.rimCore.detected ? variationMean(v, cls, window, 'mean') : null;
 }
 
 /**
@@ -189,6 +158,16 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
     const m = base !== null && cls.rimCore.detected ? variationMean(v, cls, window, 'mean') : null;
     return { name, meanUm: m === null || base === null ? null : meanUm + (m - base) };
   };
+  for (const f of [0.7, 1.4]) {
+    const windowUm = v.window.windowUm * f;
+    const window: TextureWindow = {
+      windowUm,
+      windowPxWork: windowPxFromUm(windowUm, v.scale.umPerPx * v.frame.lengthScale),
+      windowPxFull: windowPxFromUm(windowUm, v.scale.umPerPx),
+    };
+    const texture = computeTexture({ frame: v.frame, window, features: v.params.features, region: specimenBox(v.location, REGION_MARGIN_PX) });
+    out.push(shifted(`window ×${f}`, classifyBinned(v, texture.maps, texture.brightness, window), window));
+  }
   if (v.texture.maps.length > 1) {
     for (const left of v.texture.maps) {
       const maps = v.texture.maps.filter((m) => m !== left);
@@ -199,13 +178,7 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
   const rays = Math.max(v.params.nRays, 360);
   out.push({ name: 'boundary level: log-variance midpoint', meanUm: variationMean(v, v.classification, v.window, 'log', rays) });
   out.push({ name: 'boundary level: standard-deviation midpoint', meanUm: variationMean(v, v.classification, v.window, 'std', rays) });
-  // the window variations last (a helper thread has had the longest to finish them), listed first
-  const known = base === null ? null : v.windowMeans?.() ?? null;
-  const windows = WINDOW_FACTORS.map((f): ParameterVariation => {
-    const m = base === null ? null : known?.has(f) ? (known.get(f) as number | null) : windowVariationMean(v, f);
-    return { name: `window ×${f}`, meanUm: m === null || base === null ? null : meanUm + (m - base) };
-  });
-  return [...windows, ...out];
+  return out;
 }
 
 /** How the boundary was found, for its systematic part. */
