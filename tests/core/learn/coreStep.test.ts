@@ -1,10 +1,10 @@
 /**
- * The model branch's boundary guide (learn/segment.ts `coreStep`): the matched step of the core
+ * The model branch's boundary guide (learn/rays.ts `coreStep`): the matched step of the core
  * probability q along each ray, on a drawn q map where a patch of the band is half taken for core
  * (q = 0.3) and the classified core outline (the coarse line) runs along the patch's outer edge.
  */
 import { describe, expect, it } from 'vitest';
-import { coreStep } from '../../../src/core/learn/segment.js';
+import { coreStep } from '../../../src/core/learn/rays.js';
 import { rayDirection } from '../../../src/core/measure/geometry.js';
 
 const W = 400;
