@@ -1,11 +1,9 @@
 /**
  * Ray helpers of the model branch (learn/segment.ts): bilinear samples of a probability plane, the
- * ½-crossings of a plane along each ray near a line, a running median over rays, the polygon of
- * per-ray radii, and the matched step of the core probability (`coreStep`) that guides the boundary.
+ * ½-crossings of a plane along each ray near a line, the polygon of per-ray radii, and the matched step of the core probability (`coreStep`) that guides the boundary.
  */
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
-import { medianOf } from '../measure/statistics.js';
 
 /** Bilinear sample of a plane (W × H) at (x, y), clamped to the image. */
 export function sampleAt(v: Float32Array, W: number, H: number, x: number, y: number): number {
@@ -52,21 +50,6 @@ export function crossings(v: Float32Array, W: number, H: number, centre: PointPx
     out.push(best ?? c);
   }
   return out;
-}
-
-/** Circular running median (null entries skipped and kept). */
-export function runningMedian(v: (number | null)[], k: number): (number | null)[] {
-  const n = v.length;
-  const h = Math.floor(k / 2);
-  return v.map((x, i) => {
-    if (x === null) return null;
-    const w: number[] = [];
-    for (let j = -h; j <= h; j++) {
-      const y = v[(i + j + n) % n];
-      if (y !== null) w.push(y);
-    }
-    return medianOf(w);
-  });
 }
 
 export function polygonOf(radii: (number | null)[], centre: PointPx, nRays: number): PointPx[] {

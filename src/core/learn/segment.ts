@@ -40,7 +40,7 @@ import { classifyRimCore } from '../segment/rimCore.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, outerContour } from '../segment/cvutil.js';
 import { fitCircle, fitEllipseToPoints } from '../segment/fit.js';
 import { ellipseOutline, robustEllipse } from './outline.js';
-import { refineBoundary } from '../segment/refine.js';
+import { circularMedian, refineBoundary } from '../segment/refine.js';
 import { refineOuterEdge } from '../segment/outerEdge.js';
 import type { Specimen } from '../segment/specimen.js';
 import type { ResultModel } from '../pipeline/result.js';
@@ -50,7 +50,7 @@ import { ellipseRadii, outlineCues, outlineDisagreement, outlineRadii } from './
 import type { FractureEdge } from '../segment/fractureEdge.js';
 import type { EllipseFit } from '../segment/fit.js';
 import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
-import { coreStep, crossings, polygonOf, runningMedian, sampleAt } from './rays.js';
+import { coreStep, crossings, polygonOf, sampleAt } from './rays.js';
 
 /** Boundary or outer-edge confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
 export const MIN_MODEL_CONFIDENCE = 0.75;
@@ -283,7 +283,7 @@ function outerEdgeOnImage(frame: WorkingFrame, guideWork: PointPx[], centerWork:
   for (let pass = 0; pass < 2; pass++) {
     const r = refineOuterEdge(frame.full, guide, c, { nRays });
     if (pass === 1) return r.polygon;
-    guide = polygonOf(runningMedian(r.radiiPx, 5), c, nRays);
+    guide = polygonOf(circularMedian(r.radiiPx, 5), c, nRays);
   }
   return guide;
 }
@@ -323,7 +323,7 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   const outerPoly = polygonOf(outerWork, centre, nRays);
   // the model places the step (the matched step of q nearest the classified core outline), the
   // image refines it (the texture step of refineBoundary within a window of it); see the module comment
-  const guide = runningMedian(coreStep(q, p.width, p.height, centre, rimCore.boundary, outerWork, nRays, w, 1.5 * w), 5);
+  const guide = circularMedian(coreStep(q, p.width, p.height, centre, rimCore.boundary, outerWork, nRays, w, 1.5 * w), 5);
   const bRadii = refineBoundary(frame.work, outerPoly, polygonOf(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1 }).radiiPx;
   // a boundary crossing beyond the outer edge is no boundary there
   const b = bRadii.map((r, i) => (r !== null && outerWork[i] !== null && r >= (outerWork[i] as number) ? null : r));

@@ -63,7 +63,7 @@ function sample(r: GrayRaster, x: number, y: number): number {
 }
 
 /** Circular running median of a radius profile (null entries are skipped; they stay null). */
-function circularMedian(v: (number | null)[], k: number): (number | null)[] {
+export function circularMedian(v: (number | null)[], k: number): (number | null)[] {
   const n = v.length;
   const h = Math.floor(k / 2);
   return v.map((x, i) => {
