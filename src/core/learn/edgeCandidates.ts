@@ -14,7 +14,12 @@
  * probability over a common annulus around the centre — the mean of P(outside) inside the outline
  * and of 1 − P(outside) outside it, over rays and radii (lower is better). A flank the model takes
  * for the band just outside the notch root, or a patch of the band it takes for outside, then costs
- * what it covers, not where its first crossing of ½ lies.
+ * what it covers, not where its first crossing of ½ lies. A sure choice of the edge search
+ * (`sureEdge`: unambiguous, clear on ≥ 90 % of the rays, very round) is kept unless the model's
+ * ellipse scores better by `SURE_EDGE_MARGIN` or is the same edge (`SAME_EDGE_SHARE`): beside a U
+ * flank the model's P(outside) is itself wrong (it takes the flank for surface), so its own ellipse
+ * ~20 px out scored 0.007–0.018 better than the notch root (flank-holder-tint-b: +39–81 % → −1.6 to
+ * −2.8 %).
  */
 import type { PointPx } from '../image/geometry.js';
 import type { WorkingFrame } from '../pipeline/frame.js';
@@ -109,4 +114,43 @@ export function outlineDisagreement(outside: Float32Array, W: number, H: number,
     }
   }
   return Array.from(s, (v) => (n ? v / n : 1));
+}
+
+/**
+ * Margin of disagreement (`outlineDisagreement`) by which the model's ellipse must beat a sure
+ * choice of the edge search to replace it (our choice, measured: 0.007–0.018 on flank-holder-tint-b
+ * where the model is wrong; see DEVELOPERS.md "Pixel classifier").
+ */
+export const SURE_EDGE_MARGIN = 0.03;
+
+/**
+ * Two outlines whose radii differ by at most this share of the radius (mean over rays) are the same
+ * edge: then the model's ellipse keeps its place (its crossing of P(outside), placed on the intensity
+ * step, as before). Measured: 0.1–0.3 px apart on the tint-blue and SEM series (r ≈ 294 px), 20–29 px
+ * on flank-holder-tint-b (r ≈ 227 px). Our choice.
+ */
+export const SAME_EDGE_SHARE = 0.02;
+
+/** Mean over rays (where both have one) of the difference of two outlines' radii, px. */
+export function outlinesApart(a: (number | null)[], b: (number | null)[]): number {
+  let s = 0;
+  let n = 0;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i];
+    const y = b[i];
+    if (x === null || y === null) continue;
+    s += Math.abs(x - y);
+    n++;
+  }
+  return n ? s / n : 0;
+}
+
+/**
+ * The edge search's choice is sure: not ambiguous (OUTLINE_AMBIGUOUS), not bent by a shadow, the
+ * chosen ring clear on ≥ 90 % of the rays and very round (RMS ≤ 1.5 px, the edge search's own limit
+ * of "very round" in segment/fractureEdge.ts).
+ */
+export function sureEdge(e: FractureEdge): boolean {
+  const c = e.chosen;
+  return !!c && !e.ambiguous && !e.bent && c.coverage >= 0.9 && c.roundnessPx <= 1.5;
 }

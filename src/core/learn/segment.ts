@@ -10,7 +10,9 @@
  *    out); the notch root is a RANSAC ellipse through the first exits to outside along the rays.
  *    That ellipse and every closed edge the fixed-rule edge search counts (segment/fractureEdge.ts)
  *    are scored by how well their discs agree with P(outside) (learn/edgeCandidates.ts) and the
- *    best is taken. From the model's ellipse the outer edge along each ray is where P(outside)
+ *    best is taken — but a sure choice of the edge search stands against the model's ellipse unless
+ *    that scores better by a clear margin or is the same edge (beside a U flank the model's
+ *    P(outside) is itself wrong). From the model's ellipse the outer edge along each ray is where P(outside)
  *    crosses ½ nearest it, interpolated to sub-pixel precision; from a closed edge, the edge itself.
  *    Either is then placed on the intensity step of the full image.
  * 3. The core probability q = P(core) / (P(core) + P(rim)) is the roughness signal of the existing
@@ -46,7 +48,7 @@ import type { Specimen } from '../segment/specimen.js';
 import type { ResultModel } from '../pipeline/result.js';
 import { warn, type Warning } from '../warnings.js';
 import { windowPxAt } from './features.js';
-import { ellipseRadii, outlineCues, outlineDisagreement, outlineRadii } from './edgeCandidates.js';
+import { ellipseRadii, outlineCues, outlineDisagreement, outlineRadii, outlinesApart, SAME_EDGE_SHARE, SURE_EDGE_MARGIN, sureEdge } from './edgeCandidates.js';
 import type { FractureEdge } from '../segment/fractureEdge.js';
 import type { EllipseFit } from '../segment/fit.js';
 import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
@@ -206,7 +208,9 @@ interface OutlineChoice {
 /**
  * Scores the model's RANSAC ellipse and every closed edge the fixed-rule search counts
  * (learn/edgeCandidates.ts `outlineDisagreement`, about `centre`, radii from half the smallest to
- * 1.25 × the largest candidate) and takes the lowest; the model's ellipse keeps ties.
+ * 1.25 × the largest candidate) and takes the lowest; the model's ellipse keeps ties. A sure
+ * choice of the edge search (`sureEdge`) is kept over the model's ellipse unless the ellipse scores
+ * better by `SURE_EDGE_MARGIN` or lies within `SAME_EDGE_SHARE` of it (the same edge).
  */
 function chooseOutline(p: ClassProbabilities, ellipse: EllipseFit | null, edges: FractureEdge | null, centre: PointPx, nRays: number): OutlineChoice {
   const rings = (edges?.rings ?? []).filter((v) => v.role !== 'rejected').map((v) => v.ring.points);
@@ -219,6 +223,11 @@ function chooseOutline(p: ClassProbabilities, ellipse: EllipseFit | null, edges:
   const off = ellipse ? 1 : 0;
   let best = 0;
   for (let k = 1; k < dis.length; k++) if (dis[k] < dis[best]) best = k;
+  // a sure choice of the edge search (sureEdge) stands unless the model's ellipse agrees with
+  // P(outside) better by a clear margin: beside a U flank the model takes the flank for surface and
+  // its own ellipse wins by 0.007–0.018 while lying ~20 px out (flank-holder-tint-b, +39–81 %)
+  const sure = edges?.chosen && sureEdge(edges) ? rings.indexOf(edges.chosen.points) : -1;
+  if (sure >= 0 && best < off && dis[off + sure] - dis[best] < SURE_EDGE_MARGIN && outlinesApart(outlines[best], outlines[off + sure]) > SAME_EDGE_SHARE * means[off + sure]) best = off + sure;
   const scores = dis.map((d, k) => ({ source: (k < off ? 'model' : 'edge-search') as 'model' | 'edge-search', meanRadiusPx: Math.round(means[k] * 100) / 100, disagreement: Math.round(d * 1e4) / 1e4 }));
   return { ring: best < off ? null : rings[best - off], scores };
 }

@@ -4,7 +4,9 @@
  * synthetic map whose surface is a known disc.
  */
 import { describe, expect, it } from 'vitest';
-import { outlineDisagreement, outlineRadii } from '../../../src/core/learn/edgeCandidates.js';
+import { outlineDisagreement, outlineRadii, outlinesApart, sureEdge } from '../../../src/core/learn/edgeCandidates.js';
+import type { FractureEdge } from '../../../src/core/segment/fractureEdge.js';
+import type { Ring } from '../../../src/core/segment/rings.js';
 
 const circle = (cx: number, cy: number, r: number, n: number): { x: number; y: number }[] =>
   Array.from({ length: n }, (_, k) => ({ x: cx + r * Math.cos((2 * Math.PI * k) / n), y: cy - r * Math.sin((2 * Math.PI * k) / n) }));
@@ -30,5 +32,24 @@ describe('outline candidates scored by the outside probability', () => {
     expect(right).toBeCloseTo(0.1, 2); // only the probability's own 0.1 of doubt is left
     expect(small).toBeGreaterThan(right + 0.1);
     expect(large).toBeGreaterThan(right + 0.1);
+  });
+});
+
+describe('a sure choice of the edge search', () => {
+  const ring = (coverage: number, roundnessPx: number): Ring => ({ ...({} as Ring), radiusPx: 200, coverage, roundnessPx, points: circle(0, 0, 200, 8) });
+  const edge = (chosen: Ring | null, ambiguous = false, bent: Ring | null = null): FractureEdge => ({ chosen, rule: 'first-edge-outside-core', rings: [], center: { x: 0, y: 0 }, innerRoundEdge: false, ambiguous, sectionNotFound: false, bent });
+
+  it('is an unambiguous, unbent ring clear on ≥ 90 % of the rays and round to 1.5 px', () => {
+    expect(sureEdge(edge(ring(1, 0.15)))).toBe(true);
+    expect(sureEdge(edge(ring(0.89, 0.15)))).toBe(false);
+    expect(sureEdge(edge(ring(1, 1.6)))).toBe(false);
+    expect(sureEdge(edge(ring(1, 0.15), true))).toBe(false);
+    expect(sureEdge(edge(ring(1, 0.15), false, ring(0.6, 2)))).toBe(false);
+    expect(sureEdge(edge(null))).toBe(false);
+  });
+
+  it('tells two outlines apart by their mean radius difference over the rays both have', () => {
+    expect(outlinesApart([10, 20, null, 30], [12, 17, 5, null])).toBeCloseTo(2.5, 10);
+    expect(outlinesApart([null], [1])).toBe(0);
   });
 });

@@ -3,8 +3,8 @@
  * (≤ 1 % of the pixels, drawn from the truth of the first image, src/core/learn/strokes.ts) teach a
  * model; the other images of the series — other seeds, other band widths — are measured with it
  * and each must lie within 3 % of its truth (the truth mean over the whole circumference; bound
- * from the issue) without a flag — or, on the notch-flank family, within 3 % or flagged
- * LOW_MODEL_CONFIDENCE (see SERIES).
+ * from the issue) without a flag — or, on the notch-flank family, within 3 % with the flag allowed,
+ * or within 3 % or flagged LOW_MODEL_CONFIDENCE (see SERIES).
  * The series are of scene families where the fixed rules are weakest: a tinted band of the same mean
  * brightness as the core, a notch flank with a holder, a shadow and a tinted band (the fixed
  * rules give 3–4 × the width there), and the SEM look. Test images kept small (1000 × 760 px).
@@ -33,15 +33,21 @@ function labelsOf(t: RenderTruth): ReturnType<typeof strokeLabels> {
 }
 
 /**
- * The series and what each image of it must give: within 3 % of the truth ('accurate'), or, where
- * the model cannot place the notch root beside a flank to that precision, within 3 % or flagged
- * LOW_MODEL_CONFIDENCE — never a silent wrong number ('accurate-or-flagged').
+ * The series and what each image of it must give: within 3 % of the truth without a flag
+ * ('accurate'); within 3 %, LOW_MODEL_CONFIDENCE allowed, where the width is right but the model's
+ * own probabilities beside a flank stay unsure ('within'); or, where the model cannot place the notch
+ * root beside a flank to that precision, within 3 % or flagged — never a silent wrong number
+ * ('accurate-or-flagged').
  */
-const SERIES: [string, 'accurate' | 'accurate-or-flagged'][] = [
+type Bound = 'accurate' | 'within' | 'accurate-or-flagged';
+const SERIES: [string, Bound][] = [
   ['tint-blue', 'accurate'],
   // notch flank: images 1/2 +0.0 / −0.7 % but both flagged (outer-edge confidence 0.69–0.70: P(outside)
   // ≈ ½ just outside the flank's root; DEVELOPERS.md "Pixel classifier"), so not 'accurate' yet
   ['flank-holder-tint', 'accurate-or-flagged'],
+  // U flank: images 1/2 −2.8 / −2.5 % with the edge search's sure notch root kept over the model's
+  // ellipse (learn/edgeCandidates.ts `sureEdge`); still flagged by the outer edge (0.71), so 'within'
+  ['flank-holder-tint-b', 'within'],
   // SEM look: images 1/2 +1.0 / +0.7 %, boundary confidence 0.78 / 0.79 (DEVELOPERS.md "Pixel classifier")
   ['sem', 'accurate'],
 ];
@@ -69,7 +75,7 @@ describe.each(SERIES)('a model taught on one image of the %s series', (scene, bo
     expect(serialiseModel(teach())).toBe(serialiseModel(model));
   });
 
-  it.each([1, 2])(`measures image %i of the series within 3 % of its truth${bound === 'accurate' ? '' : ', or flags it'}`, (k) => {
+  it.each([1, 2])(`measures image %i of the series within 3 % of its truth${bound === 'accurate-or-flagged' ? ', or flags it' : ''}`, (k) => {
     const img = member(scene, k);
     const loaded = loadModel(model, 'c'.repeat(64));
     const p = defaultParams();
@@ -81,10 +87,9 @@ describe.each(SERIES)('a model taught on one image of the %s series', (scene, bo
     const mean = result.band.widthUm?.mean ?? NaN;
     const within = Math.abs(mean / truth - 1) <= 0.03;
     const flagged = result.warnings.some((w) => w.code === 'LOW_MODEL_CONFIDENCE');
-    if (bound === 'accurate') {
-      expect(Math.abs(mean / truth - 1)).toBeLessThanOrEqual(0.03);
-      expect(flagged).toBe(false);
-    } else expect(within || flagged).toBe(true);
+    if (bound === 'accurate' || bound === 'within') expect(Math.abs(mean / truth - 1)).toBeLessThanOrEqual(0.03);
+    if (bound === 'accurate') expect(flagged).toBe(false);
+    if (bound === 'accurate-or-flagged') expect(within || flagged).toBe(true);
     expect(result.model?.sha256).toBe(loaded.sha256);
     expect(result.params.modelSha256).toBe(loaded.sha256);
   });
