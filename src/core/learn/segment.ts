@@ -332,8 +332,13 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   const outerPoly = polygonOf(outerWork, centre, nRays);
   // the model places the step (the matched step of q nearest the classified core outline), the
   // image refines it (the texture step of refineBoundary within a window of it); see the module comment
+  // — each ray's own step (poolWindows 0): the guide is already the model's step, median-filtered over
+  // 5 rays, and pooling the neighbours' profiles around it only added the pooled level's rimward pull
+  // (series, images 1–5, measured 2026-12-03: SEM +1.24 / +0.46 / +0.28 / −0.91 / +3.16 % pooled,
+  // +1.04 / +0.73 / +1.26 / −0.95 / +2.35 % not; tint-blue and both flank series closer too; the
+  // independent noisier scan sem_noise +2.85 → +3.18 %: pooling helps under heavy noise)
   const guide = circularMedian(coreStep(q, p.width, p.height, centre, rimCore.boundary, outerWork, nRays, w, 1.5 * w), 5);
-  const bRadii = refineBoundary(frame.work, outerPoly, polygonOf(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1 }).radiiPx;
+  const bRadii = refineBoundary(frame.work, outerPoly, polygonOf(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1, poolWindows: 0 }).radiiPx;
   // a boundary crossing beyond the outer edge is no boundary there
   const b = bRadii.map((r, i) => (r !== null && outerWork[i] !== null && r >= (outerWork[i] as number) ? null : r));
   const halfBand = (i: number): number => Math.max(0.5, Math.min(w / 2, ((outerWork[i] ?? 0) - (b[i] ?? 0)) / 2));
