@@ -4,18 +4,10 @@
  */
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
+import { samplePlane } from '../segment/refine.js';
 
-/** Bilinear sample of a plane (W × H) at (x, y), clamped to the image. */
-export function sampleAt(v: Float32Array, W: number, H: number, x: number, y: number): number {
-  const xc = Math.min(W - 1, Math.max(0, x));
-  const yc = Math.min(H - 1, Math.max(0, y));
-  const x0 = Math.min(W - 2, Math.floor(xc));
-  const y0 = Math.min(H - 2, Math.floor(yc));
-  const fx = xc - x0;
-  const fy = yc - y0;
-  const i = y0 * W + x0;
-  return (v[i] * (1 - fx) + v[i + 1] * fx) * (1 - fy) + (v[i + W] * (1 - fx) + v[i + W + 1] * fx) * fy;
-}
+/** Bilinear sample of a plane (W × H) at (x, y), clamped to the image (refine.ts's). */
+export const sampleAt = samplePlane;
 
 /**
  * Along rays from `centre`: where `v` crosses ½ nearest the radius of `line` on the ray, within

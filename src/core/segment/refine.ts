@@ -49,15 +49,17 @@ export function boxEnergy(r: GrayRaster, windowPx: number, highPassPx = 5): Gray
 
 /** Bilinear sample of a raster at (x, y) px; clamps at the border. */
 function sample(r: GrayRaster, x: number, y: number): number {
-  const W = r.width;
-  const H = r.height;
+  return samplePlane(r.data, r.width, r.height, x, y);
+}
+
+/** Bilinear sample of a plane (W × H, W, H ≥ 2) at (x, y) px, clamped to the plane. */
+export function samplePlane(d: Float32Array, W: number, H: number, x: number, y: number): number {
   const xc = Math.min(W - 1, Math.max(0, x));
   const yc = Math.min(H - 1, Math.max(0, y));
   const x0 = Math.min(W - 2, Math.floor(xc));
   const y0 = Math.min(H - 2, Math.floor(yc));
   const fx = xc - x0;
   const fy = yc - y0;
-  const d = r.data;
   const i = y0 * W + x0;
   return (d[i] * (1 - fx) + d[i + 1] * fx) * (1 - fy) + (d[i + W] * (1 - fx) + d[i + W + 1] * fx) * fy;
 }
