@@ -6,6 +6,7 @@ import type { PointPx } from '../image/geometry.js';
 import type { GrayRaster } from '../image/raster.js';
 import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
 import { medianOf as median } from '../measure/statistics.js';
+import { circularMedian } from './refine.js';
 
 /** Reflect-101 index into [0, n) (OpenCV BORDER_REFLECT_101: … 2 1 | 0 1 2 … n−2 | n−1 n−2 …). */
 function reflect101(i: number, n: number): number {
@@ -88,15 +89,24 @@ export function refineOuterEdge(
   contour: readonly PointPx[],
   center: PointPx,
   opts: RefineOuterOptions = {},
-): { polygon: PointPx[]; radiiPx: (number | null)[]; nFallback: number } {
+): { polygon: PointPx[]; radiiPx: (number | null)[]; nFallback: number; nSpikes: number } {
   const nRays = opts.nRays ?? 360;
   const sig = opts.sigmaPx ?? 1;
   const search = opts.searchPx ?? 4;
   const sm = localGaussian(r, sig);
   const idx = buildRayIndex(contour, center);
   const radii: (number | null)[] = [];
-  const polygon: PointPx[] = [];
   let nFallback = 0;
+  const along = (th: number): ((t: number) => number) => {
+    const d = rayDirection(th);
+    return (t: number): number => sm(center.x + t * d.x, center.y + t * d.y);
+  };
+  const inFrameAt = (th: number, t: number): boolean => {
+    const d = rayDirection(th);
+    const x = center.x + t * d.x;
+    const y = center.y + t * d.y;
+    return x >= 0 && y >= 0 && x <= r.width - 1 && y <= r.height - 1;
+  };
   for (let i = 0; i < nRays; i++) {
     const th = (360 * i) / nRays;
     const h = castRay(idx, th);
@@ -105,39 +115,67 @@ export function refineOuterEdge(
       continue;
     }
     const c = h[h.length - 1];
-    const d = rayDirection(th);
-    const at = (t: number): number => sm(center.x + t * d.x, center.y + t * d.y);
-    const ins: number[] = [];
-    const outs: number[] = [];
-    for (let t = 3; t <= 7; t += 0.5) {
-      ins.push(at(c - t));
-      outs.push(at(c + t));
-    }
-    const lin = median(ins);
-    const lout = median(outs);
-    const mid = 0.5 * (lin + lout);
-    let best: number | null = null;
-    const x = center.x + (c + 2) * d.x;
-    const y = center.y + (c + 2) * d.y;
-    const inFrame = x >= 0 && y >= 0 && x <= r.width - 1 && y <= r.height - 1;
-    if (inFrame && Math.abs(lin - lout) > 1e-3) {
-      let prev = at(c - search) - mid;
-      for (let t = c - search + 0.25; t <= c + search + 1e-9; t += 0.25) {
-        const v = at(t) - mid;
-        if ((prev >= 0 && v < 0) || (prev <= 0 && v > 0)) {
-          const tc = t - 0.25 + 0.25 * (prev / (prev - v));
-          if (best === null || Math.abs(tc - c - 0.5) < Math.abs(best - c - 0.5)) best = tc;
-        }
-        prev = v;
-      }
-    }
+    const inFrame = inFrameAt(th, c + 2);
+    let best = inFrame ? crossingNear(along(th), c, search) : null;
     if (best === null) {
       nFallback++;
       best = inFrame ? c + 0.5 : c;
     }
     radii.push(best);
-    polygon.push({ x: center.x + best * d.x, y: center.y + best * d.y });
   }
-  return { polygon, radiiPx: radii, nFallback };
+  // A ray whose edge stands more than SPIKE_PX off the running median of its neighbours followed a
+  // spike of the traced contour (a noise blob on the silhouette; independent sem.tif: +14 px and
+  // +6 px on single rays): its crossing is looked for again around that median, or the median is taken.
+  const med = circularMedian(radii, SPIKE_RAYS);
+  let nSpikes = 0;
+  for (let i = 0; i < nRays; i++) {
+    const ri = radii[i];
+    const m = med[i];
+    if (ri === null || m === null || Math.abs(ri - m) <= SPIKE_PX) continue;
+    const th = (360 * i) / nRays;
+    const again = inFrameAt(th, m + 1.5) ? crossingNear(along(th), m - 0.5, search) : null;
+    radii[i] = again !== null && Math.abs(again - m) <= SPIKE_PX ? again : m;
+    nSpikes++;
+  }
+  const polygon: PointPx[] = [];
+  for (let i = 0; i < nRays; i++) {
+    const t = radii[i];
+    if (t === null) continue;
+    const d = rayDirection((360 * i) / nRays);
+    polygon.push({ x: center.x + t * d.x, y: center.y + t * d.y });
+  }
+  return { polygon, radiiPx: radii, nFallback, nSpikes };
 }
 
+/** Rays of the running median a ray's edge is checked against, and the largest distance from it, px. */
+const SPIKE_RAYS = 7;
+const SPIKE_PX = 2;
+
+/**
+ * The midpoint crossing nearest c + 0.5 along one ray within ±search px of c, or null: inside and
+ * outside levels are the medians of the smoothed intensity 3–7 px either side of c.
+ */
+function crossingNear(at: (t: number) => number, c: number, search: number): number | null {
+  const ins: number[] = [];
+  const outs: number[] = [];
+  for (let t = 3; t <= 7; t += 0.5) {
+    ins.push(at(c - t));
+    outs.push(at(c + t));
+  }
+  const lin = median(ins);
+  const lout = median(outs);
+  const mid = 0.5 * (lin + lout);
+  let best: number | null = null;
+  if (Math.abs(lin - lout) > 1e-3) {
+    let prev = at(c - search) - mid;
+    for (let t = c - search + 0.25; t <= c + search + 1e-9; t += 0.25) {
+      const v = at(t) - mid;
+      if ((prev >= 0 && v < 0) || (prev <= 0 && v > 0)) {
+        const tc = t - 0.25 + 0.25 * (prev / (prev - v));
+        if (best === null || Math.abs(tc - c - 0.5) < Math.abs(best - c - 0.5)) best = tc;
+      }
+      prev = v;
+    }
+  }
+  return best;
+}

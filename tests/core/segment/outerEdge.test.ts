@@ -30,4 +30,35 @@ describe('refineOuterEdge', () => {
     // √2 px off a circle along diagonals): + 0.5 px stays within 1.5 px of the true edge
     for (let i = 0; i < 90; i++) expect(Math.abs(r.radiiPx[i]! - img.outerRadiusAt(i * 4))).toBeLessThan(1.5);
   });
+
+  it('takes a ray back to its neighbours when the traced contour has a spike there (contour noise)', () => {
+    const img = makeDiscImage({ seed: 12 });
+    const sp = findSpecimen(img.raster);
+    const c = { x: img.cx, y: img.cy };
+    const clean = refineOuterEdge(img.raster, sp.contour, c, { nRays: 360 });
+    expect(clean.nSpikes).toBe(0);
+    // a thin protrusion 12 px out of the contour at 40°: the ray through it sees the tip as the
+    // farthest contour hit, and without the check its edge would be searched ±4 px around the tip
+    const th = (40 * Math.PI) / 180;
+    const dir = { x: Math.cos(th), y: -Math.sin(th) };
+    let k = 0;
+    for (let i = 1; i < sp.contour.length; i++) {
+      const a = sp.contour[i];
+      const b = sp.contour[k];
+      const ang = (p: { x: number; y: number }) => Math.abs(Math.atan2(-(p.y - c.y), p.x - c.x) - th);
+      if (ang(a) < ang(b)) k = i;
+    }
+    const base = sp.contour[k];
+    const r0 = Math.hypot(base.x - c.x, base.y - c.y);
+    const tip = { x: c.x + (r0 + 12) * dir.x, y: c.y + (r0 + 12) * dir.y };
+    const spiked = [...sp.contour.slice(0, k + 1), tip, ...sp.contour.slice(k)];
+    const r = refineOuterEdge(img.raster, spiked, c, { nRays: 360 });
+    expect(r.nSpikes).toBeGreaterThanOrEqual(1);
+    expect(Math.abs(r.radiiPx[40]! - img.outerRadiusAt(40))).toBeLessThan(0.3);
+    // every other ray is where it was on the clean contour, to the bit
+    let same = 0;
+    for (let i = 0; i < 360; i++) if (r.radiiPx[i] === clean.radiiPx[i]) same++;
+    expect(same).toBeGreaterThanOrEqual(357);
+  });
 });
+
