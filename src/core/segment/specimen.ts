@@ -9,6 +9,7 @@ import type { BoxPx, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, outerContour, rectMorph, setBox } from './cvutil.js';
 import { gaussian1 } from './smooth.js';
 import { fillHolesInBox } from './holes.js';
+import { keepLabelled } from './components.js';
 import { coarseForeground } from './foreground.js';
 import { separatedForeground } from './severalSpecimens.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
@@ -93,7 +94,8 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const aim = t ? { x: (t.x + t.w / 2 + 0.5) / sx - 0.5, y: (t.y + t.h / 2 + 0.5) / sy - 0.5 } : { x: (w - 1) / 2, y: (h - 1) / 2 };
   // a target was vetted as a specimen by listSpecimens: kept whatever the size of other objects
   // (a rule along the frame can be several times larger)
-  const kept = keepComponent(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
+  // the foreground's labelling is shared with listSpecimens (components.ts)
+  const kept = keepLabelled(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
   if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
   const coarse = kept;
   fillHolesInBox(coarse);
@@ -107,7 +109,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2, others);
   const area = countSet(mask.data);
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
-  const contour = outerContour(mask);
+  const contour = outerContourInBox(mask);
   const onFrame = (p: PointPx): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
   const inner = contour.filter((p) => !onFrame(p));
   const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
@@ -123,6 +125,28 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
     background: bright ? 'bright' : 'dark', touchesFrame: frameContactFraction > 0, frameContactFraction,
     thresholdLevel: level,
   };
+}
+
+/**
+ * `outerContour(mask)` (cvutil.ts) traced on the set pixels' bounding box grown by 1 px (issue 16:
+ * the specimen fills about half of the working copy; the mask is copied into OpenCV and scanned
+ * whole otherwise). The same points: cv.findContours pads the image it is given with a 1-px
+ * border of 0s and scans it row by row, so on a crop whose sides inside the image are 0 it meets
+ * the same contours in the same order and follows them pixel for pixel; the points are shifted
+ * back by the crop's origin. tests/core/segment/specimenBand.test.ts compares the two.
+ */
+export function outerContourInBox(mask: Mask): PointPx[] {
+  const { width: W, height: H, data } = mask;
+  const box = setBox(data, W, H);
+  if (!box) return outerContour(mask);
+  const x0 = Math.max(0, box.x0 - 1);
+  const y0 = Math.max(0, box.y0 - 1);
+  const cw = Math.min(W - 1, box.x1 + 1) - x0 + 1;
+  const ch = Math.min(H - 1, box.y1 + 1) - y0 + 1;
+  if (cw === W && ch === H) return outerContour(mask);
+  const crop = createMask(cw, ch);
+  for (let y = 0; y < ch; y++) crop.data.set(data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  return outerContour(crop).map((p) => ({ x: p.x + x0, y: p.y + y0 }));
 }
 
 /** Number of set (1) pixels of a 0/1 mask (a loop of its own, issue 16). */

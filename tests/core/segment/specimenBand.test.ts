@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
-import { fillHoles, keepComponent, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
-import { binarise127, decideBand, filledKeptInBox, grownBox } from '../../../src/core/segment/specimen.js';
+import { fillHoles, keepComponent, outerContour, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
+import { binarise127, decideBand, filledKeptInBox, grownBox, outerContourInBox } from '../../../src/core/segment/specimen.js';
 import { gaussian1 } from '../../../src/core/segment/smooth.js';
 import { createMask, createRaster } from '../../../src/core/image/raster.js';
 
@@ -192,5 +192,34 @@ describe('binarise127', () => {
     } finally {
       m.delete();
     }
+  });
+});
+
+describe('outerContourInBox', () => {
+  it('equals outerContour of the whole mask (one or several shapes, holes, shapes on the frame, empty mask)', () => {
+    let traced = 0;
+    for (let seed = 1; seed <= 30; seed++) {
+      const rnd = lcg(seed * 53);
+      const W = 30 + Math.floor(rnd() * 70);
+      const H = 30 + Math.floor(rnd() * 70);
+      const m = createMask(W, H);
+      const margin = seed % 3 === 0 ? -0.1 : 0.2;
+      for (let k = 0; k < (seed === 1 ? 0 : 1 + Math.floor(rnd() * 4)); k++) {
+        const cx = (margin + (1 - 2 * margin) * rnd()) * W;
+        const cy = (margin + (1 - 2 * margin) * rnd()) * H;
+        const ro = 2 + rnd() * 0.3 * Math.min(W, H);
+        const ri = rnd() < 0.4 ? ro * 0.5 : 0;
+        for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+          const d = Math.hypot((x - cx) * (1 + 0.3 * Math.sin(y)), y - cy);
+          if (d < ro && d >= ri) m.data[y * W + x] = 1;
+        }
+      }
+      for (let i = 0; i < m.data.length; i++) if (rnd() < 0.003) m.data[i] = 1;
+      const ref = outerContour(m);
+      const got = outerContourInBox(m);
+      expect(got).toEqual(ref);
+      if (ref.length > 8) traced++;
+    }
+    expect(traced).toBeGreaterThan(20);
   });
 });
