@@ -6,7 +6,7 @@
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
 import { fillHoles, keepComponent, outerContour, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
-import { binarise127, decideBand, filledKeptInBox, grownBox, outerContourInBox } from '../../../src/core/segment/specimen.js';
+import { decideBand, filledKeptInBox, grownBox, outerContourInBox } from '../../../src/core/segment/specimen.js';
 import { gaussian1 } from '../../../src/core/segment/smooth.js';
 import { createMask, createRaster } from '../../../src/core/image/raster.js';
 
@@ -175,23 +175,6 @@ describe('filledKeptInBox', () => {
     const got = filledKeptInBox(m, { x0: 5, y0: 2, cw: 15, ch: 15 }, { x: 17, y: 9 });
     expect(Array.from(got.data)).toEqual(Array.from(refKept.data));
     expect(got.data[9 * W + 17]).toBe(1);
-  });
-});
-
-describe('binarise127', () => {
-  it('equals cv.threshold(127, 255, THRESH_BINARY) on every byte value', () => {
-    const cv = getCv();
-    const bytes = Uint8Array.from({ length: 256 * 3 + 5 }, (_, i) => (i * 7) % 256);
-    const m = new cv.Mat(1, bytes.length, cv.CV_8U);
-    try {
-      (m.data as Uint8Array).set(bytes);
-      cv.threshold(m, m, 127, 255, cv.THRESH_BINARY);
-      const got = Uint8Array.from(bytes);
-      binarise127(got);
-      expect(Array.from(got)).toEqual(Array.from(m.data as Uint8Array));
-    } finally {
-      m.delete();
-    }
   });
 });
 
