@@ -88,20 +88,29 @@ export function voteCentre(cues: EdgeCues, rMin: number, rMax: number, near: Poi
     castVotes(acc, aw, W, H, g, thr, rMin, rMax);
   }
   const sm = boxSum5(acc, aw, ah);
+  const at = bestCell(sm, aw, ah, near, nearRadius);
+  return at < 0 ? { x: near.x, y: near.y } : { x: 2 * (at % aw) + 0.5, y: 2 * Math.floor(at / aw) + 0.5 };
+}
+
+/**
+ * The first cell in row order with the largest sum among those within `nearRadius` of `near`
+ * (accumulator cells at twice their index), or −1. The distance is worked out only for a cell
+ * that would beat the best so far (issue 16: was one Math.hypot per cell, ≈ 270 000); the same
+ * cell: a cell is taken exactly when it is near and beats the best so far, in either order of
+ * the two tests. A loop of its own.
+ */
+function bestCell(sm: Float32Array, aw: number, ah: number, near: PointPx, nearRadius: number): number {
   let best = -1;
-  let bx = near.x;
-  let by = near.y;
+  let at = -1;
   for (let y = 2; y < ah - 2; y++) {
-    for (let x = 2; x < aw - 2; x++) {
-      if (Math.hypot(2 * x - near.x, 2 * y - near.y) > nearRadius) continue;
-      if (sm[y * aw + x] > best) {
-        best = sm[y * aw + x];
-        bx = 2 * x + 0.5;
-        by = 2 * y + 0.5;
+    for (let x = 2, i = y * aw + 2; x < aw - 2; x++, i++) {
+      if (sm[i] > best && !(Math.hypot(2 * x - near.x, 2 * y - near.y) > nearRadius)) {
+        best = sm[i];
+        at = i;
       }
     }
   }
-  return { x: bx, y: by };
+  return at;
 }
 
 /** Central-difference gradients at every `step`-th pixel (row-major order of the grid). */
@@ -350,7 +359,7 @@ export function findRings(cues: EdgeCues, shape: PolarShape, o: RingOptions): Ri
     if (kept.length >= (o.maxRings ?? 7)) break;
   }
   kept.sort((a, b) => a - b);
-  const rings: Ring[] = [];
+  const traced: TracedRing[] = [];
   for (let i = 0; i < kept.length; i++) {
     const j = kept[i];
     const r = j * dr;
@@ -359,19 +368,23 @@ export function findRings(cues: EdgeCues, shape: PolarShape, o: RingOptions): Ri
     const hi = Math.min(nR - 3, Math.round(Math.min(j + half, i < kept.length - 1 ? (kept[i + 1] + j) / 2 - 1 : nR)));
     if (hi - lo < 2) continue;
     const path = tracePath(e, nTheta, nR, lo, hi, Math.max(1, Math.round(1 / dr)));
-    rings.push(ringFrom(p, e, path, shape, cues.windowPx, o.silhouette, noise, Infinity, Infinity));
+    traced.push(tracedRing(p, e, path, shape, cues.windowPx, noise));
   }
-  // second pass: the annuli either side reach at most half-way to the neighbouring clear rings
-  // (found on half the rays or more), so an annulus describes one surface, not the next one too
-  const clear = rings.map((r) => r.coverage >= 0.5);
-  for (let i = 0; i < rings.length; i++) {
+  // the annuli either side reach at most half-way to the neighbouring clear rings (found on half
+  // the rays or more), so an annulus describes one surface, not the next one too. They are the only
+  // part of a ring that depends on its neighbours: worked out once, after all rings are traced
+  // (issue 16; was: every ring in full with unbounded annuli, then again with these gaps — the same
+  // rings, the traced part computed twice)
+  const clear = traced.map((r) => r.coverage >= 0.5);
+  const rings: Ring[] = [];
+  for (let i = 0; i < traced.length; i++) {
     let a = i - 1;
     while (a >= 0 && !clear[a]) a--;
     let b = i + 1;
-    while (b < rings.length && !clear[b]) b++;
-    const gapIn = a >= 0 ? rings[i].radiusPx - rings[a].radiusPx : Infinity;
-    const gapOut = b < rings.length ? rings[b].radiusPx - rings[i].radiusPx : Infinity;
-    if (Number.isFinite(gapIn) || Number.isFinite(gapOut)) rings[i] = ringFrom(p, e, rings[i].path, shape, cues.windowPx, o.silhouette, noise, gapIn, gapOut);
+    while (b < traced.length && !clear[b]) b++;
+    const gapIn = a >= 0 ? traced[i].radiusPx - traced[a].radiusPx : Infinity;
+    const gapOut = b < traced.length ? traced[b].radiusPx - traced[i].radiusPx : Infinity;
+    rings.push(withAnnuli(p, traced[i], shape, cues.windowPx, o.silhouette, gapIn, gapOut));
   }
   let ref = -1;
   for (let i = 0; i < rings.length; i++) if (rings[i].coverage >= 0.5 && (ref < 0 || rings[i].prominence > rings[ref].prominence)) ref = i;
@@ -389,7 +402,11 @@ export function findRings(cues: EdgeCues, shape: PolarShape, o: RingOptions): Ri
   return { shape, polar: p, rings, noise, coreRoughness: cn ? cs / cn : NaN };
 }
 
-function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarShape, windowPx: number, silhouette: Mask | null, noise: number, gapInPx: number, gapOutPx: number): Ring {
+/** A ring without its annuli: everything that follows from its own path. */
+type TracedRing = Omit<Ring, 'inner' | 'outer'>;
+
+/** The ring of `path`: radius, points, coverage, prominence, roundness and the steps across it. */
+function tracedRing(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarShape, windowPx: number, noise: number): TracedRing {
   const { nTheta, nR, dr } = p;
   let sumRadius = 0;
   const points: PointPx[] = [];
@@ -427,15 +444,8 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
     }
   }
   const fit = fitEllipseToPoints(points);
-  const radiusPx = sumRadius / nTheta;
-  const w = Math.max(3, Math.min(0.06 * radiusPx, 6 * windowPx)) / dr;
-  const gap = Math.round(Math.max(2, windowPx / 2 / dr));
-  // keep clear of the neighbouring ring by its own blur (band-pass σ 2 px leaks ~6 px)
-  const margin = Math.max(gap, Math.round(6 / dr));
-  const wIn = Math.max(2, Math.min(w, gapInPx / dr - gap - margin));
-  const wOut = Math.max(2, Math.min(w, gapOutPx / dr - gap - margin));
   return {
-    radiusPx,
+    radiusPx: sumRadius / nTheta,
     path,
     points,
     coverage: nTheta ? covered / nTheta : 0,
@@ -444,7 +454,24 @@ function ringFrom(p: PolarCues, e: Float32Array, path: Int32Array, shape: PolarS
     roundnessPx: fit ? fit.rmsResidualPx : Infinity,
     intensityStep: nInside ? di / nInside : 0,
     roughnessStep: nInside ? dRs / nInside : 0,
-    inner: annulus(p, path, -gap, -gap - Math.round(wIn), silhouette, shape),
-    outer: annulus(p, path, gap, gap + Math.round(wOut), silhouette, shape),
+  };
+}
+
+/**
+ * The ring with the annuli just inside and outside it, each at most `w` wide and reaching at most
+ * half-way to the neighbouring clear ring `gapInPx` / `gapOutPx` away (Infinity: none).
+ */
+function withAnnuli(p: PolarCues, r: TracedRing, shape: PolarShape, windowPx: number, silhouette: Mask | null, gapInPx: number, gapOutPx: number): Ring {
+  const { dr } = p;
+  const w = Math.max(3, Math.min(0.06 * r.radiusPx, 6 * windowPx)) / dr;
+  const gap = Math.round(Math.max(2, windowPx / 2 / dr));
+  // keep clear of the neighbouring ring by its own blur (band-pass σ 2 px leaks ~6 px)
+  const margin = Math.max(gap, Math.round(6 / dr));
+  const wIn = Math.max(2, Math.min(w, gapInPx / dr - gap - margin));
+  const wOut = Math.max(2, Math.min(w, gapOutPx / dr - gap - margin));
+  return {
+    ...r,
+    inner: annulus(p, r.path, -gap, -gap - Math.round(wIn), silhouette, shape),
+    outer: annulus(p, r.path, gap, gap + Math.round(wOut), silhouette, shape),
   };
 }

@@ -7,6 +7,7 @@ import type { BoxPx } from '../image/geometry.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import { coarseForeground, foregroundKey, type CoarseForeground, type ForegroundOptions } from './foreground.js';
 import { oncePerRaster } from './memo.js';
+import { labelledComponents, STAT_AREA, STAT_HEIGHT, STAT_LEFT, STAT_TOP, STAT_WIDTH } from './components.js';
 import { maskToMat } from './cvutil.js';
 
 /** Options of {@link listSpecimens}. */
@@ -65,34 +66,24 @@ const COMPONENTS = new WeakMap<Mask, Components>();
 function components(fg: CoarseForeground): Components {
   const hit = COMPONENTS.get(fg.mask);
   if (hit) return hit;
-  const cv = getCv();
   const { w, h } = fg;
-  const m = maskToMat(fg.mask);
-  const labels = new cv.Mat();
-  const stats = new cv.Mat();
-  const cents = new cv.Mat();
+  // labelled once per mask: findSpecimen keeps one component of the same mask (components.ts)
+  const { n, stats } = labelledComponents(fg.mask);
   const out: Components = { round: [], elongated: 0 };
-  try {
-    const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
-    for (let l = 1; l < n; l++) {
-      const area = stats.intAt(l, cv.CC_STAT_AREA);
-      const bw = stats.intAt(l, cv.CC_STAT_WIDTH);
-      const bh = stats.intAt(l, cv.CC_STAT_HEIGHT);
-      if (area < 0.002 * w * h) continue;
-      const aspect = Math.max(bw, bh) / Math.min(bw, bh);
-      if (aspect > 1.5) {
-        if (aspect <= 3.5) out.elongated++;
-        continue;
-      }
-      const fill = area / (bw * bh);
-      if (fill < 0.6 || fill > 0.9) continue;
-      out.round.push({ area, bx: stats.intAt(l, cv.CC_STAT_LEFT), by: stats.intAt(l, cv.CC_STAT_TOP), bw, bh });
+  const at = (l: number, k: number): number => stats[l * 5 + k];
+  for (let l = 1; l < n; l++) {
+    const area = at(l, STAT_AREA);
+    const bw = at(l, STAT_WIDTH);
+    const bh = at(l, STAT_HEIGHT);
+    if (area < 0.002 * w * h) continue;
+    const aspect = Math.max(bw, bh) / Math.min(bw, bh);
+    if (aspect > 1.5) {
+      if (aspect <= 3.5) out.elongated++;
+      continue;
     }
-  } finally {
-    m.delete();
-    labels.delete();
-    stats.delete();
-    cents.delete();
+    const fill = area / (bw * bh);
+    if (fill < 0.6 || fill > 0.9) continue;
+    out.round.push({ area, bx: at(l, STAT_LEFT), by: at(l, STAT_TOP), bw, bh });
   }
   COMPONENTS.set(fg.mask, out);
   return out;

@@ -8,6 +8,8 @@ import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, outerContour, rectMorph, setBox } from './cvutil.js';
 import { gaussian1 } from './smooth.js';
+import { fillHolesInBox } from './holes.js';
+import { keepLabelled } from './components.js';
 import { coarseForeground } from './foreground.js';
 import { separatedForeground } from './severalSpecimens.js';
 import { type CircleFit, type EllipseFit, fitCircle, fitEllipseToPoints } from './fit.js';
@@ -92,10 +94,11 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const aim = t ? { x: (t.x + t.w / 2 + 0.5) / sx - 0.5, y: (t.y + t.h / 2 + 0.5) / sy - 0.5 } : { x: (w - 1) / 2, y: (h - 1) / 2 };
   // a target was vetted as a specimen by listSpecimens: kept whatever the size of other objects
   // (a rule along the frame can be several times larger)
-  const kept = keepComponent(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
+  // the foreground's labelling is shared with listSpecimens (components.ts)
+  const kept = keepLabelled(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
   if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
   const coarse = kept;
-  fillHoles(coarse);
+  fillHolesInBox(coarse);
   // with a target, the other objects stay out of the re-decided edge band (a touching half)
   let others: Mask | null = null;
   if (t) {
@@ -106,7 +109,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const mask = refineAtFullResolution(r, coarse, level, bright, Math.ceil(8 * Math.max(sx, sy)) + 2, others);
   const area = countSet(mask.data);
   if (area < 0.002 * W * H) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the only regions found are too small.');
-  const contour = outerContour(mask);
+  const contour = outerContourInBox(mask);
   const onFrame = (p: PointPx): boolean => p.x <= 0 || p.y <= 0 || p.x >= W - 1 || p.y >= H - 1;
   const inner = contour.filter((p) => !onFrame(p));
   const frameContactFraction = contour.length ? 1 - inner.length / contour.length : 0;
@@ -122,6 +125,28 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
     background: bright ? 'bright' : 'dark', touchesFrame: frameContactFraction > 0, frameContactFraction,
     thresholdLevel: level,
   };
+}
+
+/**
+ * `outerContour(mask)` (cvutil.ts) traced on the set pixels' bounding box grown by 1 px (issue 16:
+ * the specimen fills about half of the working copy; the mask is copied into OpenCV and scanned
+ * whole otherwise). The same points: cv.findContours pads the image it is given with a 1-px
+ * border of 0s and scans it row by row, so on a crop whose sides inside the image are 0 it meets
+ * the same contours in the same order and follows them pixel for pixel; the points are shifted
+ * back by the crop's origin. tests/core/segment/specimenBand.test.ts compares the two.
+ */
+export function outerContourInBox(mask: Mask): PointPx[] {
+  const { width: W, height: H, data } = mask;
+  const box = setBox(data, W, H);
+  if (!box) return outerContour(mask);
+  const x0 = Math.max(0, box.x0 - 1);
+  const y0 = Math.max(0, box.y0 - 1);
+  const cw = Math.min(W - 1, box.x1 + 1) - x0 + 1;
+  const ch = Math.min(H - 1, box.y1 + 1) - y0 + 1;
+  if (cw === W && ch === H) return outerContour(mask);
+  const crop = createMask(cw, ch);
+  for (let y = 0; y < ch; y++) crop.data.set(data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  return outerContour(crop).map((p) => ({ x: p.x + x0, y: p.y + y0 }));
 }
 
 /** Number of set (1) pixels of a 0/1 mask (a loop of its own, issue 16). */
@@ -155,13 +180,11 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
     const out = createMask(W, H);
     const box = setBox(up.data as Uint8Array, W, H);
     if (box) decideBand(up.data as Uint8Array, W, H, box, band, gaussian1(r), level, bright, others ? upsampleNearest(others, W, H) : null, out.data);
-    fillHoles(out);
     const target = maskCentroid(coarse, W, H);
-    // no fillHoles after this: `out` has no holes, and one 8-connected component of it has none
-    // either (a removed component is not 8-adjacent to the kept one, so each of its pixels reaches
-    // the old background along a row: tests/core/segment/specimenBand.test.ts checks it)
-    const kept = keepComponent(out, target, 0.25);
-    return kept ?? out;
+    // no fillHoles after keeping one component: `out` has no holes then, and one 8-connected
+    // component of it has none either (a removed component is not 8-adjacent to the kept one, so
+    // each of its pixels reaches the old background along a row: specimenBand.test.ts checks it)
+    return box ? filledKeptInBox(out, grownBox(box, band, W, H), target) : filledKept(out, target);
   } finally {
     c.delete();
     up.delete();
@@ -178,11 +201,7 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
  * pixels' box, as in `morphDisc`; tests/core/segment/specimenBand.test.ts compares the two).
  */
 export function decideBand(up: Uint8Array, W: number, H: number, box: { x0: number; y0: number; x1: number; y1: number }, band: number, d: Float32Array, level: number, bright: boolean, ou: Uint8Array | null, out: Uint8Array): void {
-  const g = band + 1;
-  const x0 = Math.max(0, box.x0 - g);
-  const y0 = Math.max(0, box.y0 - g);
-  const cw = Math.min(W - 1, box.x1 + g) - x0 + 1;
-  const ch = Math.min(H - 1, box.y1 + g) - y0 + 1;
+  const { x0, y0, cw, ch } = grownBox(box, band, W, H);
   const crop = new Uint8Array(cw * ch);
   for (let y = 0; y < ch; y++) crop.set(up.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
   const a = rectMorph(crop, cw, ch, band, 'erode');
@@ -195,17 +214,87 @@ export function decideBand(up: Uint8Array, W: number, H: number, box: { x0: numb
   }
 }
 
+/** A box of set pixels grown by band + 1 px on each side and clipped to the W × H image (x0, y0, width, height). */
+export interface Crop {
+  x0: number;
+  y0: number;
+  cw: number;
+  ch: number;
+}
+
+/** The part of the image {@link decideBand} works on: the set pixels' box grown by band + 1 px. */
+export function grownBox(box: { x0: number; y0: number; x1: number; y1: number }, band: number, W: number, H: number): Crop {
+  const g = band + 1;
+  const x0 = Math.max(0, box.x0 - g);
+  const y0 = Math.max(0, box.y0 - g);
+  return { x0, y0, cw: Math.min(W - 1, box.x1 + g) - x0 + 1, ch: Math.min(H - 1, box.y1 + g) - y0 + 1 };
+}
+
+/** `fillHoles(m)`, then the component `keepComponent(m, target, 0.25)` keeps (m itself when it is empty). */
+function filledKept(m: Mask, target: PointPx): Mask {
+  fillHoles(m);
+  return keepComponent(m, target, 0.25) ?? m;
+}
+
+/**
+ * {@link filledKept} of a W × H mask whose set pixels all lie in `c`, worked out on that crop
+ * only (issue 16: the crop is about half of a working copy with a centred specimen). Exact:
+ * - fillHoles: when the crop's rows and columns along its sides that are not the image's are 0,
+ *   a background pixel of the crop reaches the image border in the whole mask exactly when it
+ *   reaches the crop's border in the crop (a path out of the crop passes its border pixels, and
+ *   everything outside the crop is background connected to the image border), so the holes
+ *   filled are the same; otherwise (not the case for `decideBand`'s crop, whose outer ring lies
+ *   beyond the dilation) the whole mask is filled;
+ * - keepComponent: the components are the same sets; when the target pixel (rounded and clamped
+ *   as keepComponent does) lies in the crop and the crop's call keeps the component holding it,
+ *   that component was taken for holding the target and being large enough, which the whole
+ *   mask's call decides the same way; in any other case (the nearest centroid decides, whose
+ *   sums depend on the origin in their last bits) the whole mask is used.
+ * `m` may be changed in place. tests/core/segment/specimenBand.test.ts compares with the whole mask.
+ */
+export function filledKeptInBox(m: Mask, c: Crop, target: PointPx): Mask {
+  const { width: W, height: H } = m;
+  const { x0, y0, cw, ch } = c;
+  const crop = createMask(cw, ch);
+  for (let y = 0; y < ch; y++) crop.data.set(m.data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  if (!openSides(crop.data, cw, ch, x0 > 0, y0 > 0, x0 + cw < W, y0 + ch < H)) return filledKept(m, target);
+  fillHoles(crop);
+  const tx = Math.min(W - 1, Math.max(0, Math.round(target.x)));
+  const ty = Math.min(H - 1, Math.max(0, Math.round(target.y)));
+  const inCrop = tx >= x0 && ty >= y0 && tx < x0 + cw && ty < y0 + ch;
+  const kept = inCrop ? keepComponent(crop, { x: tx - x0, y: ty - y0 }, 0.25) : null;
+  const out = createMask(W, H);
+  if (kept && kept.data[(ty - y0) * cw + (tx - x0)]) {
+    for (let y = 0; y < ch; y++) out.data.set(kept.data.subarray(y * cw, (y + 1) * cw), (y0 + y) * W + x0);
+    return out;
+  }
+  // the filled crop back in the whole mask, and the component chosen there
+  for (let y = 0; y < ch; y++) out.data.set(crop.data.subarray(y * cw, (y + 1) * cw), (y0 + y) * W + x0);
+  return keepComponent(out, target, 0.25) ?? out;
+}
+
+/** True when the crop's sides that lie inside the image (left, top, right, bottom) hold no set pixel. */
+function openSides(d: Uint8Array, cw: number, ch: number, left: boolean, top: boolean, right: boolean, bottom: boolean): boolean {
+  for (let x = 0; x < cw; x++) if ((top && d[x]) || (bottom && d[(ch - 1) * cw + x])) return false;
+  for (let y = 0; y < ch; y++) if ((left && d[y * cw]) || (right && d[y * cw + cw - 1])) return false;
+  return true;
+}
+
 /** Centroid of the set pixels of the coarse mask in px of a W × H image (its centre when empty). */
 function maskCentroid(coarse: Mask, W: number, H: number): PointPx {
   let sxm = 0;
   let sym = 0;
   let nm = 0;
   const cw = coarse.width;
-  for (let i = 0; i < coarse.data.length; i++) {
-    if (coarse.data[i]) {
-      sxm += i % cw;
-      sym += Math.floor(i / cw);
-      nm++;
+  // by rows and columns, not i % cw and ⌊i / cw⌋ per pixel (issue 16): the same whole-number sums
+  // (exact in any order below 2^53)
+  for (let y = 0, i = 0; y < coarse.height; y++) {
+    for (let x = 0; x < cw; x++, i++) {
+      if (coarse.data[i]) {
+        sxm += x;
+        sym += y;
+        nm++;
+      }
     }
   }
   return nm ? { x: ((sxm / nm + 0.5) * W) / cw - 0.5, y: ((sym / nm + 0.5) * H) / coarse.height - 0.5 } : { x: W / 2, y: H / 2 };

@@ -50,3 +50,49 @@ describe('overlay caption band', () => {
     expect(blue).toBeGreaterThan(0);
   });
 });
+
+describe('overlay reduction', () => {
+  /** The area mean as written before issue 16: row block sums added into a Float64Array accumulator row. */
+  function reference(data: Float32Array, W: number, H: number, outW: number, outH: number): Uint8Array {
+    const fx = W / outW;
+    const fy = H / outH;
+    const out = new Uint8Array(outW * outH);
+    const acc = new Float64Array(outW);
+    for (let oy = 0; oy < outH; oy++) {
+      const y0 = Math.floor(oy * fy);
+      const y1 = Math.max(y0 + 1, Math.floor((oy + 1) * fy));
+      acc.fill(0);
+      for (let y = y0; y < y1; y++) {
+        for (let ox = 0; ox < outW; ox++) {
+          const x0 = Math.floor(ox * fx);
+          const x1 = Math.max(x0 + 1, Math.floor((ox + 1) * fx));
+          let s = data[y * W + x0];
+          for (let x = x0 + 1; x < x1; x++) s += data[y * W + x];
+          acc[ox] += s;
+        }
+      }
+      for (let ox = 0; ox < outW; ox++) {
+        const x0 = Math.floor(ox * fx);
+        const x1 = Math.max(x0 + 1, Math.floor((ox + 1) * fx));
+        out[oy * outW + ox] = Math.max(0, Math.min(255, Math.round((acc[ox] / ((y1 - y0) * (x1 - x0))) * 255)));
+      }
+    }
+    return out;
+  }
+
+  for (const [W, H, maxSidePx] of [[401, 301, 160], [250, 180, 250], [333, 97, 100], [64, 200, 37]] as const) {
+    it(`is the block mean of the same sums (${W}×${H} → long side ${maxSidePx})`, () => {
+      let s = W * 7 + H;
+      // 8-bit levels as the decoder gives them, plus a few off-grid values
+      const data = Float32Array.from({ length: W * H }, (_, i) => ((s = (Math.imul(s, 1664525) + 1013904223) >>> 0), i % 17 === 0 ? (s >>> 8) / 2 ** 24 : (s >>> 24) / 255));
+      // no pixel size: no scale bar of our own is drawn, the picture is the reduction alone
+      const img = renderOverlay({ raster: { width: W, height: H, data }, umPerPx: NaN, center: null, outer: null, boundary: null, rays: [], label: [], maxSidePx });
+      const ref = reference(data, W, H, img.width, img.height);
+      const got = new Uint8Array(img.width * img.height);
+      for (let i = 0; i < got.length; i++) got[i] = img.data[4 * i];
+      expect(Array.from(got)).toEqual(Array.from(ref));
+      expect(img.data[1]).toBe(img.data[0]);
+      expect(img.data[3]).toBe(255);
+    });
+  }
+});

@@ -5,8 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
-import { fillHoles, keepComponent, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
-import { decideBand } from '../../../src/core/segment/specimen.js';
+import { fillHoles, keepComponent, outerContour, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
+import { decideBand, filledKeptInBox, grownBox, outerContourInBox } from '../../../src/core/segment/specimen.js';
 import { gaussian1 } from '../../../src/core/segment/smooth.js';
 import { createMask, createRaster } from '../../../src/core/image/raster.js';
 
@@ -106,5 +106,103 @@ describe('one component of a hole-free mask', () => {
         expect(Array.from(again.data)).toEqual(Array.from(kept.data));
       }
     }
+  });
+});
+
+describe('filledKeptInBox', () => {
+  it('equals fillHoles + keepComponent on the whole mask (crop inside, on the frame, target off the crop or on a small piece)', () => {
+    let cropped = 0;
+    let whole = 0;
+    for (let seed = 1; seed <= 16; seed++) {
+      const rnd = lcg(seed * 97);
+      const W = 70 + Math.floor(rnd() * 50);
+      const H = 60 + Math.floor(rnd() * 50);
+      const band = 1 + Math.floor(rnd() * 6);
+      // the band's input: a few discs and rings (holes), some near or over the frame
+      const up = new Uint8Array(W * H);
+      for (let n = 0; n < 1 + (seed % 4); n++) {
+        const cx = (seed % 5 === 0 ? 0.05 + 0.9 * rnd() : 0.3 + 0.4 * rnd()) * W;
+        const cy = (seed % 5 === 0 ? 0.05 + 0.9 * rnd() : 0.3 + 0.4 * rnd()) * H;
+        const ro = 3 + rnd() * 0.3 * Math.min(W, H);
+        const ri = rnd() < 0.5 ? ro * (0.2 + 0.5 * rnd()) : 0;
+        for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+          const d = Math.hypot(x - cx, y - cy);
+          if (d < ro && d >= ri) up[y * W + x] = 255;
+        }
+      }
+      const box = setBox(up, W, H);
+      if (!box) continue;
+      const d = Float32Array.from({ length: W * H }, () => rnd());
+      const out = new Uint8Array(W * H);
+      decideBand(up, W, H, box, band, d, 0.5, seed % 2 === 0, null, out);
+      const c = grownBox(box, band, W, H);
+      const targets = [
+        { x: (box.x0 + box.x1) / 2, y: (box.y0 + box.y1) / 2 },
+        { x: box.x0 + 0.4, y: box.y0 + 0.6 },
+        { x: -20, y: H + 5 }, // off the crop (and the image)
+        { x: rnd() * W, y: rnd() * H },
+      ];
+      for (const target of targets) {
+        const ref = createMask(W, H);
+        ref.data.set(out);
+        fillHoles(ref);
+        const refKept = keepComponent(ref, target, 0.25) ?? ref;
+        const m = createMask(W, H);
+        m.data.set(out);
+        const got = filledKeptInBox(m, c, target);
+        expect(Array.from(got.data)).toEqual(Array.from(refKept.data));
+        const tx = Math.min(W - 1, Math.max(0, Math.round(target.x)));
+        const ty = Math.min(H - 1, Math.max(0, Math.round(target.y)));
+        if (refKept.data[ty * W + tx]) cropped++;
+        else whole++;
+      }
+    }
+    // both ways of deciding were exercised
+    expect(cropped).toBeGreaterThan(5);
+    expect(whole).toBeGreaterThan(5);
+  });
+
+  it('fills the whole mask when a side of the crop inside the image holds set pixels', () => {
+    const W = 30;
+    const H = 20;
+    const m = createMask(W, H);
+    // a ring crossing the crop's right side: its hole lies in the crop, its closure outside it
+    for (let y = 4; y <= 14; y++) for (let x = 10; x <= 24; x++) if (y === 4 || y === 14 || x === 10 || x === 24) m.data[y * W + x] = 1;
+    const ref = createMask(W, H);
+    ref.data.set(m.data);
+    fillHoles(ref);
+    const refKept = keepComponent(ref, { x: 17, y: 9 }, 0.25) ?? ref;
+    const got = filledKeptInBox(m, { x0: 5, y0: 2, cw: 15, ch: 15 }, { x: 17, y: 9 });
+    expect(Array.from(got.data)).toEqual(Array.from(refKept.data));
+    expect(got.data[9 * W + 17]).toBe(1);
+  });
+});
+
+describe('outerContourInBox', () => {
+  it('equals outerContour of the whole mask (one or several shapes, holes, shapes on the frame, empty mask)', () => {
+    let traced = 0;
+    for (let seed = 1; seed <= 30; seed++) {
+      const rnd = lcg(seed * 53);
+      const W = 30 + Math.floor(rnd() * 70);
+      const H = 30 + Math.floor(rnd() * 70);
+      const m = createMask(W, H);
+      const margin = seed % 3 === 0 ? -0.1 : 0.2;
+      for (let k = 0; k < (seed === 1 ? 0 : 1 + Math.floor(rnd() * 4)); k++) {
+        const cx = (margin + (1 - 2 * margin) * rnd()) * W;
+        const cy = (margin + (1 - 2 * margin) * rnd()) * H;
+        const ro = 2 + rnd() * 0.3 * Math.min(W, H);
+        const ri = rnd() < 0.4 ? ro * 0.5 : 0;
+        for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+          const d = Math.hypot((x - cx) * (1 + 0.3 * Math.sin(y)), y - cy);
+          if (d < ro && d >= ri) m.data[y * W + x] = 1;
+        }
+      }
+      for (let i = 0; i < m.data.length; i++) if (rnd() < 0.003) m.data[i] = 1;
+      const ref = outerContour(m);
+      const got = outerContourInBox(m);
+      expect(got).toEqual(ref);
+      if (ref.length > 8) traced++;
+    }
+    expect(traced).toBeGreaterThan(20);
   });
 });

@@ -120,6 +120,18 @@ describe('voteCentre', () => {
     });
   }
 
+  it('keeps to the given radius around `near` as the plain vote does (the best cell out of reach)', () => {
+    const W = 160;
+    const H = 120;
+    const c = cues(W, H, 83.3, 57.9, 5, 5);
+    for (const [near, radius] of [[{ x: 40, y: 30 }, 20], [{ x: 110, y: 80 }, 12.5], [{ x: 83, y: 58 }, 3], [{ x: 5, y: 5 }, 1]] as const) {
+      const ref = plainVote(c, 12, 72, near, radius);
+      const got = voteCentre(c, 12, 72, near, radius);
+      expect(got).toEqual({ x: ref.x, y: ref.y });
+      if (radius > 2) expect(Math.hypot(got.x - 0.5 - near.x, got.y - 0.5 - near.y)).toBeLessThanOrEqual(radius);
+    }
+  });
+
   it('boxSum5 equals the direct 25-term sum', () => {
     const rnd = lcg(9);
     const aw = 23;
