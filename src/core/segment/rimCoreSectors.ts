@@ -49,19 +49,30 @@ function etaAt(vals: Float32Array, t: number, mAll: number, vAll: number): [numb
   return [vAll > 0 && na && nb0 ? ((na / vals.length) * (sa / na - mAll) ** 2 + (nb0 / vals.length) * (sb / nb0 - mAll) ** 2) / vAll : 0, na, nb0];
 }
 
+/**
+ * [Σ rad where v > t, Σ rad where v ≤ t, max rad], without branches in the loop (see
+ * rimCoreLoops.ts `meanVar`; the radii are ≥ 0, the sums start at +0, so adding 0 changes nothing).
+ */
+function radialSums(vals: Float32Array, rad: Float32Array, t: number): [number, number, number] {
+  let rA = 0;
+  let rB = 0;
+  let rMax = 0;
+  for (let i = 0; i < vals.length; i++) {
+    const r = rad[i];
+    const above = vals[i] > t;
+    rA += above ? r : 0;
+    rB += above ? 0 : r;
+    rMax = r > rMax ? r : rMax;
+  }
+  return [rA, rB, rMax];
+}
+
 function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: number, tGlobal: number): { t: number; eta: number; gain: number; above: number; order: number } {
   const t = otsuThreshold(vals, lo, hi);
   const [mAll, vAll] = meanVar(vals);
   const [eta, na, nb0] = etaAt(vals, t, mAll, vAll);
   const gain = eta - etaAt(vals, tGlobal, mAll, vAll)[0];
-  let rA = 0;
-  let rB = 0;
-  let rMax = 0;
-  for (let i = 0; i < vals.length; i++) {
-    if (vals[i] > t) rA += rad[i];
-    else rB += rad[i];
-    if (rad[i] > rMax) rMax = rad[i];
-  }
+  const [rA, rB, rMax] = radialSums(vals, rad, t);
   const order = na && nb0 && rMax > 0 ? (rB / nb0 - rA / na) / rMax : 0;
   return { t, eta, gain, above: vals.length ? na / vals.length : 0, order };
 }
@@ -75,16 +86,14 @@ function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: numb
  * part of the circumference; the sector's own split follows it.
  */
 export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, split: { t: number; lo: number; hi: number }): Float64Array {
-  const counts = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) counts[Math.min(N_SECTORS - 1, Math.floor(pos[i]))]++;
-  const vals = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const rads = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const fill = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) {
-    const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
-    rads[s][fill[s]] = rad[i];
-    vals[s][fill[s]++] = comb[idx[i]];
+  const counts = sectorCounts(pos);
+  const vals: Float32Array[] = [];
+  const rads: Float32Array[] = [];
+  for (let s = 0; s < N_SECTORS; s++) {
+    vals.push(new Float32Array(counts[s]));
+    rads.push(new Float32Array(counts[s]));
   }
+  fillSectors(comb, idx, pos, rad, vals, rads);
   const ts = new Float64Array(N_SECTORS);
   for (let s = 0; s < N_SECTORS; s++) {
     const o = vals[s].length > 50 ? sectorSplit(vals[s], rads[s], split.lo, split.hi, split.t) : null;
@@ -92,6 +101,23 @@ export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float
     ts[s] = own ? o.t : split.t;
   }
   return ts;
+}
+
+/** Number of interior pixels per sector. */
+function sectorCounts(pos: Float32Array): Int32Array {
+  const counts = new Int32Array(N_SECTORS);
+  for (let i = 0; i < pos.length; i++) counts[Math.min(N_SECTORS - 1, Math.floor(pos[i]))]++;
+  return counts;
+}
+
+/** Each sector's combined-feature values and radii, in interior order (loops of their own: see rimCoreLoops.ts `meanVar`). */
+function fillSectors(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, vals: Float32Array[], rads: Float32Array[]): void {
+  const fill = new Int32Array(N_SECTORS);
+  for (let i = 0; i < pos.length; i++) {
+    const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
+    rads[s][fill[s]] = rad[i];
+    vals[s][fill[s]++] = comb[idx[i]];
+  }
 }
 
 /** out[idx[k]] = (v[idx[k]] > threshold interpolated between the sector centres at pos[k]). */
