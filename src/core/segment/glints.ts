@@ -211,8 +211,9 @@ export interface GlintSuppression {
  */
 function markSpecks(v: Float32Array, o: Float32Array, mask: Uint8Array, t: number, w: number, h: number, b: Box, out: Uint8Array): number {
   let n = 0;
-  for (let y = b.y0; y <= b.y1; y++) {
-    for (let x = b.x0; x <= b.x1; x++) {
+  const { x0, y0, x1, y1 } = b;
+  for (let y = y0; y <= y1; y++) {
+    for (let x = x0; x <= x1; x++) {
       const i = y * w + x;
       if (!mask[i] || v[i] - o[i] <= t) continue;
       for (let dy = -1; dy <= 1; dy++) {
@@ -225,7 +226,7 @@ function markSpecks(v: Float32Array, o: Float32Array, mask: Uint8Array, t: numbe
       }
     }
   }
-  for (let y = b.y0; y <= b.y1; y++) for (let i = y * w + b.x0, e = y * w + b.x1; i <= e; i++) if (out[i] && mask[i]) n++;
+  for (let y = y0; y <= y1; y++) for (let i = y * w + x0, e = y * w + x1; i <= e; i++) if (out[i] && mask[i]) n++;
   return n;
 }
 

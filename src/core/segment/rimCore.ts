@@ -257,8 +257,8 @@ function separabilityOf(
 ): { separability: Separability; nRim: number } {
   const coreIn = erodeMask(core, half);
   const coreOut = dilateMask(core, half);
-  const cvBuf = new Float32Array(nIdx);
-  const rvBuf = new Float32Array(nIdx);
+  const cvBuf = new Float32Array(nIdx + 1); // one more: splitClasses stores past the last value it keeps
+  const rvBuf = new Float32Array(nIdx + 1);
   const [nCv, nRv, nCore, nSpec] = splitClasses(spec.data, core.data, interior.data, coreIn.data, coreOut.data, comb, cvBuf, rvBuf);
   const cv = cvBuf.subarray(0, nCv);
   const rv = rvBuf.subarray(0, nRv);

@@ -108,7 +108,13 @@ export function andMask(a: Uint8Array, b: Uint8Array): void {
   for (let i = 0; i < a.length; i++) if (!b[i]) a[i] = 0;
 }
 
-/** Core / rim sample values (transition zone left out) and the core / specimen pixel counts. */
+/**
+ * Core / rim sample values (transition zone left out) and the core / specimen pixel counts. The
+ * buffers hold one value more than the interior: every value is stored at both write positions and
+ * only the counts say which stores count (no branch in the loop, so V8 does not optimise it before
+ * one of the branches has run and drop back to the interpreter when it does; `--trace-deopt`).
+ * The same values in the same order as the branching form.
+ */
 export function splitClasses(
   spec: Uint8Array, core: Uint8Array, interior: Uint8Array, coreIn: Uint8Array, coreOut: Uint8Array,
   comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array,
@@ -118,12 +124,17 @@ export function splitClasses(
   let nCore = 0;
   let nSpec = 0;
   for (let i = 0; i < spec.length; i++) {
-    if (!spec[i]) continue;
-    nSpec++;
-    if (core[i]) nCore++;
-    if (!interior[i]) continue;
-    if (coreIn[i]) cvBuf[nCv++] = comb[i];
-    else if (!coreOut[i]) rvBuf[nRv++] = comb[i];
+    const s = spec[i] !== 0 ? 1 : 0;
+    const inner = s & (interior[i] !== 0 ? 1 : 0);
+    const isCv = inner & (coreIn[i] !== 0 ? 1 : 0);
+    const isRv = inner & (1 - isCv) & (coreOut[i] !== 0 ? 0 : 1);
+    nSpec += s;
+    nCore += s & (core[i] !== 0 ? 1 : 0);
+    const v = comb[i];
+    cvBuf[nCv] = v;
+    rvBuf[nRv] = v;
+    nCv += isCv;
+    nRv += isRv;
   }
   return [nCv, nRv, nCore, nSpec];
 }

@@ -31,15 +31,25 @@ const SECTOR_MIN_ETA_GAIN = 0.035;
 export function sectorPositions(idx: Int32Array, fw: number, centre: PointPx): { pos: Float32Array; rad: Float32Array } {
   const pos = new Float32Array(idx.length);
   const rad = new Float32Array(idx.length);
-  const k = N_SECTORS / (2 * Math.PI);
+  positionsInto(idx, fw, centre.x, centre.y, pos, rad);
+  return { pos, rad };
+}
+
+/**
+ * The loop of {@link sectorPositions}, with the centre and 2π as locals: the interior's first rows
+ * (above the centre) all have angles ≥ 0, so V8 optimised the loop before the `a < 0` branch had
+ * run and fell back to the interpreter half-way (`--trace-deopt`). The same operations.
+ */
+function positionsInto(idx: Int32Array, fw: number, cx: number, cy: number, pos: Float32Array, rad: Float32Array): void {
+  const twoPi = 2 * Math.PI;
+  const k = N_SECTORS / twoPi;
   for (let i = 0; i < idx.length; i++) {
-    const x = (idx[i] % fw) - centre.x;
-    const y = centre.y - Math.floor(idx[i] / fw);
+    const x = (idx[i] % fw) - cx;
+    const y = cy - Math.floor(idx[i] / fw);
     const a = Math.atan2(y, x);
-    pos[i] = (a < 0 ? a + 2 * Math.PI : a) * k;
+    pos[i] = (a < 0 ? a + twoPi : a) * k;
     rad[i] = Math.hypot(x, y);
   }
-  return { pos, rad };
 }
 
 /** Otsu's threshold of one sector's values, its η, the share above it, and the mean radii below and above it. */

@@ -1,0 +1,91 @@
+/**
+ * The classification's loops written without branches (segment/rimCoreLoops.ts) against their plain
+ * branching forms: the same values in the same order, so the same sums to the last bit.
+ */
+import { describe, expect, it } from 'vitest';
+import { meanVar, splitClasses, splitSums } from '../../../src/core/segment/rimCoreLoops.js';
+
+function rng(seed: number): () => number {
+  let s = seed >>> 0;
+  return () => {
+    s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+    return s / 2 ** 32;
+  };
+}
+
+/** Values with ties, ±0 and (optionally) NaN. */
+function values(n: number, seed: number, nan: boolean): Float32Array {
+  const r = rng(seed);
+  const v = new Float32Array(n);
+  for (let i = 0; i < n; i++) {
+    const u = r();
+    v[i] = u < 0.05 ? -0 : u < 0.1 ? 0 : u < 0.2 ? 0.5 : nan && u < 0.22 ? NaN : (r() - 0.4) * 7;
+  }
+  return v;
+}
+
+describe('rim/core loops without branches', () => {
+  it('splitSums equals the branching sums', () => {
+    for (const [n, seed, t] of [[1000, 1, 0.5], [777, 2, 0], [50, 3, -1], [0, 4, 0], [2000, 5, 10]] as const) {
+      const v = values(n, seed, seed % 2 === 1);
+      let sa = 0;
+      let na = 0;
+      let sb = 0;
+      for (let k = 0; k < v.length; k++) {
+        if (v[k] > t) {
+          sa += v[k];
+          na++;
+        } else sb += v[k];
+      }
+      const got = splitSums(v, t);
+      expect(Object.is(got[0], sa) && got[1] === na && Object.is(got[2], sb)).toBe(true);
+    }
+  });
+
+  it('meanVar equals the one-function form', () => {
+    for (const [n, seed] of [[1000, 6], [3, 7], [1, 8], [4096, 9]] as const) {
+      const v = values(n, seed, false);
+      let s = 0;
+      for (let i = 0; i < n; i++) s += v[i];
+      const m = s / n;
+      let q = 0;
+      for (let i = 0; i < n; i++) q += (v[i] - m) * (v[i] - m);
+      expect(meanVar(v)).toEqual([m, q / Math.max(1, n - 1)]);
+    }
+    expect(meanVar(new Float32Array(0))).toEqual([NaN, NaN]);
+  });
+
+  it('splitClasses equals the branching form', () => {
+    for (const seed of [10, 11, 12]) {
+      const r = rng(seed);
+      const n = 3000;
+      const bit = (p: number): Uint8Array => Uint8Array.from({ length: n }, () => (r() < p ? 1 + Math.floor(r() * 3) : 0));
+      const spec = bit(0.8);
+      const interior = spec.map((s) => (s && r() < 0.8 ? 1 : 0));
+      const core = bit(0.5);
+      const coreIn = bit(0.3);
+      const coreOut = bit(0.6);
+      const comb = values(n, seed, true);
+      let nIdx = 0;
+      for (const v of interior) if (v) nIdx++;
+      const cv: number[] = [];
+      const rv: number[] = [];
+      let nCore = 0;
+      let nSpec = 0;
+      for (let i = 0; i < n; i++) {
+        if (!spec[i]) continue;
+        nSpec++;
+        if (core[i]) nCore++;
+        if (!interior[i]) continue;
+        if (coreIn[i]) cv.push(comb[i]);
+        else if (!coreOut[i]) rv.push(comb[i]);
+      }
+      const cvBuf = new Float32Array(nIdx + 1);
+      const rvBuf = new Float32Array(nIdx + 1);
+      const [nCv, nRv, gCore, gSpec] = splitClasses(spec, core, interior, coreIn, coreOut, comb, cvBuf, rvBuf);
+      expect([nCv, nRv, gCore, gSpec]).toEqual([cv.length, rv.length, nCore, nSpec]);
+      expect(Array.from(cvBuf.subarray(0, nCv))).toEqual(cv);
+      expect(Array.from(rvBuf.subarray(0, nRv))).toEqual(rv);
+    }
+  });
+});
