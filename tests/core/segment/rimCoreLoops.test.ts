@@ -89,3 +89,28 @@ describe('rim/core loops without branches', () => {
     }
   });
 });
+
+describe('hypot2 (the sector radii)', () => {
+  it('equals Math.hypot bit for bit on pixel grids around fractional centres and on random values', async () => {
+    const { hypot2 } = await import('../../../src/core/segment/rimCoreSectors.js');
+    let bad = 0;
+    for (const [cx, cy] of [[599.7, 449.2], [0, 0], [133.3333333333, 99.5], [400.25, 300.125]]) {
+      for (let y = -300; y <= 300; y++) {
+        for (let x = -420; x <= 420; x++) {
+          const dx = x - cx;
+          const dy = cy - y;
+          if (!Object.is(hypot2(dx, dy), Math.hypot(dx, dy))) bad++;
+        }
+      }
+    }
+    const r = rng(77);
+    for (let i = 0; i < 300000; i++) {
+      const a = (r() - 0.5) * 10 ** (r() * 40 - 20);
+      const b = (r() - 0.5) * 10 ** (r() * 40 - 20);
+      if (!Object.is(hypot2(a, b), Math.hypot(a, b))) bad++;
+      if (!Object.is(hypot2(a, 0), Math.hypot(a, 0)) || !Object.is(hypot2(-0, b), Math.hypot(-0, b))) bad++;
+    }
+    expect(hypot2(0, -0)).toBe(0);
+    expect(bad).toBe(0);
+  });
+});
