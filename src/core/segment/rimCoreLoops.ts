@@ -75,13 +75,21 @@ function sumSqDev(vals: ArrayLike<number>, m: number): number {
 /** Clamp of the per-feature robust z-score before combining (robust σ units). */
 export const Z_CLAMP = 4;
 
-/** Indices of the non-zero entries. */
+/** Indices of the non-zero entries (the count and the fill are loops of their own: see {@link meanVar}). */
 export function indicesOf(m: Uint8Array): Int32Array {
-  let c = 0;
-  for (let i = 0; i < m.length; i++) if (m[i]) c++;
-  const idx = new Int32Array(c);
-  for (let i = 0, k = 0; i < m.length; i++) if (m[i]) idx[k++] = i;
+  const idx = new Int32Array(countSet(m));
+  fillIndices(m, idx);
   return idx;
+}
+
+function countSet(m: Uint8Array): number {
+  let c = 0;
+  for (let i = 0; i < m.length; i++) c += m[i] !== 0 ? 1 : 0;
+  return c;
+}
+
+function fillIndices(m: Uint8Array, idx: Int32Array): void {
+  for (let i = 0, k = 0; i < m.length; i++) if (m[i]) idx[k++] = i;
 }
 
 /**

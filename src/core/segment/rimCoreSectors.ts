@@ -125,14 +125,18 @@ function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: numb
  * part of the circumference; the sector's own split follows it.
  */
 export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, split: { t: number; lo: number; hi: number }): Float64Array {
-  const counts = sectorCounts(pos);
+  // each sector's values and radii in interior order, one after the other in two flat arrays (a counting sort)
+  const sec = new Uint8Array(pos.length);
+  const start = sectorStarts(pos, sec);
+  const flatVals = new Float32Array(pos.length);
+  const flatRads = new Float32Array(pos.length);
+  fillSectors(comb, idx, rad, sec, start, flatVals, flatRads);
   const vals: Float32Array[] = [];
   const rads: Float32Array[] = [];
   for (let s = 0; s < N_SECTORS; s++) {
-    vals.push(new Float32Array(counts[s]));
-    rads.push(new Float32Array(counts[s]));
+    vals.push(flatVals.subarray(start[s], start[s + 1]));
+    rads.push(flatRads.subarray(start[s], start[s + 1]));
   }
-  fillSectors(comb, idx, pos, rad, vals, rads);
   const ts = new Float64Array(N_SECTORS);
   for (let s = 0; s < N_SECTORS; s++) {
     const o = vals[s].length > 50 ? sectorSplit(vals[s], rads[s], split.lo, split.hi, split.t) : null;
@@ -142,20 +146,25 @@ export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float
   return ts;
 }
 
-/** Number of interior pixels per sector. */
-function sectorCounts(pos: Float32Array): Int32Array {
-  const counts = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) counts[Math.min(N_SECTORS - 1, Math.floor(pos[i]))]++;
-  return counts;
-}
-
-/** Each sector's combined-feature values and radii, in interior order (loops of their own: see rimCoreLoops.ts `meanVar`). */
-function fillSectors(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, vals: Float32Array[], rads: Float32Array[]): void {
-  const fill = new Int32Array(N_SECTORS);
+/** Each interior pixel's sector (into `sec`) and where each sector starts in the sector-ordered arrays (N_SECTORS + 1 offsets). */
+function sectorStarts(pos: Float32Array, sec: Uint8Array): Int32Array {
+  const start = new Int32Array(N_SECTORS + 1);
   for (let i = 0; i < pos.length; i++) {
     const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
-    rads[s][fill[s]] = rad[i];
-    vals[s][fill[s]++] = comb[idx[i]];
+    sec[i] = s;
+    start[s + 1]++;
+  }
+  for (let s = 0; s < N_SECTORS; s++) start[s + 1] += start[s];
+  return start;
+}
+
+/** The values comb[idx[i]] and radii rad[i], sector by sector in interior order (loops of their own: see rimCoreLoops.ts `meanVar`). */
+function fillSectors(comb: Float32Array, idx: Int32Array, rad: Float32Array, sec: Uint8Array, start: Int32Array, vals: Float32Array, rads: Float32Array): void {
+  const next = Int32Array.from(start);
+  for (let i = 0; i < sec.length; i++) {
+    const o = next[sec[i]]++;
+    rads[o] = rad[i];
+    vals[o] = comb[idx[i]];
   }
 }
 

@@ -114,3 +114,68 @@ describe('hypot2 (the sector radii)', () => {
     expect(bad).toBe(0);
   });
 });
+
+describe('sectorThresholds (sector arrays by a counting sort)', () => {
+  it('equals the per-sector arrays filled one by one (the former form) on random combined features', async () => {
+    const { sectorPositions, sectorThresholds } = await import('../../../src/core/segment/rimCoreSectors.js');
+    const { otsuThreshold } = await import('../../../src/core/segment/cvutil.js');
+    /** The former form: one array per sector, values pushed in interior order; Otsu and η per sector as in rimCoreSectors.ts. */
+    function plain(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, split: { t: number; lo: number; hi: number }): number[] {
+      const vals: number[][] = Array.from({ length: 12 }, () => []);
+      const rads: number[][] = Array.from({ length: 12 }, () => []);
+      for (let i = 0; i < pos.length; i++) {
+        const s = Math.min(11, Math.floor(pos[i]));
+        vals[s].push(comb[idx[i]]);
+        rads[s].push(rad[i]);
+      }
+      return vals.map((v0, s) => {
+        if (v0.length <= 50) return split.t;
+        const v = Float32Array.from(v0);
+        const r = Float32Array.from(rads[s]);
+        const t = otsuThreshold(v, split.lo, split.hi);
+        const [m, va] = meanVar(v);
+        const eta = (tt: number): [number, number, number] => {
+          const [sa, na, sb] = splitSums(v, tt);
+          const nb = v.length - na;
+          return [va > 0 && na && nb ? ((na / v.length) * (sa / na - m) ** 2 + (nb / v.length) * (sb / nb - m) ** 2) / va : 0, na, nb];
+        };
+        const [e, na, nb] = eta(t);
+        const gain = e - eta(split.t)[0];
+        let rA = 0;
+        let rB = 0;
+        let rMax = 0;
+        for (let i = 0; i < v.length; i++) {
+          if (v[i] > t) rA += r[i];
+          else rB += r[i];
+          if (r[i] > rMax) rMax = r[i];
+        }
+        const order = na && nb && rMax > 0 ? (rB / nb - rA / na) / rMax : 0;
+        const above = na / v.length;
+        return e >= 0.55 && above >= 0.08 && above <= 0.92 && order >= 0.06 && gain >= 0.035 ? t : split.t;
+      });
+    }
+    for (const seed of [21, 22, 23]) {
+      const r = rng(seed);
+      const fw = 120;
+      const fh = 90;
+      const cx = 60.3;
+      const cy = 44.8;
+      const list: number[] = [];
+      for (let y = 0; y < fh; y++) for (let x = 0; x < fw; x++) if (Math.hypot(x - cx, y - cy) < 40) list.push(y * fw + x);
+      const idx = Int32Array.from(list);
+      const comb = new Float32Array(fw * fh);
+      // rough core inside radius 25, both classes shifted up on one side (so the sectors there take their own threshold)
+      for (const i of idx) {
+        const x = (i % fw) - cx;
+        const y = Math.floor(i / fw) - cy;
+        const core = Math.hypot(x, y) < 25;
+        comb[i] = (core ? 1 : -1) + (x > 0 ? 1.5 : 0) + (r() - 0.5) * (seed === 23 ? 4 : 1.2);
+      }
+      const { pos, rad } = sectorPositions(idx, fw, { x: cx, y: cy });
+      const split = { t: 0, lo: -3, hi: 3 };
+      const got = Array.from(sectorThresholds(comb, idx, pos, rad, split));
+      expect(got).toEqual(plain(comb, idx, pos, rad, split));
+      if (seed !== 23) expect(got.filter((t) => t !== split.t).length).toBeGreaterThan(0);
+    }
+  });
+});
