@@ -121,28 +121,32 @@ export function andMask(a: Uint8Array, b: Uint8Array): void {
  * buffers hold one value more than the interior: every value is stored at both write positions and
  * only the counts say which stores count (no branch in the loop, so V8 does not optimise it before
  * one of the branches has run and drop back to the interpreter when it does; `--trace-deopt`).
- * The same values in the same order as the branching form.
+ * The same values in the same order as the branching form. Only the rows and columns of `box` (the
+ * specimen mask's bounding box: spec is 0 outside it, so nothing there is counted or taken).
  */
 export function splitClasses(
   spec: Uint8Array, core: Uint8Array, interior: Uint8Array, coreIn: Uint8Array, coreOut: Uint8Array,
-  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array,
+  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array, width: number, box: { x0: number; y0: number; x1: number; y1: number },
 ): [number, number, number, number] {
   let nCv = 0;
   let nRv = 0;
   let nCore = 0;
   let nSpec = 0;
-  for (let i = 0; i < spec.length; i++) {
-    const s = spec[i] !== 0 ? 1 : 0;
-    const inner = s & (interior[i] !== 0 ? 1 : 0);
-    const isCv = inner & (coreIn[i] !== 0 ? 1 : 0);
-    const isRv = inner & (1 - isCv) & (coreOut[i] !== 0 ? 0 : 1);
-    nSpec += s;
-    nCore += s & (core[i] !== 0 ? 1 : 0);
-    const v = comb[i];
-    cvBuf[nCv] = v;
-    rvBuf[nRv] = v;
-    nCv += isCv;
-    nRv += isRv;
+  const { x0, y0, x1, y1 } = box;
+  for (let y = y0; y <= y1; y++) {
+    for (let i = y * width + x0, e = y * width + x1; i <= e; i++) {
+      const s = spec[i] !== 0 ? 1 : 0;
+      const inner = s & (interior[i] !== 0 ? 1 : 0);
+      const isCv = inner & (coreIn[i] !== 0 ? 1 : 0);
+      const isRv = inner & (1 - isCv) & (coreOut[i] !== 0 ? 0 : 1);
+      nSpec += s;
+      nCore += s & (core[i] !== 0 ? 1 : 0);
+      const v = comb[i];
+      cvBuf[nCv] = v;
+      rvBuf[nRv] = v;
+      nCv += isCv;
+      nRv += isRv;
+    }
   }
   return [nCv, nRv, nCore, nSpec];
 }

@@ -55,12 +55,16 @@ describe('rim/core loops without branches', () => {
     expect(meanVar(new Float32Array(0))).toEqual([NaN, NaN]);
   });
 
-  it('splitClasses equals the branching form', () => {
+  it('splitClasses on the specimen box equals the branching form over every pixel', async () => {
+    const { setBox } = await import('../../../src/core/segment/cvutil.js');
     for (const seed of [10, 11, 12]) {
       const r = rng(seed);
-      const n = 3000;
+      const W = 60;
+      const H = 50;
+      const n = W * H;
       const bit = (p: number): Uint8Array => Uint8Array.from({ length: n }, () => (r() < p ? 1 + Math.floor(r() * 3) : 0));
-      const spec = bit(0.8);
+      // the specimen inside a box that does not reach every side (seed 12: the whole frame)
+      const spec = bit(0.8).map((v, i) => (seed === 12 || (i % W > 7 && i % W < 51 && i / W > 4 && i / W < 40) ? v : 0));
       const interior = spec.map((s) => (s && r() < 0.8 ? 1 : 0));
       const core = bit(0.5);
       const coreIn = bit(0.3);
@@ -82,7 +86,7 @@ describe('rim/core loops without branches', () => {
       }
       const cvBuf = new Float32Array(nIdx + 1);
       const rvBuf = new Float32Array(nIdx + 1);
-      const [nCv, nRv, gCore, gSpec] = splitClasses(spec, core, interior, coreIn, coreOut, comb, cvBuf, rvBuf);
+      const [nCv, nRv, gCore, gSpec] = splitClasses(spec, core, interior, coreIn, coreOut, comb, cvBuf, rvBuf, W, setBox(spec, W, H)!);
       expect([nCv, nRv, gCore, gSpec]).toEqual([cv.length, rv.length, nCore, nSpec]);
       expect(Array.from(cvBuf.subarray(0, nCv))).toEqual(cv);
       expect(Array.from(rvBuf.subarray(0, nRv))).toEqual(rv);
