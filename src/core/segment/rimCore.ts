@@ -220,7 +220,10 @@ function otsuSplit(comb: Float32Array, idx: Int32Array): { t: number; lo: number
   const [lo, hi] = quantiles(vals, [0.005, 0.995]);
   const t = otsuThreshold(vals, lo, hi);
   const [mAll, vAll] = meanVar(vals);
-  const [sa, na, sb] = splitSums(vals, t);
+  const q = splitSums(vals, t);
+  const sa = q[0];
+  const na = q[1];
+  const sb = q[2];
   const nb0 = vals.length - na;
   const ma = sa / na;
   const mb = sb / nb0;

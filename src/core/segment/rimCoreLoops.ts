@@ -95,9 +95,18 @@ function fillIndices(m: Uint8Array, idx: Int32Array): void {
 /**
  * [Σ v > t, count v > t, Σ v ≤ t] (NaN goes to the last). Without branches (see {@link meanVar}):
  * adding 0 leaves a sum that started at +0 unchanged (it can never be −0), so the sums are those of
- * the branching form.
+ * the branching form. The sums go to a small Float64Array: a returned array literal [sa, na, sb]
+ * changed its elements kind between calls (a count, then doubles), and V8 threw the optimised loop
+ * away at that store on nearly every call (≈ 70 deopts per process here and in rimCoreSectors.ts `radialSums`,
+ * `--trace-deopt`). The count is an integer, exact in a double.
  */
-export function splitSums(vals: Float32Array, t: number): [number, number, number] {
+export function splitSums(vals: Float32Array, t: number): Float64Array {
+  const out = new Float64Array(3);
+  splitSumsInto(vals, t, out);
+  return out;
+}
+
+function splitSumsInto(vals: Float32Array, t: number, out: Float64Array): void {
   let sa = 0;
   let na = 0;
   let sb = 0;
@@ -108,7 +117,9 @@ export function splitSums(vals: Float32Array, t: number): [number, number, numbe
     na += above ? 1 : 0;
     sb += above ? 0 : v;
   }
-  return [sa, na, sb];
+  out[0] = sa;
+  out[1] = na;
+  out[2] = sb;
 }
 
 /** a[i] = 0 where b[i] = 0. */

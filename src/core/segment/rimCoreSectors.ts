@@ -83,7 +83,10 @@ export function hypot2(x: number, y: number): number {
 
 /** Otsu's threshold of one sector's values, its η, the share above it, and the mean radii below and above it. */
 function etaAt(vals: Float32Array, t: number, mAll: number, vAll: number): [number, number, number] {
-  const [sa, na, sb] = splitSums(vals, t);
+  const q = splitSums(vals, t);
+  const sa = q[0];
+  const na = q[1];
+  const sb = q[2];
   const nb0 = vals.length - na;
   return [vAll > 0 && na && nb0 ? ((na / vals.length) * (sa / na - mAll) ** 2 + (nb0 / vals.length) * (sb / nb0 - mAll) ** 2) / vAll : 0, na, nb0];
 }
@@ -92,7 +95,14 @@ function etaAt(vals: Float32Array, t: number, mAll: number, vAll: number): [numb
  * [Σ rad where v > t, Σ rad where v ≤ t, max rad], without branches in the loop (see
  * rimCoreLoops.ts `meanVar`; the radii are ≥ 0, the sums start at +0, so adding 0 changes nothing).
  */
-function radialSums(vals: Float32Array, rad: Float32Array, t: number): [number, number, number] {
+function radialSums(vals: Float32Array, rad: Float32Array, t: number): Float64Array {
+  const out = new Float64Array(3);
+  radialSumsInto(vals, rad, t, out);
+  return out;
+}
+
+/** The loop of {@link radialSums}, its sums into out (not an array literal: see rimCoreLoops.ts `splitSums`). */
+function radialSumsInto(vals: Float32Array, rad: Float32Array, t: number, out: Float64Array): void {
   let rA = 0;
   let rB = 0;
   let rMax = 0;
@@ -103,7 +113,9 @@ function radialSums(vals: Float32Array, rad: Float32Array, t: number): [number, 
     rB += above ? 0 : r;
     rMax = r > rMax ? r : rMax;
   }
-  return [rA, rB, rMax];
+  out[0] = rA;
+  out[1] = rB;
+  out[2] = rMax;
 }
 
 function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: number, tGlobal: number): { t: number; eta: number; gain: number; above: number; order: number } {
@@ -111,7 +123,10 @@ function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: numb
   const [mAll, vAll] = meanVar(vals);
   const [eta, na, nb0] = etaAt(vals, t, mAll, vAll);
   const gain = eta - etaAt(vals, tGlobal, mAll, vAll)[0];
-  const [rA, rB, rMax] = radialSums(vals, rad, t);
+  const q = radialSums(vals, rad, t);
+  const rA = q[0];
+  const rB = q[1];
+  const rMax = q[2];
   const order = na && nb0 && rMax > 0 ? (rB / nb0 - rA / na) / rMax : 0;
   return { t, eta, gain, above: vals.length ? na / vals.length : 0, order };
 }
