@@ -25,19 +25,34 @@ const NOTCH_DEPTH_RADIUS = 0.1;
 export function fillCoreNotches(c: (number | null)[], o: (number | null)[], W: number): (number | null)[] {
   const n = c.length;
   const h = Math.max(1, Math.round((NOTCH_HALF_SECTOR_DEG * n) / 360));
+  // the rays that say something about the core's outline, and their radii (NaN for the others)
+  const known = new Float64Array(n);
+  for (let k = 0; k < n; k++) {
+    const v = c[k];
+    const ov = o[k];
+    known[k] = v !== null && ov !== null && v < ov - W ? v : NaN;
+  }
+  const w = new Float64Array(2 * h + 1);
   return c.map((ci, i) => {
     if (ci === null) return null;
     // rays where the core reaches the outer edge (no band there) say nothing about the core's outline
-    const w: number[] = [];
-    for (let j = -h; j <= h; j++) {
-      const k = (i + j + n) % n;
-      const v = c[k];
-      const ov = o[k];
-      if (v !== null && ov !== null && v < ov - W) w.push(v);
-    }
-    if (w.length < h) return ci;
-    w.sort((a, b) => a - b);
-    const q75 = w[Math.floor(0.75 * (w.length - 1))];
+    const m = gatherKnown(known, i, h, w);
+    if (m < h) return ci;
+    // the typed array's own numeric sort: the same order statistics as sorting a number[] with
+    // (a, b) => a − b (radii, never NaN; ±0 would only differ in a sign no use of q75 sees)
+    const sorted = w.subarray(0, m).sort();
+    const q75 = sorted[Math.floor(0.75 * (m - 1))];
     return ci < q75 - Math.max(NOTCH_DEPTH_WINDOWS * W, NOTCH_DEPTH_RADIUS * q75) ? q75 : ci;
   });
+}
+
+/** The known radii of the rays i − h … i + h (circular) into w; their number. */
+function gatherKnown(known: Float64Array, i: number, h: number, w: Float64Array): number {
+  const n = known.length;
+  let m = 0;
+  for (let j = -h; j <= h; j++) {
+    const v = known[(i + j + n) % n];
+    if (v === v) w[m++] = v;
+  }
+  return m;
 }

@@ -4,11 +4,10 @@
  * raster and options.
  */
 import { oncePerRaster } from './memo.js';
-import { fillHolesInBox } from './holes.js';
 import { getCv, type Mat } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import { maskToMat, matToMask, morphDisc, otsuThreshold, quantile, quantiles, rasterToMat } from './cvutil.js';
+import { fillHoles, maskToMat, matToMask, morphDisc, otsuThreshold, quantile, quantiles, rasterToMat } from './cvutil.js';
 
 /** Options of {@link coarseForeground} (the same fields of SpecimenOptions). */
 export interface ForegroundOptions {
@@ -100,7 +99,7 @@ function computeForeground(r: GrayRaster, opts: ForegroundOptions): CoarseForegr
       const rad = Math.max(1, Math.round(Math.min(w, h) / 300));
       morphDisc(mm, 'close', rad * 2);
       const tmp = matToMask(mm);
-      fillHolesInBox(tmp);
+      fillHoles(tmp);
       const mm2 = maskToMat(tmp);
       try {
         morphDisc(mm2, 'open', rad * 2);

@@ -20,7 +20,6 @@
  * A radius where the ray's own profile has a gap (texture unknown there, e.g. glints) stays a gap:
  * the neighbours' values are no evidence for this ray there.
  */
-import { medianOf } from '../measure/statistics.js';
 
 /**
  * Default pooling of the step fit's profile over neighbouring rays, in windows of arc length each
@@ -59,15 +58,35 @@ export function pooledProfile(profiles: readonly Float64Array[], i: number, half
   const own = profiles[i];
   if (half <= 0) return own;
   const out = new Float64Array(own.length).fill(NaN);
-  const w: number[] = [];
-  for (let k = Math.max(0, k0 - 1); k <= Math.min(own.length - 1, k1); k++) {
-    if (Number.isNaN(own[k])) continue;
-    w.length = 0;
-    for (let j = -half; j <= half; j++) {
-      const p = profiles[(((i + j) % n) + n) % n];
-      if (k < p.length && !Number.isNaN(p[k])) w.push(p[k]);
-    }
-    out[k] = medianOf(w);
-  }
+  const rays: Float64Array[] = [];
+  for (let j = -half; j <= half; j++) rays.push(profiles[(((i + j) % n) + n) % n]);
+  pooledInto(rays, own, Math.max(0, k0 - 1), Math.min(own.length - 1, k1), new Float64Array(rays.length), out);
   return out;
+}
+
+/**
+ * out[k] for k = from … to: the median of the rays' known values at k (NaN where `own` has a gap
+ * or no ray has a value). The values are insertion-sorted into `w` (at most 2·half + 1 of them):
+ * the same median as medianOf (simple-statistics: the middle order statistic, or the mean of the
+ * two middle ones, (a + b) / 2) without an array and a copy per radius. Order statistics are the
+ * same values whichever way they are found (the profiles are logarithms, never −0).
+ */
+function pooledInto(rays: readonly Float64Array[], own: Float64Array, from: number, to: number, w: Float64Array, out: Float64Array): void {
+  for (let k = from; k <= to; k++) {
+    if (Number.isNaN(own[k])) continue;
+    let m = 0;
+    for (let j = 0; j < rays.length; j++) {
+      const p = rays[j];
+      if (k >= p.length) continue;
+      const v = p[k];
+      if (Number.isNaN(v)) continue;
+      let q = m++;
+      while (q > 0 && w[q - 1] > v) {
+        w[q] = w[q - 1];
+        q--;
+      }
+      w[q] = v;
+    }
+    out[k] = m === 0 ? NaN : m & 1 ? w[m >> 1] : (w[m / 2 - 1] + w[m / 2]) / 2;
+  }
 }

@@ -9,7 +9,7 @@ import { createMask, createRaster, type GrayRaster, type Mask } from '../image/r
 import { markAboveSectors, sectorPositions, sectorThresholds } from './rimCoreSectors.js';
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantiles } from './cvutil.js';
+import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, quantiles, setBox } from './cvutil.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';
 import { oncePerRaster } from './memo.js';
@@ -161,7 +161,12 @@ function combineFeatures(features: readonly GrayRaster[], opts: RimCoreOptions, 
       geo.scores.set(features[fi], list);
     } else addClampedZ(lg, med, spread, nF, acc);
   }
-  for (let k = 0; k < m; k++) comb[idx[k]] = acc[k];
+  scatter(acc, idx, comb);
+}
+
+/** comb[idx[k]] = acc[k] (a loop of its own: inside combineFeatures it ran unoptimised for long). */
+function scatter(acc: Float32Array, idx: Int32Array, comb: Float32Array): void {
+  for (let k = 0; k < idx.length; k++) comb[idx[k]] = acc[k];
 }
 
 /** clamp((lg[i] − med)/spread, ±Z_CLAMP), kept in double precision (the same terms as addClampedZ adds). */
@@ -188,6 +193,8 @@ function addScores(z: Float64Array, nF: number, comb: Float32Array): void {
  */
 interface FeatureGeometry {
   spec: Mask;
+  /** The specimen mask's bounding box at feature scale (null when empty). */
+  specBox: { x0: number; y0: number; x1: number; y1: number } | null;
   interior: Mask;
   idx: Int32Array;
   sectors: () => { pos: Float32Array; rad: Float32Array };
@@ -202,7 +209,7 @@ function featureGeometry(mask: Mask, fw: number, fh: number, s: number, half: nu
     const interior = erodeMask(spec, half);
     const idx = indicesOf(interior.data);
     let sectors: { pos: Float32Array; rad: Float32Array } | null = null;
-    return { spec, interior, idx, sectors: () => (sectors ??= sectorPositions(idx, fw, centre)), scores: new WeakMap() };
+    return { spec, specBox: setBox(spec.data, fw, fh), interior, idx, sectors: () => (sectors ??= sectorPositions(idx, fw, centre)), scores: new WeakMap() };
   });
 }
 
@@ -213,7 +220,10 @@ function otsuSplit(comb: Float32Array, idx: Int32Array): { t: number; lo: number
   const [lo, hi] = quantiles(vals, [0.005, 0.995]);
   const t = otsuThreshold(vals, lo, hi);
   const [mAll, vAll] = meanVar(vals);
-  const [sa, na, sb] = splitSums(vals, t);
+  const q = splitSums(vals, t);
+  const sa = q[0];
+  const na = q[1];
+  const sb = q[2];
   const nb0 = vals.length - na;
   const ma = sa / na;
   const mb = sb / nb0;
@@ -253,13 +263,14 @@ function roughCore(comb: Float32Array, geo: FeatureGeometry, split: { t: number;
  * (± `half` feature px around the core edge) left out; also the numbers of rim samples.
  */
 function separabilityOf(
-  spec: Mask, core: Mask, interior: Mask, half: number, comb: Float32Array, nIdx: number, split: { t: number; lo: number; hi: number; eta: number },
+  spec: Mask, specBox: FeatureGeometry['specBox'], core: Mask, interior: Mask, half: number, comb: Float32Array, nIdx: number, split: { t: number; lo: number; hi: number; eta: number },
 ): { separability: Separability; nRim: number } {
   const coreIn = erodeMask(core, half);
   const coreOut = dilateMask(core, half);
-  const cvBuf = new Float32Array(nIdx);
-  const rvBuf = new Float32Array(nIdx);
-  const [nCv, nRv, nCore, nSpec] = splitClasses(spec.data, core.data, interior.data, coreIn.data, coreOut.data, comb, cvBuf, rvBuf);
+  const cvBuf = new Float32Array(nIdx + 1); // one more: splitClasses stores past the last value it keeps
+  const rvBuf = new Float32Array(nIdx + 1);
+  // only the specimen's box: outside it no pixel is counted or taken
+  const [nCv, nRv, nCore, nSpec] = specBox ? splitClasses(spec.data, core.data, interior.data, coreIn.data, coreOut.data, comb, cvBuf, rvBuf, spec.width, specBox) : [0, 0, 0, 0];
   const cv = cvBuf.subarray(0, nCv);
   const rv = rvBuf.subarray(0, nRv);
   const coreFraction = nSpec ? nCore / nSpec : 0;
@@ -369,13 +380,13 @@ export function classifyRimCore(specimen: Specimen, features: readonly GrayRaste
   const contourF = outerContour(core);
   if (contourF.length < 8) return fail('the rough core is too small to have a boundary');
   const boundary = contourF.map(toFull);
-  let { separability, nRim } = separabilityOf(spec, core, interior, half, comb, idx.length, split);
+  let { separability, nRim } = separabilityOf(spec, geo.specBox, core, interior, half, comb, idx.length, split);
   const coreAtEdgeFraction = coreAtEdgeFractionOf(specimen.contour, boundary, centerFull, opts.windowPx, s);
   if (!separable(separability, opts)) {
     // The outer edge's own contrast (the edge glow of an SEM image, a bevel) reaches about a window
     // into the specimen and reads as rough rim: not separable with half a window left out, look
     // again with a whole window left out (sem: Fisher ratio 0.42 → 1.7 on the same split)
-    const again = separabilityOf(spec, core, erodeMask(spec, 2 * half), half, comb, idx.length, split);
+    const again = separabilityOf(spec, geo.specBox, core, erodeMask(spec, 2 * half), half, comb, idx.length, split);
     if (separable(again.separability, opts) && again.nRim >= 20) ({ separability, nRim } = again);
   }
   return verdict({ warnings, coreMask: core, boundary, separability, coreAtEdgeFraction, combined: createRaster(fw, fh, comb), featureScale: s }, nRim, opts);

@@ -31,22 +31,91 @@ const SECTOR_MIN_ETA_GAIN = 0.035;
 export function sectorPositions(idx: Int32Array, fw: number, centre: PointPx): { pos: Float32Array; rad: Float32Array } {
   const pos = new Float32Array(idx.length);
   const rad = new Float32Array(idx.length);
-  const k = N_SECTORS / (2 * Math.PI);
-  for (let i = 0; i < idx.length; i++) {
-    const x = (idx[i] % fw) - centre.x;
-    const y = centre.y - Math.floor(idx[i] / fw);
-    const a = Math.atan2(y, x);
-    pos[i] = (a < 0 ? a + 2 * Math.PI : a) * k;
-    rad[i] = Math.hypot(x, y);
-  }
+  positionsInto(idx, fw, centre.x, centre.y, pos, rad);
   return { pos, rad };
+}
+
+/**
+ * The loop of {@link sectorPositions}, with the centre and 2π as locals: the interior's first rows
+ * (above the centre) all have angles ≥ 0, so V8 optimised the loop before the `a < 0` branch had
+ * run and fell back to the interpreter half-way (`--trace-deopt`). The same operations.
+ */
+function positionsInto(idx: Int32Array, fw: number, cx: number, cy: number, pos: Float32Array, rad: Float32Array): void {
+  const twoPi = 2 * Math.PI;
+  const k = N_SECTORS / twoPi;
+  for (let i = 0; i < idx.length; i++) {
+    const x = (idx[i] % fw) - cx;
+    const y = cy - Math.floor(idx[i] / fw);
+    const a = Math.atan2(y, x);
+    pos[i] = (a < 0 ? a + twoPi : a) * k;
+    rad[i] = hypot2(x, y);
+  }
+}
+
+/**
+ * Math.hypot(x, y) for finite x, y, computed as V8's builtin does (Node 20, V8 11: the largest
+ * magnitude m, the Kahan-compensated sum of (|x|/m)² and (|y|/m)², √sum · m): Math.hypot is a call
+ * into a variadic builtin that V8 does not inline (≈ 45 ns against ≈ 12 ns, 430 000 interior pixels
+ * per classification). tests/core/segment/rimCoreLoops.test.ts checks it equals Math.hypot bit for
+ * bit on the pixel grids and on random values; should a Node update change Math.hypot, that test
+ * says so (the result would then stay as it is now).
+ */
+export function hypot2(x: number, y: number): number {
+  const ax = Math.abs(x);
+  const ay = Math.abs(y);
+  let max = 0;
+  if (ax > max) max = ax;
+  if (ay > max) max = ay;
+  if (max === 0) return 0;
+  let sum = 0;
+  let comp = 0;
+  const n1 = ax / max;
+  const s1 = n1 * n1 - comp;
+  let pre = sum + s1;
+  comp = pre - sum - s1;
+  sum = pre;
+  const n2 = ay / max;
+  const s2 = n2 * n2 - comp;
+  pre = sum + s2;
+  sum = pre;
+  return Math.sqrt(sum) * max;
 }
 
 /** Otsu's threshold of one sector's values, its η, the share above it, and the mean radii below and above it. */
 function etaAt(vals: Float32Array, t: number, mAll: number, vAll: number): [number, number, number] {
-  const [sa, na, sb] = splitSums(vals, t);
+  const q = splitSums(vals, t);
+  const sa = q[0];
+  const na = q[1];
+  const sb = q[2];
   const nb0 = vals.length - na;
   return [vAll > 0 && na && nb0 ? ((na / vals.length) * (sa / na - mAll) ** 2 + (nb0 / vals.length) * (sb / nb0 - mAll) ** 2) / vAll : 0, na, nb0];
+}
+
+/**
+ * [Σ rad where v > t, Σ rad where v ≤ t, max rad], without branches in the loop (see
+ * rimCoreLoops.ts `meanVar`; the radii are ≥ 0, the sums start at +0, so adding 0 changes nothing).
+ */
+function radialSums(vals: Float32Array, rad: Float32Array, t: number): Float64Array {
+  const out = new Float64Array(3);
+  radialSumsInto(vals, rad, t, out);
+  return out;
+}
+
+/** The loop of {@link radialSums}, its sums into out (not an array literal: see rimCoreLoops.ts `splitSums`). */
+function radialSumsInto(vals: Float32Array, rad: Float32Array, t: number, out: Float64Array): void {
+  let rA = 0;
+  let rB = 0;
+  let rMax = 0;
+  for (let i = 0; i < vals.length; i++) {
+    const r = rad[i];
+    const above = vals[i] > t;
+    rA += above ? r : 0;
+    rB += above ? 0 : r;
+    rMax = r > rMax ? r : rMax;
+  }
+  out[0] = rA;
+  out[1] = rB;
+  out[2] = rMax;
 }
 
 function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: number, tGlobal: number): { t: number; eta: number; gain: number; above: number; order: number } {
@@ -54,14 +123,10 @@ function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: numb
   const [mAll, vAll] = meanVar(vals);
   const [eta, na, nb0] = etaAt(vals, t, mAll, vAll);
   const gain = eta - etaAt(vals, tGlobal, mAll, vAll)[0];
-  let rA = 0;
-  let rB = 0;
-  let rMax = 0;
-  for (let i = 0; i < vals.length; i++) {
-    if (vals[i] > t) rA += rad[i];
-    else rB += rad[i];
-    if (rad[i] > rMax) rMax = rad[i];
-  }
+  const q = radialSums(vals, rad, t);
+  const rA = q[0];
+  const rB = q[1];
+  const rMax = q[2];
   const order = na && nb0 && rMax > 0 ? (rB / nb0 - rA / na) / rMax : 0;
   return { t, eta, gain, above: vals.length ? na / vals.length : 0, order };
 }
@@ -75,15 +140,17 @@ function sectorSplit(vals: Float32Array, rad: Float32Array, lo: number, hi: numb
  * part of the circumference; the sector's own split follows it.
  */
 export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float32Array, rad: Float32Array, split: { t: number; lo: number; hi: number }): Float64Array {
-  const counts = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) counts[Math.min(N_SECTORS - 1, Math.floor(pos[i]))]++;
-  const vals = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const rads = Array.from({ length: N_SECTORS }, (_, s) => new Float32Array(counts[s]));
-  const fill = new Int32Array(N_SECTORS);
-  for (let i = 0; i < pos.length; i++) {
-    const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
-    rads[s][fill[s]] = rad[i];
-    vals[s][fill[s]++] = comb[idx[i]];
+  // each sector's values and radii in interior order, one after the other in two flat arrays (a counting sort)
+  const sec = new Uint8Array(pos.length);
+  const start = sectorStarts(pos, sec);
+  const flatVals = new Float32Array(pos.length);
+  const flatRads = new Float32Array(pos.length);
+  fillSectors(comb, idx, rad, sec, start, flatVals, flatRads);
+  const vals: Float32Array[] = [];
+  const rads: Float32Array[] = [];
+  for (let s = 0; s < N_SECTORS; s++) {
+    vals.push(flatVals.subarray(start[s], start[s + 1]));
+    rads.push(flatRads.subarray(start[s], start[s + 1]));
   }
   const ts = new Float64Array(N_SECTORS);
   for (let s = 0; s < N_SECTORS; s++) {
@@ -92,6 +159,28 @@ export function sectorThresholds(comb: Float32Array, idx: Int32Array, pos: Float
     ts[s] = own ? o.t : split.t;
   }
   return ts;
+}
+
+/** Each interior pixel's sector (into `sec`) and where each sector starts in the sector-ordered arrays (N_SECTORS + 1 offsets). */
+function sectorStarts(pos: Float32Array, sec: Uint8Array): Int32Array {
+  const start = new Int32Array(N_SECTORS + 1);
+  for (let i = 0; i < pos.length; i++) {
+    const s = Math.min(N_SECTORS - 1, Math.floor(pos[i]));
+    sec[i] = s;
+    start[s + 1]++;
+  }
+  for (let s = 0; s < N_SECTORS; s++) start[s + 1] += start[s];
+  return start;
+}
+
+/** The values comb[idx[i]] and radii rad[i], sector by sector in interior order (loops of their own: see rimCoreLoops.ts `meanVar`). */
+function fillSectors(comb: Float32Array, idx: Int32Array, rad: Float32Array, sec: Uint8Array, start: Int32Array, vals: Float32Array, rads: Float32Array): void {
+  const next = Int32Array.from(start);
+  for (let i = 0; i < sec.length; i++) {
+    const o = next[sec[i]]++;
+    rads[o] = rad[i];
+    vals[o] = comb[idx[i]];
+  }
 }
 
 /** out[idx[k]] = (v[idx[k]] > threshold interpolated between the sector centres at pos[k]). */

@@ -8,7 +8,6 @@ import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { BoxPx, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, outerContour, rectMorph, setBox } from './cvutil.js';
 import { gaussian1 } from './smooth.js';
-import { fillHolesInBox } from './holes.js';
 import { keepLabelled } from './components.js';
 import { coarseForeground } from './foreground.js';
 import { separatedForeground } from './severalSpecimens.js';
@@ -98,7 +97,7 @@ export function findSpecimen(r: GrayRaster, opts: SpecimenOptions = {}): Specime
   const kept = keepLabelled(fg.mask, aim, t ? 0 : (opts.minComponentFraction ?? 0.25));
   if (!kept) throw new FractozoneError('NO_SPECIMEN', 'No specimen was found: the image holds no region that differs from the background.');
   const coarse = kept;
-  fillHolesInBox(coarse);
+  fillHoles(coarse);
   // with a target, the other objects stay out of the re-decided edge band (a touching half)
   let others: Mask | null = null;
   if (t) {

@@ -52,3 +52,65 @@ describe('fillHoles', () => {
     expect(m.data[5 * W + 5]).toBe(0); // connected to the outside through the opening
   });
 });
+
+describe('fillHoles on the bounding box (exact shortcut)', () => {
+  // masks that do not reach every side of the frame: the flood runs on their box grown by 1 px only
+  for (const [W, H, bx0, by0, bx1, by1, p, seed] of [
+    [80, 60, 10, 12, 50, 40, 0.55, 11], // inside, away from the frame
+    [80, 60, 0, 5, 40, 59, 0.6, 12], // touching the left and bottom frame
+    [70, 50, 1, 1, 68, 48, 0.5, 13], // box grown by 1 is the whole image
+    [64, 64, 30, 0, 63, 20, 0.65, 14], // a corner
+    [50, 40, 20, 20, 20, 20, 1, 15], // one pixel
+  ] as const) {
+    it(`equals a plain flood fill on a ${W}×${H} mask set in [${bx0}, ${bx1}] × [${by0}, ${by1}]`, () => {
+      let s = seed * 7919;
+      const m = createMask(W, H);
+      for (let y = by0; y <= by1; y++) {
+        for (let x = bx0; x <= bx1; x++) {
+          s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+          m.data[y * W + x] = s / 2 ** 32 < p ? 1 : 0;
+        }
+      }
+      // a closed ring with a hole inside the region, so something is filled
+      const cx = (bx0 + bx1) >> 1;
+      const cy = (by0 + by1) >> 1;
+      for (let y = cy - 3; y <= cy + 3; y++) for (let x = cx - 3; x <= cx + 3; x++) {
+        if (x < bx0 || x > bx1 || y < by0 || y > by1) continue;
+        m.data[y * W + x] = Math.max(Math.abs(x - cx), Math.abs(y - cy)) === 3 ? 1 : 0;
+      }
+      const ref = reference(m.data, W, H);
+      fillHoles(m);
+      expect(Array.from(m.data)).toEqual(Array.from(ref));
+    });
+  }
+  it('leaves an empty mask empty', () => {
+    const m = createMask(9, 7);
+    fillHoles(m);
+    expect(Array.from(m.data).every((v) => v === 0)).toBe(true);
+  });
+});
+
+describe('setBox', () => {
+  it('equals the plain bounding box of the set pixels', async () => {
+    const { setBox } = await import('../../../src/core/segment/cvutil.js');
+    let s = 99;
+    for (let t = 0; t < 200; t++) {
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      const W = 1 + (s % 23);
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      const H = 1 + (s % 17);
+      const o = new Uint8Array(W * H);
+      const k = t % 6; // a few set pixels, values other than 1 too
+      for (let j = 0; j < k; j++) {
+        s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+        o[s % o.length] = 1 + (j % 3) * 127;
+      }
+      let box: { x0: number; y0: number; x1: number; y1: number } | null = null;
+      for (let y = 0; y < H; y++) for (let x = 0; x < W; x++) {
+        if (!o[y * W + x]) continue;
+        box = box ? { x0: Math.min(box.x0, x), y0: Math.min(box.y0, y), x1: Math.max(box.x1, x), y1: Math.max(box.y1, y) } : { x0: x, y0: y, x1: x, y1: y };
+      }
+      expect(setBox(o, W, H)).toEqual(box);
+    }
+  });
+});

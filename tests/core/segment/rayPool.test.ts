@@ -7,6 +7,7 @@ import { describe, expect, it } from 'vitest';
 import { findSpecimen, refineBoundary } from '../../../src/core/segment/index.js';
 import { POOL_WINDOWS, pooledProfile, poolHalfRays } from '../../../src/core/segment/rayPool.js';
 import { makeDiscImage } from '../../helpers/discImages.js';
+import { medianOf } from '../../../src/core/measure/statistics.js';
 
 describe('pooledProfile', () => {
   const profiles = [
@@ -73,5 +74,49 @@ describe('refineBoundary with a weak texture step in noise', () => {
     expect(Math.abs(pooled)).toBeLessThan(0.2);
     // the single-ray fit's coreward tail (the bias the pooling removes)
     expect(single).toBeLessThan(pooled - 0.15);
+  });
+});
+
+describe('pooledProfile against the plain form (medianOf per radius)', () => {
+  /** The former form: an array of the neighbours' known values per radius, its medianOf. */
+  function plain(profiles: readonly Float64Array[], i: number, half: number, k0: number, k1: number): Float64Array {
+    const n = profiles.length;
+    const own = profiles[i];
+    if (half <= 0) return own;
+    const out = new Float64Array(own.length).fill(NaN);
+    for (let k = Math.max(0, k0 - 1); k <= Math.min(own.length - 1, k1); k++) {
+      if (Number.isNaN(own[k])) continue;
+      const w: number[] = [];
+      for (let j = -half; j <= half; j++) {
+        const p = profiles[(((i + j) % n) + n) % n];
+        if (k < p.length && !Number.isNaN(p[k])) w.push(p[k]);
+      }
+      out[k] = medianOf(w);
+    }
+    return out;
+  }
+
+  it('gives the same numbers, gaps, ties, ragged lengths and even counts included', () => {
+    let s = 4242;
+    const rnd = (): number => {
+      s = (Math.imul(s, 1664525) + 1013904223) >>> 0;
+      return s / 2 ** 32;
+    };
+    const nRays = 40;
+    const profiles = Array.from({ length: nRays }, () => {
+      const len = 30 + Math.floor(rnd() * 20);
+      return Float64Array.from({ length: len }, () => {
+        const u = rnd();
+        return u < 0.15 ? NaN : u < 0.3 ? -2.5 : Math.log(rnd() + 1e-10) * 3;
+      });
+    });
+    for (let i = 0; i < nRays; i++) {
+      for (const half of [0, 1, 2, 3, 5]) {
+        const got = pooledProfile(profiles, i, half, 3, 45);
+        const want = plain(profiles, i, half, 3, 45);
+        expect(got.length).toBe(want.length);
+        for (let k = 0; k < got.length; k++) expect(Object.is(got[k], want[k])).toBe(true);
+      }
+    }
   });
 });
