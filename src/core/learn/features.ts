@@ -36,7 +36,7 @@ import { FractozoneError } from '../errors.js';
 import type { GrayRaster } from '../image/raster.js';
 import { entropyTables } from '../texture/kernels/entropyKernel.js';
 import { DEFAULT_ENTROPY_BINS, entropyBins } from '../texture/localEntropy.js';
-import { quantile } from '../segment/cvutil.js';
+import { quantile } from '../segment/quantiles.js';
 import { outlineCues } from './edgeCandidates.js';
 import type { WorkingFrame } from '../pipeline/frame.js';
 import type { PointPx } from '../image/geometry.js';

@@ -171,6 +171,13 @@ export function select(a: Float64Array, k: number): number {
   return a[k];
 }
 
+/** The value at rank round(p·(n − 1)) of the sorted values, by {@link select} on a copy (NaN when empty). */
+export function valueAtRank(values: Float32Array | Float64Array | number[], p: number): number {
+  const a = Float64Array.from(values);
+  if (a.length === 0) return NaN;
+  return select(a, Math.min(a.length - 1, Math.max(0, Math.round(p * (a.length - 1)))));
+}
+
 /**
  * Median of the resample holding count[j] copies of sorted[j] (sorted ascending): the values of
  * ranks lo and hi (equal for an odd size), averaged for an even size.

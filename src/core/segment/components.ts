@@ -6,7 +6,7 @@
 import { getCv } from '../cv.js';
 import type { PointPx } from '../image/geometry.js';
 import { createMask, type Mask } from '../image/raster.js';
-import { maskToMat } from './cvutil.js';
+import { chosenComponent, labelMask, maskToMat } from './cvutil.js';
 
 /** The output of `cv.connectedComponentsWithStats(mask, 8, CV_32S)`, copied out of OpenCV. */
 export interface Labelled {
@@ -67,31 +67,8 @@ export function labelledComponents(mask: Mask): Labelled {
 export function keepLabelled(mask: Mask, target: PointPx, minFraction = 0.25): Mask | null {
   const { n, labels, stats, cents } = labelledComponents(mask);
   if (n <= 1) return null;
-  const area = (l: number): number => stats[l * 5 + STAT_AREA];
-  let maxA = 0;
-  for (let l = 1; l < n; l++) maxA = Math.max(maxA, area(l));
-  const tx = Math.min(mask.width - 1, Math.max(0, Math.round(target.x)));
-  const ty = Math.min(mask.height - 1, Math.max(0, Math.round(target.y)));
-  const atTarget = labels[ty * mask.width + tx];
-  let best = -1;
-  if (atTarget > 0 && area(atTarget) >= minFraction * maxA) best = atTarget;
-  else {
-    let bestD = Infinity;
-    for (let l = 1; l < n; l++) {
-      if (area(l) < minFraction * maxA) continue;
-      const d = Math.hypot(cents[2 * l] - target.x, cents[2 * l + 1] - target.y);
-      if (d < bestD) {
-        bestD = d;
-        best = l;
-      }
-    }
-  }
+  const best = chosenComponent(n, (l) => stats[l * 5 + STAT_AREA], (l) => ({ x: cents[2 * l], y: cents[2 * l + 1] }), labels, mask.width, mask.height, target, minFraction);
   const out = createMask(mask.width, mask.height);
-  labelInto(labels, best, out.data);
+  labelMask(labels, best, out.data);
   return out;
-}
-
-/** out[i] = 1 where lab[i] = label, else 0 (a loop of its own, as cvutil's labelMask). */
-function labelInto(lab: Int32Array, label: number, out: Uint8Array): void {
-  for (let i = 0; i < lab.length; i++) out[i] = lab[i] === label ? 1 : 0;
 }

@@ -2,7 +2,6 @@
 import { getCv, type Mat } from '../cv.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
 import type { PointPx } from '../image/geometry.js';
-import { select } from '../measure/statistics.js';
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {
@@ -331,25 +330,8 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
   try {
     const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
     if (n <= 1) return null;
-    let maxA = 0;
-    for (let l = 1; l < n; l++) maxA = Math.max(maxA, stats.intAt(l, cv.CC_STAT_AREA));
     const lab = labels.data32S as Int32Array;
-    const tx = Math.min(mask.width - 1, Math.max(0, Math.round(target.x)));
-    const ty = Math.min(mask.height - 1, Math.max(0, Math.round(target.y)));
-    const atTarget = lab[ty * mask.width + tx];
-    let best = -1;
-    if (atTarget > 0 && stats.intAt(atTarget, cv.CC_STAT_AREA) >= minFraction * maxA) best = atTarget;
-    else {
-      let bestD = Infinity;
-      for (let l = 1; l < n; l++) {
-        if (stats.intAt(l, cv.CC_STAT_AREA) < minFraction * maxA) continue;
-        const d = Math.hypot(cents.doubleAt(l, 0) - target.x, cents.doubleAt(l, 1) - target.y);
-        if (d < bestD) {
-          bestD = d;
-          best = l;
-        }
-      }
-    }
+    const best = chosenComponent(n, (l) => stats.intAt(l, cv.CC_STAT_AREA), (l) => ({ x: cents.doubleAt(l, 0), y: cents.doubleAt(l, 1) }), lab, mask.width, mask.height, target, minFraction);
     const out = createMask(mask.width, mask.height);
     labelMask(lab, best, out.data);
     return out;
@@ -362,10 +344,37 @@ export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): 
 }
 
 /**
+ * The component {@link keepComponent} keeps among labels 1 … n − 1 (`lab` the label image, W × H):
+ * the one under the target pixel when its area is at least `minFraction` of the largest, else the
+ * one of those whose centroid is nearest the target; −1 when there is none. Shared with
+ * components.ts `keepLabelled`, which labels once for several callers.
+ */
+export function chosenComponent(n: number, area: (l: number) => number, centroid: (l: number) => PointPx, lab: Int32Array, W: number, H: number, target: PointPx, minFraction: number): number {
+  let maxA = 0;
+  for (let l = 1; l < n; l++) maxA = Math.max(maxA, area(l));
+  const tx = Math.min(W - 1, Math.max(0, Math.round(target.x)));
+  const ty = Math.min(H - 1, Math.max(0, Math.round(target.y)));
+  const atTarget = lab[ty * W + tx];
+  if (atTarget > 0 && area(atTarget) >= minFraction * maxA) return atTarget;
+  let best = -1;
+  let bestD = Infinity;
+  for (let l = 1; l < n; l++) {
+    if (area(l) < minFraction * maxA) continue;
+    const c = centroid(l);
+    const d = Math.hypot(c.x - target.x, c.y - target.y);
+    if (d < bestD) {
+      bestD = d;
+      best = l;
+    }
+  }
+  return best;
+}
+
+/**
  * out[i] = 1 where lab[i] = label, else 0. A loop of its own: inside `keepComponent` V8 reached it
  * only by on-stack replacement (self time ≈ 130 ms in a 12-MP profile, issue 16).
  */
-function labelMask(lab: Int32Array, label: number, out: Uint8Array): void {
+export function labelMask(lab: Int32Array, label: number, out: Uint8Array): void {
   for (let i = 0; i < lab.length; i++) out[i] = lab[i] === label ? 1 : 0;
 }
 
@@ -435,77 +444,4 @@ export function otsuThreshold(values: ArrayLike<number>, lo: number, hi: number,
     }
   }
   return lo + (bestT / bins) * span;
-}
-
-/** Quantile (0..1) of the finite values of an array (sorts a copy). */
-export function quantile(values: ArrayLike<number>, q: number): number {
-  return quantiles(values, [q])[0];
-}
-
-/**
- * Several quantiles (0..1) of the finite values of an array from ONE sorted copy (same values as
- * calling {@link quantile} for each q). Large arrays: a deterministic stride subsample of
- * ≤ 50 000 values is plenty for a threshold.
- */
-export function quantiles(values: ArrayLike<number>, qs: readonly number[]): number[] {
-  const stride = Math.max(1, Math.floor(values.length / 50000));
-  const buf = new Float64Array(Math.ceil(values.length / stride));
-  // one loop per array type: a loop that has seen one kind of array is thrown away by V8 when
-  // another comes (the classification passes Float32Array, the scale and polar stages others)
-  const n =
-    values instanceof Float32Array ? finiteEvery32(values, stride, buf) : values instanceof Float64Array ? finiteEvery64(values, stride, buf) : finiteEvery(values, stride, buf);
-  if (n === 0) return qs.map(() => NaN);
-  const a = buf.subarray(0, n);
-  // The values a full sort would put at these ranks, by selection (measure/statistics.ts `select`)
-  // in ascending rank order, each within the part right of the previous rank: three quantiles of
-  // 100 000 values 4.4 ms → 1.5 ms (measured, load 2.5); the classification calls it once per feature and once more.
-  const ranks = qs.map((q) => Math.min(n - 1, Math.max(0, Math.round(q * (n - 1)))));
-  const order = ranks.map((_, i) => i).sort((i, j) => ranks[i] - ranks[j]);
-  const out = new Array<number>(qs.length);
-  let from = 0;
-  for (const i of order) {
-    const k = ranks[i];
-    out[i] = k >= from ? select(a.subarray(from), k - from) : a[k];
-    from = k;
-  }
-  // a sort orders −0 before +0, a comparison does not: a zero takes the sign it would have in the sorted copy
-  for (let i = 0; i < out.length; i++) if (out[i] === 0) out[i] = zeroSignAtRank(a, ranks[i]);
-  return out;
-}
-
-/** The finite values of every `stride`-th entry into buf; their number. */
-function finiteEvery32(values: Float32Array, stride: number, buf: Float64Array): number {
-  let n = 0;
-  for (let i = 0; i < values.length; i += stride) {
-    const v = values[i];
-    if (Number.isFinite(v)) buf[n++] = v;
-  }
-  return n;
-}
-
-/** {@link finiteEvery32} for a Float64Array. */
-function finiteEvery64(values: Float64Array, stride: number, buf: Float64Array): number {
-  let n = 0;
-  for (let i = 0; i < values.length; i += stride) {
-    const v = values[i];
-    if (Number.isFinite(v)) buf[n++] = v;
-  }
-  return n;
-}
-
-/** {@link finiteEvery32} for any other array. */
-function finiteEvery(values: ArrayLike<number>, stride: number, buf: Float64Array): number {
-  let n = 0;
-  for (let i = 0; i < values.length; i += stride) {
-    const v = values[i];
-    if (Number.isFinite(v)) buf[n++] = v;
-  }
-  return n;
-}
-
-/** ±0: the value at rank k of a sorted copy of `a` (known to be a zero). */
-function zeroSignAtRank(a: Float64Array, k: number): number {
-  let below = 0;
-  for (let i = 0; i < a.length; i++) if (a[i] < 0 || Object.is(a[i], -0)) below++;
-  return k < below ? -0 : 0;
 }

@@ -7,7 +7,8 @@ import { oncePerRaster } from './memo.js';
 import { getCv, type Mat } from '../cv.js';
 import { FractozoneError } from '../errors.js';
 import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import { fillHoles, maskToMat, matToMask, morphDisc, otsuThreshold, quantile, quantiles, rasterToMat } from './cvutil.js';
+import { fillHoles, maskToMat, matToMask, morphDisc, otsuThreshold, rasterToMat } from './cvutil.js';
+import { quantile, quantiles } from './quantiles.js';
 
 /** Options of {@link coarseForeground} (the same fields of SpecimenOptions). */
 export interface ForegroundOptions {

@@ -30,7 +30,8 @@ import type { BoxPx, PointPx } from '../image/geometry.js';
 import type { GrayRaster, Mask } from '../image/raster.js';
 import { edgeCues, type EdgeCues } from './polar.js';
 import { oncePerRaster } from './memo.js';
-import { findRings, voteCentre, type Ring } from './rings.js';
+import { findRings, type Ring } from './rings.js';
+import { voteCentre } from './centreVote.js';
 import { silhouetteIsClean, type Specimen } from './specimen.js';
 import { fitCircle } from './fit.js';
 

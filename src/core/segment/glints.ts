@@ -10,7 +10,8 @@
  * `missing`).
  */
 import { createRaster, type GrayRaster, type Mask } from '../image/raster.js';
-import { quantiles, rectMorph, setBox } from './cvutil.js';
+import { rectMorph, setBox } from './cvutil.js';
+import { quantiles } from './quantiles.js';
 
 /** Radius of the opening, working px (specks narrower than 7 px are removed). */
 const OPEN_RADIUS = 3;

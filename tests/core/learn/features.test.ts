@@ -10,7 +10,7 @@ import { createRaster, type GrayRaster } from '../../../src/core/image/raster.js
 import { pixelFeatureNames, pixelFeaturesAt, windowPxAt, WINDOW_FEATURES } from '../../../src/core/learn/features.js';
 import { createRng } from '../../../src/core/random.js';
 import { entropyBins, localEntropy } from '../../../src/core/texture/localEntropy.js';
-import { quantile } from '../../../src/core/segment/cvutil.js';
+import { quantile } from '../../../src/core/segment/quantiles.js';
 
 /** A 61 × 47 image: a bright disc with fine noise on a darker, smoother ground, and a stripe pattern. */
 function image(): GrayRaster {

@@ -89,7 +89,8 @@ describe('glint suppression on the mask box only (exact shortcut)', () => {
   /** The whole-image form: OpenCV's opening of the whole raster, every pixel visited (the plain algorithm of glints.ts). */
   async function wholeImage(r: { width: number; height: number; data: Float32Array }, mask: Uint8Array): Promise<{ fraction: number; out: Float32Array; grown: Uint8Array | null }> {
     const { getCv } = await import('../../../src/core/cv.js');
-    const { rasterToMat, quantiles, rectMorph } = await import('../../../src/core/segment/cvutil.js');
+    const { rasterToMat, rectMorph } = await import('../../../src/core/segment/cvutil.js');
+    const { quantiles } = await import('../../../src/core/segment/quantiles.js');
     const cv = getCv();
     const m = rasterToMat(r);
     const k = cv.getStructuringElement(cv.MORPH_RECT, new cv.Size(7, 7));

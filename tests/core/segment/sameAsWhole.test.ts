@@ -6,7 +6,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
-import { morphDisc, quantiles } from '../../../src/core/segment/cvutil.js';
+import { morphDisc } from '../../../src/core/segment/cvutil.js';
+import { quantiles } from '../../../src/core/segment/quantiles.js';
 import { widthStatistics } from '../../../src/core/measure/statistics.js';
 import { createRng } from '../../../src/core/random.js';
 

@@ -4,7 +4,7 @@
  * sum — the same winner, and the same smoothed accumulator, on concentric synthetic cues.
  */
 import { describe, expect, it } from 'vitest';
-import { boxSum5, voteCentre } from '../../../src/core/segment/rings.js';
+import { boxSum5, voteCentre } from '../../../src/core/segment/centreVote.js';
 import type { EdgeCues } from '../../../src/core/segment/polar.js';
 import { select } from '../../../src/core/measure/statistics.js';
 
