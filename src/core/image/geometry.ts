@@ -10,6 +10,14 @@ export interface PointPx {
   y: number;
 }
 
+/** A box of pixels, inclusive bounds (px). */
+export interface PixelBox {
+  x0: number;
+  y0: number;
+  x1: number;
+  y1: number;
+}
+
 /** An axis-aligned box in image pixel coordinates: top-left corner (x, y) and size (w, h), px. */
 export interface BoxPx {
   x: number;

@@ -49,3 +49,17 @@ export function toUint8(r: GrayRaster): Uint8Array {
   }
   return out;
 }
+
+/** A row-major sample array of any of the kinds the rasters and masks use. */
+type Samples = Uint8Array | Float32Array;
+
+/** The w × h rectangle at (x0, y0) of the row-major image `src` (width W), copied into `dst` (w × h); returns dst. */
+export function cropRect<T extends Samples>(src: T, W: number, x0: number, y0: number, w: number, h: number, dst: T): T {
+  for (let y = 0; y < h; y++) dst.set(src.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + w), y * w);
+  return dst;
+}
+
+/** The w × h row-major `src` copied into the image `dst` (width W) at (x0, y0): the inverse of {@link cropRect}. */
+export function pasteRect<T extends Samples>(src: T, w: number, h: number, dst: T, W: number, x0: number, y0: number): void {
+  for (let y = 0; y < h; y++) dst.set(src.subarray(y * w, (y + 1) * w), (y0 + y) * W + x0);
+}

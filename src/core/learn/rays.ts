@@ -1,13 +1,9 @@
 /**
- * Ray helpers of the model branch (learn/segment.ts): bilinear samples of a probability plane, the
- * ½-crossings of a plane along each ray near a line, the polygon of per-ray radii, and the matched step of the core probability (`coreStep`) that guides the boundary.
+ * Ray helpers of the model branch (learn/segment.ts): the ½-crossings of a plane along each ray near a line and the matched step of the core probability (`coreStep`) that guides the boundary.
  */
 import type { PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
 import { samplePlane } from '../segment/refine.js';
-
-/** Bilinear sample of a plane (W × H) at (x, y), clamped to the image (refine.ts's). */
-export const sampleAt = samplePlane;
 
 /**
  * Along rays from `centre`: where `v` crosses ½ nearest the radius of `line` on the ray, within
@@ -28,7 +24,7 @@ export function crossings(v: Float32Array, W: number, H: number, centre: PointPx
     }
     const c = hits[hits.length - 1];
     const d = rayDirection(th);
-    const at = (t: number): number => sampleAt(v, W, H, centre.x + t * d.x, centre.y + t * d.y) - 0.5;
+    const at = (t: number): number => samplePlane(v, W, H, centre.x + t * d.x, centre.y + t * d.y) - 0.5;
     let best: number | null = null;
     let prev = at(Math.max(0, c - search));
     for (let t = Math.max(0, c - search) + step; t <= c + search + 1e-9; t += step) {
@@ -41,16 +37,6 @@ export function crossings(v: Float32Array, W: number, H: number, centre: PointPx
     }
     out.push(best ?? c);
   }
-  return out;
-}
-
-export function polygonOf(radii: (number | null)[], centre: PointPx, nRays: number): PointPx[] {
-  const out: PointPx[] = [];
-  radii.forEach((r, i) => {
-    if (r === null) return;
-    const d = rayDirection((360 * i) / nRays);
-    out.push({ x: centre.x + r * d.x, y: centre.y + r * d.y });
-  });
   return out;
 }
 
@@ -83,7 +69,7 @@ export function coreStep(q: Float32Array, W: number, H: number, centre: PointPx,
     const cum = new Float64Array(n + 1);
     for (let j = 0; j < n; j++) {
       const t = t0 + j * step;
-      cum[j + 1] = cum[j] + sampleAt(q, W, H, centre.x + t * d.x, centre.y + t * d.y);
+      cum[j + 1] = cum[j] + samplePlane(q, W, H, centre.x + t * d.x, centre.y + t * d.y);
     }
     let best = -Infinity;
     let bestT = c;

@@ -33,7 +33,7 @@ import type { Scale } from '../calibrate/index.js';
 import { FractozoneError } from '../errors.js';
 import type { PointPx } from '../image/geometry.js';
 import { createMask, createRaster, type Mask } from '../image/raster.js';
-import { inBoxes, rayDirection } from '../measure/geometry.js';
+import { inBoxes, polygonOfRadii, rayDirection } from '../measure/geometry.js';
 import type { WorkingFrame } from '../pipeline/frame.js';
 import type { Classification } from '../pipeline/stages/classify.js';
 import type { SpecimenLocation } from '../pipeline/stages/locateSpecimen.js';
@@ -42,7 +42,7 @@ import { classifyRimCore } from '../segment/rimCore.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, outerContour } from '../segment/cvutil.js';
 import { fitCircle, fitEllipseToPoints } from '../segment/fit.js';
 import { ellipseOutline, robustEllipse } from './outline.js';
-import { circularMedian, refineBoundary } from '../segment/refine.js';
+import { circularMedian, refineBoundary, samplePlane } from '../segment/refine.js';
 import { refineOuterEdge } from '../segment/outerEdge.js';
 import type { Specimen } from '../segment/specimen.js';
 import type { ResultModel } from '../pipeline/result.js';
@@ -52,7 +52,7 @@ import { ellipseRadii, outlineCues, outlineDisagreement, outlineRadii, outlinesA
 import type { FractureEdge } from '../segment/fractureEdge.js';
 import type { EllipseFit } from '../segment/fit.js';
 import { predictProbabilities, type ClassProbabilities, type LoadedModel } from './predict.js';
-import { coreStep, crossings, polygonOf, sampleAt } from './rays.js';
+import { coreStep, crossings } from './rays.js';
 
 /** Boundary or outer-edge confidence below which a result gets LOW_MODEL_CONFIDENCE (our own choice, no source). */
 export const MIN_MODEL_CONFIDENCE = 0.75;
@@ -86,7 +86,6 @@ export interface ModelSegmentation {
   confidence: ModelConfidence;
   warnings: Warning[];
 }
-
 
 /** The fracture surface: P(outside) < ½, specks removed (opening), the component at `centre`, holes filled. */
 function surfaceMask(p: ClassProbabilities, windowPx: number, centre: PointPx): Mask {
@@ -162,7 +161,7 @@ function sideConfidence(inside: Float32Array, outside: Float32Array, W: number, 
     const d = rayDirection((360 * i) / radii.length);
     const a = r - dIn(i);
     const b = r + dOut(i);
-    s += 0.5 * (sampleAt(inside, W, H, centre.x + a * d.x, centre.y + a * d.y) + sampleAt(outside, W, H, centre.x + b * d.x, centre.y + b * d.y));
+    s += 0.5 * (samplePlane(inside, W, H, centre.x + a * d.x, centre.y + a * d.y) + samplePlane(outside, W, H, centre.x + b * d.x, centre.y + b * d.y));
     n++;
   });
   return n ? s / n : null;
@@ -184,7 +183,7 @@ function firstExits(outside: Float32Array, W: number, H: number, centre: PointPx
       const x = centre.x + t * d.x;
       const y = centre.y + t * d.y;
       if (x < 0 || y < 0 || x > W - 1 || y > H - 1) break;
-      if (sampleAt(outside, W, H, x, y) >= 0.5) {
+      if (samplePlane(outside, W, H, x, y) >= 0.5) {
         if (start < 0) start = t;
         if (t - start >= run) {
           exit = start;
@@ -272,7 +271,7 @@ function locate(frame: WorkingFrame, scale: Scale, p: ClassProbabilities, w: num
     specimen,
     centerWork,
     center: frame.toFull(centerWork),
-    outer: outerEdgeOnImage(frame, polygonOf(outerWork, centerWork, nRays), centerWork, nRays),
+    outer: outerEdgeOnImage(frame, polygonOfRadii(outerWork, centerWork, nRays), centerWork, nRays),
     radiusPx,
     radiusUm: radiusPx * scale.umPerPx,
     warnings,
@@ -292,7 +291,7 @@ function outerEdgeOnImage(frame: WorkingFrame, guideWork: PointPx[], centerWork:
   for (let pass = 0; pass < 2; pass++) {
     const r = refineOuterEdge(frame.full, guide, c, { nRays });
     if (pass === 1) return r.polygon;
-    guide = polygonOf(circularMedian(r.radiiPx, 5), c, nRays);
+    guide = polygonOfRadii(circularMedian(r.radiiPx, 5), c, nRays);
   }
   return guide;
 }
@@ -329,7 +328,7 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
     const boundary: RimBoundary = { source: 'auto', polygon: null, detected: false, reason: rimCore.reason ?? 'no smooth rim band was found', separability: rimCore.separability };
     return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: null, outerEdge: edgeConf }, warnings };
   }
-  const outerPoly = polygonOf(outerWork, centre, nRays);
+  const outerPoly = polygonOfRadii(outerWork, centre, nRays);
   // the model places the step (the matched step of q nearest the classified core outline), the
   // image refines it (the texture step of refineBoundary within a window of it); see the module comment
   // — each ray's own step (poolWindows 0): the guide is already the model's step, median-filtered over
@@ -338,7 +337,7 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   // +1.04 / +0.73 / +1.26 / −0.95 / +2.35 % not; tint-blue and both flank series closer too; the
   // independent noisier scan sem_noise +2.85 → +3.18 %: pooling helps under heavy noise)
   const guide = circularMedian(coreStep(q, p.width, p.height, centre, rimCore.boundary, outerWork, nRays, w, 1.5 * w), 5);
-  const bRadii = refineBoundary(frame.work, outerPoly, polygonOf(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1, poolWindows: 0 }).radiiPx;
+  const bRadii = refineBoundary(frame.work, outerPoly, polygonOfRadii(guide, centre, nRays), centre, { windowPx: w, nRays, searchWindows: 1, poolWindows: 0 }).radiiPx;
   // a boundary crossing beyond the outer edge is no boundary there
   const b = bRadii.map((r, i) => (r !== null && outerWork[i] !== null && r >= (outerWork[i] as number) ? null : r));
   const halfBand = (i: number): number => Math.max(0.5, Math.min(w / 2, ((outerWork[i] ?? 0) - (b[i] ?? 0)) / 2));
@@ -348,7 +347,7 @@ export function segmentWithModel(input: ModelSegmentInput): ModelSegmentation {
   } else if (edgeConf < MIN_MODEL_CONFIDENCE) {
     warnings.push(warn('LOW_MODEL_CONFIDENCE', `the model is unsure along the outer edge it gives: mean class probability ${edgeConf.toFixed(2)} < ${MIN_MODEL_CONFIDENCE}`));
   }
-  const boundary: RimBoundary = { source: 'auto', polygon: polygonOf(b, centre, nRays).map((pt) => frame.toFull(pt)), detected: true, separability: rimCore.separability };
+  const boundary: RimBoundary = { source: 'auto', polygon: polygonOfRadii(b, centre, nRays).map((pt) => frame.toFull(pt)), detected: true, separability: rimCore.separability };
   return { location, classification, boundary, probabilities: p, windowPxWork: w, windowUm: ws[Math.floor(ws.length / 2)], confidence: { boundary: boundaryConf, outerEdge: edgeConf }, warnings };
 }
 

@@ -15,6 +15,20 @@ export function rayDirection(thetaDeg: number): PointPx {
   return { x: Math.cos(t), y: -Math.sin(t) };
 }
 
+/**
+ * The polygon of per-ray radii (ray i at 360·i/nRays degrees from `centre`, rayDirection's
+ * convention); rays without a radius are left out.
+ */
+export function polygonOfRadii(radii: readonly (number | null)[], centre: PointPx, nRays: number): PointPx[] {
+  const out: PointPx[] = [];
+  radii.forEach((r, i) => {
+    if (r === null) return;
+    const d = rayDirection((360 * i) / nRays);
+    out.push({ x: centre.x + r * d.x, y: centre.y + r * d.y });
+  });
+  return out;
+}
+
 /** Angle of point p seen from centre c, degrees in [0, 360), project convention. */
 export function angleOf(c: PointPx, p: PointPx): number {
   const a = (Math.atan2(-(p.y - c.y), p.x - c.x) * 180) / Math.PI;

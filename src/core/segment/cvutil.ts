@@ -1,7 +1,7 @@
 /** Small OpenCV helpers shared by the segmentation stages (every Mat is freed by the caller or here). */
 import { getCv, type Mat } from '../cv.js';
-import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import type { PointPx } from '../image/geometry.js';
+import { createMask, cropRect, pasteRect, type GrayRaster, type Mask } from '../image/raster.js';
+import type { PixelBox, PointPx } from '../image/geometry.js';
 
 /** Copy a GrayRaster into a new CV_32F Mat (caller deletes). */
 export function rasterToMat(r: GrayRaster): Mat {
@@ -156,7 +156,7 @@ function within(d: Float32Array, out: Uint8Array, W: number, x0: number, y0: num
 }
 
 /** Inclusive bounding box of the non-zero pixels, or null. */
-export function setBox(o: Uint8Array, W: number, H: number): { x0: number; y0: number; x1: number; y1: number } | null {
+export function setBox(o: Uint8Array, W: number, H: number): PixelBox | null {
   let y0 = -1;
   let y1 = -1;
   let x0 = W;
@@ -258,10 +258,9 @@ export function fillHoles(mask: Mask): void {
     fillHolesWhole(data, W, H);
     return;
   }
-  const sub = new Uint8Array(w * h);
-  for (let y = 0; y < h; y++) sub.set(data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + w), y * w);
+  const sub = cropRect(data, W, x0, y0, w, h, new Uint8Array(w * h));
   fillHolesWhole(sub, w, h);
-  for (let y = 0; y < h; y++) data.set(sub.subarray(y * w, y * w + w), (y0 + y) * W + x0);
+  pasteRect(sub, w, h, data, W, x0, y0);
 }
 
 /** The scan-line flood fill of {@link fillHoles} on a whole W × H array. */

@@ -147,7 +147,6 @@ function addTexture(small: Mat, m: Mask, _nBorder: number, w: number, h: number)
   }
 }
 
-
 /** 1 where the smoothed intensity lies on the surface's side of `level` (loops of their own: issue 16, see logRoughness in polar.ts). */
 function thresholdInto(sd: Float32Array, level: number, bright: boolean, out: Uint8Array): void {
   for (let i = 0; i < sd.length; i++) out[i] = (sd[i] > level) !== bright ? 1 : 0;

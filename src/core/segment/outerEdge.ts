@@ -4,7 +4,7 @@
  */
 import type { PointPx } from '../image/geometry.js';
 import type { GrayRaster } from '../image/raster.js';
-import { buildRayIndex, castRay, rayDirection } from '../measure/geometry.js';
+import { buildRayIndex, castRay, polygonOfRadii, rayDirection } from '../measure/geometry.js';
 import { medianOf as median } from '../measure/statistics.js';
 import { circularMedian } from './refine.js';
 
@@ -137,14 +137,7 @@ export function refineOuterEdge(
     radii[i] = again !== null && Math.abs(again - m) <= SPIKE_PX ? again : m;
     nSpikes++;
   }
-  const polygon: PointPx[] = [];
-  for (let i = 0; i < nRays; i++) {
-    const t = radii[i];
-    if (t === null) continue;
-    const d = rayDirection((360 * i) / nRays);
-    polygon.push({ x: center.x + t * d.x, y: center.y + t * d.y });
-  }
-  return { polygon, radiiPx: radii, nFallback, nSpikes };
+  return { polygon: polygonOfRadii(radii, center, nRays), radiiPx: radii, nFallback, nSpikes };
 }
 
 /** Rays of the running median a ray's edge is checked against, and the largest distance from it, px. */

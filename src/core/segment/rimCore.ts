@@ -7,7 +7,7 @@ import { FractozoneError } from '../errors.js';
 import { warn, type Warning } from '../warnings.js';
 import { createMask, createRaster, type GrayRaster, type Mask } from '../image/raster.js';
 import { markAboveSectors, sectorPositions, sectorThresholds } from './rimCoreSectors.js';
-import type { PointPx } from '../image/geometry.js';
+import type { PixelBox, PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
 import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, setBox } from './cvutil.js';
 import { quantiles } from './quantiles.js';
@@ -195,7 +195,7 @@ function addScores(z: Float64Array, nF: number, comb: Float32Array): void {
 interface FeatureGeometry {
   spec: Mask;
   /** The specimen mask's bounding box at feature scale (null when empty). */
-  specBox: { x0: number; y0: number; x1: number; y1: number } | null;
+  specBox: PixelBox | null;
   interior: Mask;
   idx: Int32Array;
   sectors: () => { pos: Float32Array; rad: Float32Array };

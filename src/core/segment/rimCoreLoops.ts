@@ -3,6 +3,7 @@
  * function of its own: V8 optimises each one as a whole (inside one long function every loop would
  * first run unoptimised, then be OSR-compiled and deoptimised again at the next unseen statement).
  */
+import type { PixelBox } from '../image/geometry.js';
 import { createMask, type Mask } from '../image/raster.js';
 import { maskToMat, matToMask, morphDisc } from './cvutil.js';
 
@@ -137,7 +138,7 @@ export function andMask(a: Uint8Array, b: Uint8Array): void {
  */
 export function splitClasses(
   spec: Uint8Array, core: Uint8Array, interior: Uint8Array, coreIn: Uint8Array, coreOut: Uint8Array,
-  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array, width: number, box: { x0: number; y0: number; x1: number; y1: number },
+  comb: Float32Array, cvBuf: Float32Array, rvBuf: Float32Array, width: number, box: PixelBox,
 ): [number, number, number, number] {
   let nCv = 0;
   let nRv = 0;

@@ -4,8 +4,8 @@
  */
 import { getCv } from '../cv.js';
 import { FractozoneError } from '../errors.js';
-import { createMask, type GrayRaster, type Mask } from '../image/raster.js';
-import type { BoxPx, PointPx } from '../image/geometry.js';
+import { createMask, cropRect, pasteRect, type GrayRaster, type Mask } from '../image/raster.js';
+import type { BoxPx, PixelBox, PointPx } from '../image/geometry.js';
 import { fillHoles, keepComponent, maskToMat, outerContour, rectMorph, setBox } from './cvutil.js';
 import { gaussian1 } from './smooth.js';
 import { keepLabelled } from './components.js';
@@ -143,8 +143,7 @@ export function outerContourInBox(mask: Mask): PointPx[] {
   const cw = Math.min(W - 1, box.x1 + 1) - x0 + 1;
   const ch = Math.min(H - 1, box.y1 + 1) - y0 + 1;
   if (cw === W && ch === H) return outerContour(mask);
-  const crop = createMask(cw, ch);
-  for (let y = 0; y < ch; y++) crop.data.set(data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  const crop = createMask(cw, ch, cropRect(data, W, x0, y0, cw, ch, new Uint8Array(cw * ch)));
   return outerContour(crop).map((p) => ({ x: p.x + x0, y: p.y + y0 }));
 }
 
@@ -199,10 +198,9 @@ function refineAtFullResolution(r: GrayRaster, coarse: Mask, level: number, brig
  * (a window crossing the grown box's edge also holds the 1-px ring of 0s just outside the set
  * pixels' box, as in `morphDisc`; tests/core/segment/specimenBand.test.ts compares the two).
  */
-export function decideBand(up: Uint8Array, W: number, H: number, box: { x0: number; y0: number; x1: number; y1: number }, band: number, d: Float32Array, level: number, bright: boolean, ou: Uint8Array | null, out: Uint8Array): void {
+export function decideBand(up: Uint8Array, W: number, H: number, box: PixelBox, band: number, d: Float32Array, level: number, bright: boolean, ou: Uint8Array | null, out: Uint8Array): void {
   const { x0, y0, cw, ch } = grownBox(box, band, W, H);
-  const crop = new Uint8Array(cw * ch);
-  for (let y = 0; y < ch; y++) crop.set(up.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  const crop = cropRect(up, W, x0, y0, cw, ch, new Uint8Array(cw * ch));
   const a = rectMorph(crop, cw, ch, band, 'erode');
   const b = rectMorph(crop, cw, ch, band, 'dilate');
   for (let y = 0, k = 0; y < ch; y++) {
@@ -222,7 +220,7 @@ export interface Crop {
 }
 
 /** The part of the image {@link decideBand} works on: the set pixels' box grown by band + 1 px. */
-export function grownBox(box: { x0: number; y0: number; x1: number; y1: number }, band: number, W: number, H: number): Crop {
+export function grownBox(box: PixelBox, band: number, W: number, H: number): Crop {
   const g = band + 1;
   const x0 = Math.max(0, box.x0 - g);
   const y0 = Math.max(0, box.y0 - g);
@@ -254,8 +252,7 @@ function filledKept(m: Mask, target: PointPx): Mask {
 export function filledKeptInBox(m: Mask, c: Crop, target: PointPx): Mask {
   const { width: W, height: H } = m;
   const { x0, y0, cw, ch } = c;
-  const crop = createMask(cw, ch);
-  for (let y = 0; y < ch; y++) crop.data.set(m.data.subarray((y0 + y) * W + x0, (y0 + y) * W + x0 + cw), y * cw);
+  const crop = createMask(cw, ch, cropRect(m.data, W, x0, y0, cw, ch, new Uint8Array(cw * ch)));
   if (!openSides(crop.data, cw, ch, x0 > 0, y0 > 0, x0 + cw < W, y0 + ch < H)) return filledKept(m, target);
   fillHoles(crop);
   const tx = Math.min(W - 1, Math.max(0, Math.round(target.x)));
@@ -264,11 +261,11 @@ export function filledKeptInBox(m: Mask, c: Crop, target: PointPx): Mask {
   const kept = inCrop ? keepComponent(crop, { x: tx - x0, y: ty - y0 }, 0.25) : null;
   const out = createMask(W, H);
   if (kept && kept.data[(ty - y0) * cw + (tx - x0)]) {
-    for (let y = 0; y < ch; y++) out.data.set(kept.data.subarray(y * cw, (y + 1) * cw), (y0 + y) * W + x0);
+    pasteRect(kept.data, cw, ch, out.data, W, x0, y0);
     return out;
   }
   // the filled crop back in the whole mask, and the component chosen there
-  for (let y = 0; y < ch; y++) out.data.set(crop.data.subarray(y * cw, (y + 1) * cw), (y0 + y) * W + x0);
+  pasteRect(crop.data, cw, ch, out.data, W, x0, y0);
   return keepComponent(out, target, 0.25) ?? out;
 }
 

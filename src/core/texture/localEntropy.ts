@@ -2,11 +2,14 @@
  * Local Shannon entropy of gray levels (roughness as disorder of the local histogram).
  */
 import { FractozoneError } from '../errors.js';
-import { createRaster, type GrayRaster } from '../image/raster.js';
+import type { PixelBox } from '../image/geometry.js';
+import { createRaster, cropRect, type GrayRaster } from '../image/raster.js';
 import { entropyKernel } from './kernels/entropyKernel.js';
 import type { FeatureDefinition } from './types.js';
 import { DEFAULT_WINDOW_RULE } from './window.js';
 import { checkRaster, checkWindow, nonFinite } from './validate.js';
+
+export type { PixelBox };
 
 /** Options of {@link localEntropy}. */
 export interface LocalEntropyOptions {
@@ -83,14 +86,6 @@ export function localEntropy(
   return createRaster(width, height, out);
 }
 
-/** A box of pixels, inclusive bounds (px). */
-export interface PixelBox {
-  x0: number;
-  y0: number;
-  x1: number;
-  y1: number;
-}
-
 /**
  * {@link localEntropy} of a raster (bins over its own percentile range, as without `range`) only
  * inside `box`; 0 elsewhere. The same values inside the box as on the whole raster: the kernel
@@ -117,8 +112,7 @@ export function localEntropyInBox(input: GrayRaster, windowPx: number, box: Pixe
   const [cy0, cy1] = cropSpan(by0 - r, by1 + r, H, 2 * r + 1);
   const w = cx1 - cx0 + 1;
   const h = cy1 - cy0 + 1;
-  const cb = new Uint8Array(w * h);
-  for (let y = 0; y < h; y++) cb.set(bins.subarray((cy0 + y) * W + cx0, (cy0 + y) * W + cx0 + w), y * w);
+  const cb = cropRect(bins, W, cx0, cy0, w, h, new Uint8Array(w * h));
   const co = new Float32Array(w * h);
   entropyKernel(cb, w, h, r, nBins, co);
   for (let y = by0; y <= by1; y++) out.set(co.subarray((y - cy0) * w + bx0 - cx0, (y - cy0) * w + bx1 - cx0 + 1), y * W + bx0);
