@@ -26,7 +26,7 @@ function bandLines(s: ResultSummary): string[] {
   const b = s.band;
   if (!b.detected) return [`  band           not detected: ${b.reason}`];
   const lines = [
-    `  band width     mean ${f1(b.mean)} µm, 95 % CI ${f1(b.ci95.lo)}–${f1(b.ci95.hi)} µm (n = ${b.n} rays, n_eff = ${b.nEff.toFixed(1)})`,
+    `  band width     mean ${f1(b.mean)} µm, 95 % circumferential interval ${f1(b.ci95.lo)}–${f1(b.ci95.hi)} µm (n = ${b.n} rays, n_eff = ${b.nEff.toFixed(1)})`,
     `                 median ${f1(b.median)} µm (95 % CI ${f1(b.medianCi95.lo)}–${f1(b.medianCi95.hi)} µm), sd ${f1(b.sd)} µm`,
     `                 min ${f1(b.min)} µm, p05 ${f1(b.p05)} µm, p95 ${f1(b.p95)} µm, max ${f1(b.max)} µm`,
   ];
@@ -36,7 +36,7 @@ function bandLines(s: ResultSummary): string[] {
     const range = u.parameterRange ? `method choices move it ${f1(u.parameterRange.lo)}–${f1(u.parameterRange.hi)} µm` : `no parameter range (${u.rangeNote})`;
     lines.push(
       `  uncertainty    this specimen ${f1(b.mean)} ± ${f1(half)} µm (95 % measurement interval ${f1(u.measurement.lo)}–${f1(u.measurement.hi)} µm); ${range}`,
-      `                 budget (standard uncertainties): ${u.budget}; circumferential 95 % CI ${f1(u.circumferential.lo)}–${f1(u.circumferential.hi)} µm`,
+      `                 budget (standard uncertainties): ${u.budget}`,
     );
   }
   if (b.normalMean) lines.push(`  normal width   mean ${f1(b.normalMean)} µm (along the inward normal of the outer edge)`);

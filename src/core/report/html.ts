@@ -143,7 +143,7 @@ export function buildReportHtml(input: ReportInput): string {
 <div class="muted">fractozone ${esc(input.toolVersion)} · ${entries.length} images: ${counts.ok} ok, ${counts['no-band']} no band, ${counts.error} failed</div>
 <div class="caution"><strong>Caution.</strong> ${escapeText(CAUTION)}</div>
 <h2>Summary</h2>
-<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % CI of mean</th><th>95 % measurement interval</th><th>parameter range</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
+<table id="summary"><thead><tr><th>image</th><th>specimen</th><th>notch</th><th>status</th><th>quality</th><th>pixel size</th><th>mean width</th><th>median width</th><th>SD of width</th><th>95 % circumferential interval</th><th>95 % measurement interval</th><th>parameter range</th><th>specimen radius</th><th>separability (Fisher ratio)</th><th>strain rate</th><th>L</th><th>width / reference</th><th>verdict</th><th>note</th></tr></thead>
 <tbody>${entries.map(summaryRow).join('\n')}</tbody></table>
 <h2>Series: band width against strain rate</h2>
 ${seriesPlotSvg(series)}

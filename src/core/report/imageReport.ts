@@ -155,7 +155,10 @@ function comparisonRows(r: MeasureResult, s: ResultSummary): [string, string][] 
 function headline(s: ResultSummary): string {
   const b = s.band;
   if (!b.detected) return `No smooth rim band was measured: ${esc(b.reason)}.`;
-  const width = `Mean band width <strong>${fig(b.mean)}</strong> (95\u00a0% CI ${ivl(b.ci95)}, n\u00a0=\u00a0${b.n} rays).`;
+  // this specimen's measurement interval first (the verdict uses it), then the circumferential one
+  const u = b.uncertainty;
+  const measured = u && u.measurement.lo !== null ? `95\u00a0% measurement interval ${ivl(u.measurement)}; ` : '';
+  const width = `Mean band width <strong>${fig(b.mean)}</strong> (${measured}95\u00a0% circumferential interval ${ivl(b.ci95)}, n\u00a0=\u00a0${b.n} rays).`;
   const c = s.comparison;
   if (!c) return width;
   return `${width} Width / ${esc(c.reference)} = <strong>${fig(c.ratio)}</strong> (95\u00a0% ${ivl(c.ratioInterval95)}): verdict <strong data-verdict="${esc(c.verdict)}">${esc(c.verdict)}</strong>.`;

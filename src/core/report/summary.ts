@@ -151,7 +151,7 @@ function bandSummary(r: MeasureResult): MeasuredBandSummary | MissingBandSummary
   return {
     detected: true,
     mean: fig('mean width', w.mean, 'µm'),
-    ci95: interval('95 % CI of the mean', w.ci95, 'µm'),
+    ci95: interval('95 % circumferential interval', w.ci95, 'µm'),
     n: w.n,
     nEff: w.nEff,
     median: fig('median width', w.median, 'µm'),

@@ -59,6 +59,20 @@ describe('single-image report', () => {
     expect(html).toContain('rate law for L');
   });
 
+  it('the headline names both intervals of the mean: the measurement interval of this specimen first, then the circumferential one', () => {
+    const { result } = run({});
+    const html = buildImageReportHtml({ result, overlayDataUrl: null });
+    const head = html.slice(html.indexOf('Mean band width'), html.indexOf('rays).') + 6);
+    const u = result.band.uncertainty!;
+    const w = result.band.widthUm!;
+    expect(u.measurementCi95Um[0]).not.toBe(w.ci95[0]);
+    const m = head.indexOf('95\u00a0% measurement interval');
+    const c = head.indexOf('95\u00a0% circumferential interval');
+    expect(m).toBeGreaterThan(0);
+    expect(c).toBeGreaterThan(m);
+    expect(head).not.toMatch(/% CI /);
+  });
+
   it('without a material says there is no comparison', () => {
     const { result } = run({});
     const html = buildImageReportHtml({ result, overlayDataUrl: null });

@@ -18,7 +18,7 @@ describe('summarise', () => {
     expect(s.band.detected).toBe(true);
     if (!s.band.detected) return;
     expect(s.band.mean).toEqual({ label: 'mean width', value: 577.25, unit: 'µm' });
-    expect(s.band.ci95).toEqual({ label: '95 % CI of the mean', lo: 533.1, hi: 621.3, unit: 'µm' });
+    expect(s.band.ci95).toEqual({ label: '95 % circumferential interval', lo: 533.1, hi: 621.3, unit: 'µm' });
     expect(s.criticalDistance?.L).toEqual({ label: 'L', value: 554.5, unit: 'µm' });
     expect(s.comparison?.ratio).toEqual({ label: 'width / L', value: 1.041, unit: '' });
     expect(s.separability?.fisher.unit).toBe('');

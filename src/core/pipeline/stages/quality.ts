@@ -47,7 +47,7 @@ export const QUALITY_RULES: readonly QualityRule[] = [
       const w = b.widthUm;
       if (!b.detected || !w || !(w.mean > 0)) return null;
       const rel = (w.ci95[1] - w.ci95[0]) / w.mean;
-      return rel > 0.3 ? `the 95 % CI of the mean width spans ${pct(rel)} of the mean (${w.ci95[0].toFixed(1)}–${w.ci95[1].toFixed(1)} µm)` : null;
+      return rel > 0.3 ? `the 95 % circumferential interval of the mean width spans ${pct(rel)} of the mean (${w.ci95[0].toFixed(1)}–${w.ci95[1].toFixed(1)} µm)` : null;
     },
   },
   { code: 'MANY_OUTLIER_RAYS', message: ({ band: b }) => (b.detected && b.nOutliers > 0.1 * b.nValid ? `${b.nOutliers} of ${b.nValid} measured rays are outliers` : null) },
