@@ -53,8 +53,9 @@ export const WARNINGS = {
   LOW_SCALE_BAR_CONFIDENCE: { severity: 'check', description: 'the scale comes from a detected scale bar with a confidence below 0.75' },
   FEW_VALID_RAYS: { severity: 'check', description: 'only 25–50 % of the rays gave a width' },
   VERY_FEW_VALID_RAYS: { severity: 'unreliable', description: 'fewer than 25 % of the rays gave a width: the mean describes a small part of the circumference' },
-  WIDE_WIDTH_INTERVAL: { severity: 'check', description: 'the 95 % confidence interval of the mean width is wider than 30 % of the mean' },
+  WIDE_WIDTH_INTERVAL: { severity: 'check', description: 'the 95 % circumferential interval of the mean width is wider than 30 % of the mean' },
   MANY_OUTLIER_RAYS: { severity: 'check', description: 'more than 10 % of the measured rays are outliers' },
+  WIDTH_SPREAD_INFLATED: { severity: 'info', description: 'the rays\' own placement scatter is at least half the SD of width: the SD, p05/p95 and min/max overstate how much the band varies around the circumference (the mean and its intervals allow for the scatter)' },
   // critical distance
   INVENTED_MATERIAL: { severity: 'info', description: 'the material is invented demo data' },
   L_FROM_RATE_LAW: { severity: 'info', description: 'L comes from the material\'s strain-rate law; the static toughness is not used' },

@@ -14,6 +14,7 @@ import { severityOf, warn, WARNING_CODES, WARNINGS } from '../../../src/core/war
 import { makeDiscImage } from '../../helpers/discImages.js';
 import { makeResult } from '../../helpers/result.js';
 import { expectSameResult } from '../../helpers/sameResult.js';
+import type { LocalisationBudget } from '../../../src/core/pipeline/result.js';
 
 function decoded(img: ReturnType<typeof makeDiscImage>): DecodedImage {
   const { raster } = img;
@@ -75,6 +76,23 @@ describe('quality verdict', () => {
     bar.scale.source = 'scale-bar';
     bar.scale.detectedBar = { x0: 1, y0: 1, x1: 100, y1: 1, lengthPx: 100, thicknessPx: 4, orientation: 'horizontal', polarity: 'light', confidence: 0.6, umPerPx: 10 };
     expect(codes(bar)).toEqual(['LOW_SCALE_BAR_CONFIDENCE']);
+    // per-ray placement scatter of the two edges against the SD of width (threshold: half)
+    const spread = (sBoundary: number, sOuter: number): MeasureResult => {
+      const r = makeResult({ meanUm: 100 }); // SD of width 5 µm
+      const term = (s: number): LocalisationBudget => ({ sdUm: 1, randomSdUm: 0.5, systematicSdUm: 0.8, perRaySdUm: s, correlationRays: 3, sharePct: 50 });
+      r.band.uncertainty = {
+        measurementCi95Um: [98, 102],
+        circumferentialCi95Um: [99, 101],
+        parameterRangeUm: null,
+        parameterRangeNote: 'none',
+        variations: [],
+        budget: { boundary: term(sBoundary), outerEdge: term(sOuter), scale: { sdUm: 0.1, relativeSdPct: 0.1, sharePct: 1, detail: 'typed' }, combinedSdUm: 1.4, coverageFactor: 1.96 },
+      };
+      return r;
+    };
+    expect(codes(spread(2.0, 0.5))).toEqual([]); // 2.06 < 2.5
+    expect(codes(spread(2.4, 0.8))).toEqual(['WIDTH_SPREAD_INFLATED']); // 2.53 ≥ 2.5
+    expect(ruleWarnings(spread(4, 0))[0].message).toContain('80 % of the SD of width (5.0 µm)');
     for (const r of QUALITY_RULES) expect(WARNINGS[r.code]).toBeDefined();
   });
 });

@@ -51,6 +51,29 @@ export const QUALITY_RULES: readonly QualityRule[] = [
     },
   },
   { code: 'MANY_OUTLIER_RAYS', message: ({ band: b }) => (b.detected && b.nOutliers > 0.1 * b.nValid ? `${b.nOutliers} of ${b.nValid} measured rays are outliers` : null) },
+  {
+    // The spread of w(θ) is the band's own variation plus each ray's placement error. The per-ray
+    // scatter s of the two edges (residual around a 15-ray running median, measure/uncertainty.ts)
+    // is a lower bound of that error: it misses errors that run over more than ≈ 15 rays. On the
+    // rendered scene set (2026-12-03) the SD of width was 0.99–4.9 × the truth's (median 1.31);
+    // s ≥ ½ SD picked all 6 rows at 2.0–4.9 × (narrow and noisy bands, SEM strip noise, defocus),
+    // 5 of the 10 at 1.39–1.76 × and none of the 23 below 1.39 × (plain 1.22 ×, s/SD 0.23). Missed:
+    // lit notch flanks (1.4–1.7 ×), whose outer-edge error swings over half the circumference.
+    // Independent generator's set (21 single-specimen images with a band): defocus_one_side 2.25 ×
+    // and glints 1.88 × picked, shadow_right 1.17 × (s/SD 0.58) too; narrow_band_noise 1.65 × missed.
+    // s ≥ ½ SD means the SD is overstated by ≥ 15 % if s is all placement error.
+    // Threshold: our own first choice (common practice, no source).
+    code: 'WIDTH_SPREAD_INFLATED',
+    message: ({ band: b }) => {
+      const w = b.widthUm;
+      const g = b.uncertainty?.budget;
+      if (!b.detected || !w || !g || !(w.sd > 0)) return null;
+      const s = Math.hypot(g.boundary.perRaySdUm, g.outerEdge.perRaySdUm);
+      return s >= 0.5 * w.sd
+        ? `the rays' own placement scatter (≈ ${s.toFixed(1)} µm per ray, boundary and outer edge) is ${pct(s / w.sd)} of the SD of width (${w.sd.toFixed(1)} µm): the SD, p05/p95 and min/max overstate how much the band varies around the circumference; the mean and its intervals allow for the scatter`
+        : null;
+    },
+  },
 ];
 
 /** The codes the rules give (re-made on every re-measure). */
