@@ -58,6 +58,13 @@ describe('state of the result', () => {
     expect(wantsRecompute(doc, s2)).toBeNull();
   });
 
+  it('not measured yet: with a scale known only the button is asked for; without one the panel asks for the scale first', async () => {
+    const { doc, series } = await measured();
+    expect(resultStateOf({ ...doc, base: null, result: null }, series)).toEqual({ state: 'none', reason: 'Not measured yet: press “Find boundary”.' });
+    expect(resultStateOf({ ...doc, base: null, result: null, scale: { source: 'none' } }, series)).toEqual({ state: 'none', reason: null });
+    expect(resultStateOf({ ...doc, base: null, result: null, busy: 'analysing' }, series)).toEqual({ state: 'none', reason: 'Measuring…' });
+  });
+
   it('no scale: stale with what to do', async () => {
     const { doc, series } = await measured();
     const rs = resultStateOf({ ...doc, scale: { source: 'none' } }, series);

@@ -72,7 +72,11 @@ export function needsFullRun(doc: Doc, series: Series): string | null {
 
 /** Whether the result shown belongs to the inputs on screen, and if not, why. */
 export function resultStateOf(doc: Doc, series: Series): ResultState {
-  if (!doc.base) return { state: 'none', reason: doc.busy === 'analysing' ? 'Measuring…' : null };
+  if (!doc.base) {
+    if (doc.busy === 'analysing') return { state: 'none', reason: 'Measuring…' };
+    // a scale already known (typed, metadata, a bar with its length) needs no setting first
+    return { state: 'none', reason: scaleOf(doc).ok ? 'Not measured yet: press “Find boundary”.' : null };
+  }
   const scale = scaleOf(doc);
   if (!scale.ok) return { state: 'stale', reason: `Out of date: ${scale.problem}` };
   const full = needsFullRun(doc, series);
