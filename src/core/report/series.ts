@@ -20,14 +20,17 @@ import type { BatchEntry } from './csv.js';
 import { compareWidthWithL, type CompareResult } from '../tcd/compare.js';
 
 /**
- * The group interval: Student t over the per-image means with the between-specimen sd (n ≥ 2), or
- * the one image's measurement interval (its circumferential interval in results without one).
+ * The group interval: Student t over the per-image means with the between-specimen sd (n ≥ 2; its
+ * lower end cut at 0), or the one image's measurement interval (its circumferential interval in
+ * results without one).
  */
 function groupInterval(entries: readonly BatchEntry[], ws: readonly number[], m: number): { ci: [number, number] | null; sd: number | null; ciBasis: SeriesGroup['ciBasis'] } {
   if (ws.length >= 2) {
     const sd = sampleSd([...ws]);
     const h = (studentTInv(0.975, ws.length - 1) * sd) / Math.sqrt(ws.length);
-    return { ci: [m - h, m + h], sd, ciBasis: 'series' };
+    // a band width is not negative: with 2–3 images (t = 12.7 / 4.3) the t interval can reach below
+    // 0, and the interval cut at 0 covers the true mean at least as often as the uncut one
+    return { ci: [Math.max(0, m - h), m + h], sd, ciBasis: 'series' };
   }
   const band = entries[0].result?.band;
   const mc = band?.uncertainty?.measurementCi95Um;

@@ -48,6 +48,15 @@ describe('analyseSeries', () => {
     ]);
   });
 
+  it('cuts the series interval at 0: a band width is not negative (two images far apart: t = 12.7)', () => {
+    const s = analyseSeries([e('a', 'U', 1, 20), e('b', 'U', 1, 60)]);
+    const g = s.notches[0].groups[0];
+    const half = (12.7062047 * Math.sqrt(800)) / Math.sqrt(2); // sd of {20, 60} = 28.28
+    expect(40 - half).toBeLessThan(0);
+    expect(g.ci95Um![0]).toBe(0);
+    expect(g.ci95Um![1]).toBeCloseTo(40 + half, 4);
+  });
+
   it('leaves out failed, no-band and rate-less images, saying why; a missing notch gets its own group', () => {
     const failed: BatchEntry = { ...e('f', 'U', 1, 1), status: 'error', result: null };
     const nob: BatchEntry = { ...e('n', 'U', 1, 1), status: 'no-band' };
