@@ -64,7 +64,7 @@ export function addMeasureOptions(cmd: Command): Command {
     .option('--exclude <from-to>', 'exclude an angular sector in degrees, e.g. 80-110 (repeatable; 350-10 wraps)', collect, [])
     .option('--drop-outliers', 'leave MAD-flagged rays out of the statistics (they stay flagged in the profile)')
     .option('--outlier-k <k>', 'outlier threshold k in |w − median| > k·1.4826·MAD', '3.5')
-    .option('--bootstrap <n>', 'bootstrap resamples for the CI of the median', '2000')
+    .option('--bootstrap <n>', 'bootstrap resamples for the interval of the median (blocks of correlated rays)', '2000')
     .option('--seed <n>', 'random seed (bootstrap, Monte Carlo)', '1')
     .option('--boundary <file.json>', 'boundary polygon (JSON [{x,y},…] in px) to measure instead of the automatic one')
     .option('--max-pixels <n>', 'refuse images larger than this many pixels', '100000000')

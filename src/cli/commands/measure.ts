@@ -27,7 +27,7 @@ function bandLines(s: ResultSummary): string[] {
   if (!b.detected) return [`  band           not detected: ${b.reason}`];
   const lines = [
     `  band width     mean ${f1(b.mean)} µm, 95 % circumferential interval ${f1(b.ci95.lo)}–${f1(b.ci95.hi)} µm (n = ${b.n} rays, n_eff = ${b.nEff.toFixed(1)})`,
-    `                 median ${f1(b.median)} µm (95 % CI ${f1(b.medianCi95.lo)}–${f1(b.medianCi95.hi)} µm), sd ${f1(b.sd)} µm`,
+    `                 median ${f1(b.median)} µm (95 % circumferential interval ${f1(b.medianCi95.lo)}–${f1(b.medianCi95.hi)} µm), sd ${f1(b.sd)} µm`,
     `                 min ${f1(b.min)} µm, p05 ${f1(b.p05)} µm, p95 ${f1(b.p95)} µm, max ${f1(b.max)} µm`,
   ];
   const u = b.uncertainty;

@@ -41,7 +41,7 @@ export interface WidthStatistics {
   tQuantile: number;
   /** Naive 95 % CI of the mean using n (for comparison only; too narrow for correlated rays). */
   ci95MeanNaive: [number, number];
-  /** Seeded percentile-bootstrap 95 % CI of the median (null when bootstrap = 0 or n < 2). */
+  /** Seeded percentile-bootstrap 95 % interval of the median, blocks of round(τ) rays (null when bootstrap = 0 or n < 2). */
   ci95Median: [number, number] | null;
 }
 
@@ -193,12 +193,45 @@ function bootstrapMedian(sorted: Float64Array, count: Int32Array, lo: number, hi
 }
 
 /**
+ * For each value (in its own order) a rank in `sorted` holding the same number: tied values get
+ * distinct ranks of the tie, so the counts of a resample sum to its size.
+ */
+function ranksOf(values: readonly number[], sorted: Float64Array): Int32Array {
+  const n = values.length;
+  const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => values[a] - values[b] || a - b);
+  const rank = new Int32Array(n);
+  for (let r = 0; r < n; r++) rank[order[r]] = r;
+  return rank;
+}
+
+/**
+ * One circular block-bootstrap resample of n values as counts per rank: blocks of `block`
+ * consecutive values (angular order, wrapping round) from uniform random starts until n values
+ * are drawn, the last block cut short (Politis & Romano, "A circular block-resampling procedure
+ * for stationary data", in Exploring the Limits of Bootstrap, Wiley 1992; Künsch, Ann. Statist.
+ * 17 (1989) 1217).
+ */
+function blockResampleCounts(rank: Int32Array, block: number, rnd: () => number, count: Int32Array): void {
+  const n = rank.length;
+  let drawn = 0;
+  while (drawn < n) {
+    const start = Math.floor(rnd() * n);
+    const len = Math.min(block, n - drawn);
+    for (let k = 0; k < len; k++) count[rank[(start + k) % n]]++;
+    drawn += len;
+  }
+}
+
+/**
  * Statistics of a width profile: n, mean, median, sample sd, min, max, p05/p95
  * (simple-statistics), a 95 % CI of the mean with Student t on the effective sample size
  * (see {@link effectiveSampleSizeOf}) and a seeded percentile-bootstrap 95 % CI of the median
- * (Efron & Tibshirani, An Introduction to the Bootstrap, 1993, §13.3). The bootstrap resamples
- * values independently, so for strongly correlated profiles it is also optimistic; it is
- * reported as a descriptive interval.
+ * (Efron & Tibshirani, An Introduction to the Bootstrap, 1993, §13.3). Neighbouring rays are
+ * correlated, so the bootstrap draws blocks of round(τ) consecutive rays (τ the integrated
+ * autocorrelation time behind the effective sample size; circular block bootstrap, see
+ * {@link blockResampleCounts}); with τ < 1.5 it draws single values. Before 2026-12-03 it drew
+ * single values always, which made the median's interval 5–8 times narrower than the mean's on
+ * the rendered scenes (plain: 386.0–391.1 against 372.6–420.4 µm); with blocks it is 378.8–416.8 µm.
  *
  * @param values - widths in angular order (µm); NaN entries are ignored (gaps)
  * @param opts - seed, bootstrap count, circularity
@@ -243,10 +276,20 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
     const count = new Int32Array(n);
     const lo = (n - 1) >> 1;
     const hi = n >> 1;
-    for (let b = 0; b < B; b++) {
-      count.fill(0);
-      for (let i = 0; i < n; i++) count[Math.floor(rnd() * n)]++;
-      meds[b] = bootstrapMedian(sorted, count, lo, hi);
+    const block = Math.max(1, Math.min(n, Math.round(tau)));
+    if (block === 1) {
+      for (let b = 0; b < B; b++) {
+        count.fill(0);
+        for (let i = 0; i < n; i++) count[Math.floor(rnd() * n)]++;
+        meds[b] = bootstrapMedian(sorted, count, lo, hi);
+      }
+    } else {
+      const rank = ranksOf(fin, sorted);
+      for (let b = 0; b < B; b++) {
+        count.fill(0);
+        blockResampleCounts(rank, block, rnd, count);
+        meds[b] = bootstrapMedian(sorted, count, lo, hi);
+      }
     }
     meds.sort();
     const m = Array.from(meds);

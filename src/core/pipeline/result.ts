@@ -159,7 +159,7 @@ export interface ResultSpecimen {
 export interface WidthSummary extends Pick<WidthStatistics, 'n' | 'nEff' | 'mean' | 'median' | 'sd' | 'min' | 'max' | 'p05' | 'p95'> {
   /** 95 % confidence interval of the mean (`ci95Mean`). */
   ci95: [number, number];
-  /** 95 % bootstrap interval of the median (`ci95Median`; [NaN, NaN] → `[null, null]` in JSON without a bootstrap). */
+  /** 95 % interval of the median, circular block bootstrap over the rays (`ci95Median`; [NaN, NaN] → `[null, null]` in JSON without a bootstrap). */
   medianCi95: [number, number];
 }
 

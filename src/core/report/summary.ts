@@ -155,7 +155,7 @@ function bandSummary(r: MeasureResult): MeasuredBandSummary | MissingBandSummary
     n: w.n,
     nEff: w.nEff,
     median: fig('median width', w.median, 'µm'),
-    medianCi95: interval('95 % CI of the median', w.medianCi95, 'µm'),
+    medianCi95: interval('95 % circumferential interval of the median', w.medianCi95, 'µm'),
     sd: fig('SD of width', w.sd, 'µm'),
     min: fig('min', w.min, 'µm'),
     p05: fig('p05', w.p05, 'µm'),

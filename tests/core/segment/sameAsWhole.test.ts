@@ -121,4 +121,40 @@ describe('bootstrap median by counting ranks', () => {
       expect(got).toEqual([qs(0.025), qs(0.975)]);
     }
   });
+
+  it('correlated profiles: blocks of round(τ) consecutive rays, the same interval as resampling the values block by block', () => {
+    const rnd = lcg(11);
+    for (const n of [90, 360, 361]) {
+      // a smooth profile (two lobes) plus a little noise: neighbouring rays strongly correlated
+      const values = Array.from({ length: n }, (_, i) => 400 + 20 * Math.sin((4 * Math.PI * i) / n) + 2 * rnd());
+      const B = 300;
+      const st = widthStatistics(values, { seed: 4, bootstrap: B });
+      const block = Math.round(st.tau);
+      expect(block).toBeGreaterThan(1);
+      // reference: draw whole blocks of the values (circular), sort each resample, take its median
+      const rng = createRng(4);
+      const meds = new Float64Array(B);
+      for (let b = 0; b < B; b++) {
+        const x: number[] = [];
+        while (x.length < n) {
+          const start = Math.floor(rng.nextFloat() * n);
+          for (let k = 0; k < block && x.length < n; k++) x.push(values[(start + k) % n]);
+        }
+        x.sort((a, c) => a - c);
+        meds[b] = n % 2 ? x[(n - 1) / 2] : 0.5 * (x[n / 2 - 1] + x[n / 2]);
+      }
+      meds.sort();
+      const qs = (p: number): number => {
+        const idx = meds.length * p;
+        return idx % 1 !== 0 ? meds[Math.ceil(idx) - 1] : 0.5 * (meds[idx - 1] + meds[idx]);
+      };
+      expect(st.ci95Median).toEqual([qs(0.025), qs(0.975)]);
+      // and the interval is of the size of the mean's (effective sample size), not the 5–10 times
+      // narrower one of independent draws
+      const wMed = st.ci95Median![1] - st.ci95Median![0];
+      const wMean = st.ci95Mean[1] - st.ci95Mean[0];
+      expect(wMed / wMean).toBeGreaterThan(0.3);
+      expect(wMed / wMean).toBeLessThan(2);
+    }
+  });
 });
