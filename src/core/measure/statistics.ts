@@ -231,7 +231,7 @@ function blockResampleCounts(rank: Int32Array, block: number, rnd: () => number,
  * autocorrelation time behind the effective sample size; circular block bootstrap, see
  * {@link blockResampleCounts}); with τ < 1.5 it draws single values. Before 2026-12-03 it drew
  * single values always, which made the median's interval 6–12 times narrower than the mean's on
- * the rendered scenes (plain: 386.0–391.1 against 372.6–420.4 µm); with blocks it is 378.8–416.8 µm.
+ * the rendered scenes (plain: 386.0–391.1 against 372.6–420.4 µm); with blocks it is 378.6–417.0 µm.
  *
  * @param values - widths in angular order (µm); NaN entries are ignored (gaps)
  * @param opts - seed, bootstrap count, circularity
