@@ -58,7 +58,11 @@ function criticalDistanceLines(s: ResultSummary): string[] {
     const f3 = (v: number | null): string => formatValue(v, 3);
     lines.push(`  comparison     w/${c.reference} = ${f3(c.ratio.value)} (95 % ${f3(c.ratioInterval95.lo)}–${f3(c.ratioInterval95.hi)}): ${c.verdict} (±${c.tolerancePct} %)`);
     lines.push(`                 ${c.basisNote}`);
-    if (c.impliedToughness) lines.push(`  implied K      ${formatValue(c.impliedToughness.value, 2)} MPa·√m (from the width taken as ${c.reference})`);
+    if (c.impliedToughness) {
+      const ki = c.impliedToughnessInterval95;
+      const iv = ki && ki.lo !== null && ki.hi !== null ? `, 95 % interval ${formatValue(ki.lo, 2)}–${formatValue(ki.hi, 2)} MPa·√m` : '';
+      lines.push(`  implied K      ${formatValue(c.impliedToughness.value, 2)} MPa·√m${iv} (from the width taken as ${c.reference})`);
+    }
   }
   return lines;
 }

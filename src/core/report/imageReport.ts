@@ -146,7 +146,7 @@ function comparisonRows(r: MeasureResult, s: ResultSummary): [string, string][] 
     [c.ratio.label, `<strong>${fig(c.ratio)}</strong>, ${esc(c.ratioInterval95.label)} ${ivl(c.ratioInterval95)}`],
     ['verdict', `<strong>${esc(c.verdict)}</strong> <span class="muted">(${esc(r.comparison.note)})</span>`],
     ['intervals used', esc(c.basisNote)],
-    ['implied toughness', c.impliedToughness ? fig(c.impliedToughness) : '—'],
+    ['implied toughness', c.impliedToughness ? `${fig(c.impliedToughness)}${c.impliedToughnessInterval95 ? `, 95\u00a0% interval ${ivl(c.impliedToughnessInterval95)}` : ''}` : '—'],
   );
   return out;
 }

@@ -91,6 +91,8 @@ export interface ComparisonSummary {
   verdict: Verdict;
   tolerancePct: number;
   impliedToughness: Figure | null;
+  /** Its 95 % interval (from the width's interval used for the verdict and the sd of σ_0), or null when neither has a spread. */
+  impliedToughnessInterval95: IntervalFigure | null;
   /** Which intervals the ratio interval and the verdict used (one sentence). */
   basisNote: string;
 }
@@ -205,6 +207,9 @@ export function summarise(r: MeasureResult): ResultSummary {
           verdict: c.verdict,
           tolerancePct: c.tolerancePct,
           impliedToughness: c.impliedToughness_MPa_sqrtm ? fig('implied K', c.impliedToughness_MPa_sqrtm.K_MPa_sqrtm, 'MPa·√m') : null,
+          impliedToughnessInterval95: c.impliedToughness_MPa_sqrtm?.interval95_MPa_sqrtm
+            ? interval('95 % interval of the implied K', c.impliedToughness_MPa_sqrtm.interval95_MPa_sqrtm, 'MPa·√m')
+            : null,
           basisNote: c.basis?.note ?? 'Width/L interval from the circumferential interval (a result written before the measurement interval).',
         }
       : null,

@@ -39,6 +39,8 @@ describe('single-image report', () => {
     expect(html).toContain('L = (1/π)(K_c/σ₀)²');
     const iv = result.criticalDistance!.interval95_um!;
     expect(html).toMatch(new RegExp(`95 % interval of L</th><td class="n">${Number(iv[0].toPrecision(4))}–${Number(iv[1].toPrecision(4))}\u00a0µm`));
+    const ki = result.comparison!.impliedToughness_MPa_sqrtm!.interval95_MPa_sqrtm!;
+    expect(html).toContain(`95\u00a0% interval ${Number(ki[0].toPrecision(4))}–${Number(ki[1].toPrecision(4))}\u00a0MPa·√m`);
     for (const w of result.warnings) expect(html).toContain(w.message.replace(/"/g, '&quot;'));
     expect(html).toContain(`data-quality="${result.quality.verdict}"`);
     expect(html).toContain('invented demo data');

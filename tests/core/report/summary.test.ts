@@ -24,6 +24,15 @@ describe('summarise', () => {
     expect(s.separability?.fisher.unit).toBe('');
   });
 
+  it('the implied toughness comes with its 95 % interval when the result has one (the app, the CLI text and the report show it)', () => {
+    const r = makeResult({ meanUm: 577.25, L_um: 554.5, ratio: 1.041 });
+    expect(summarise(r).comparison?.impliedToughnessInterval95).toBeNull();
+    r.comparison!.impliedToughness_MPa_sqrtm = { K_MPa_sqrtm: 48.95, interval95_MPa_sqrtm: [45.32, 52.88], L_um: 577.25 };
+    const c = summarise(r).comparison!;
+    expect(c.impliedToughness).toEqual({ label: 'implied K', value: 48.95, unit: 'MPa·√m' });
+    expect(c.impliedToughnessInterval95).toEqual({ label: '95 % interval of the implied K', lo: 45.32, hi: 52.88, unit: 'MPa·√m' });
+  });
+
   it('a missing band gives its reason and no width figures; non-finite numbers become "not available"', () => {
     const r = makeResult({ meanUm: null });
     r.band.reason = 'no smooth rim: the rough core fills the section';

@@ -49,7 +49,15 @@ export function ComparisonTable({ r, stale }: { r: MeasureResult; stale: boolean
             </tr>
             <tr>
               <th>toughness implied by the width</th>
-              <td>{imp ? `${num(imp.K_MPa_sqrtm)} MPa·√m` : '—'}</td>
+              <td>
+                {imp ? `${num(imp.K_MPa_sqrtm)} MPa·√m` : '—'}
+                {imp?.interval95_MPa_sqrtm && (
+                  <span className="muted">
+                    {' '}
+                    (95 %: {num(imp.interval95_MPa_sqrtm[0])} – {num(imp.interval95_MPa_sqrtm[1])})
+                  </span>
+                )}
+              </td>
             </tr>
           </>
         ) : (
