@@ -193,10 +193,10 @@ function bootstrapMedian(sorted: Float64Array, count: Int32Array, lo: number, hi
 }
 
 /**
- * For each value (in its own order) a rank in `sorted` holding the same number: tied values get
- * distinct ranks of the tie, so the counts of a resample sum to its size.
+ * For each value (in its own order) its rank among the values sorted ascending, i.e. the index in
+ * the sorted copy that holds the same number; tied values get distinct ranks of their tie.
  */
-function ranksOf(values: readonly number[], sorted: Float64Array): Int32Array {
+function ranksOf(values: readonly number[]): Int32Array {
   const n = values.length;
   const order = Array.from({ length: n }, (_, i) => i).sort((a, b) => values[a] - values[b] || a - b);
   const rank = new Int32Array(n);
@@ -284,7 +284,7 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
         meds[b] = bootstrapMedian(sorted, count, lo, hi);
       }
     } else {
-      const rank = ranksOf(fin, sorted);
+      const rank = ranksOf(fin);
       for (let b = 0; b < B; b++) {
         count.fill(0);
         blockResampleCounts(rank, block, rnd, count);
