@@ -77,7 +77,8 @@ function summaryRow(e: BatchEntry): string {
     `<td class="n">${cell(s?.separability?.fisher)}</td>`,
     `<td class="n">${n(e.strainRatePerS, '1/s')}</td>`,
     `<td class="n">${cell(s?.criticalDistance?.L)}</td>`,
-    `<td class="n">${cell(s?.comparison?.ratio)}</td>`,
+    // the ratio with the 95 % interval its verdict was read from
+    `<td class="n">${cell(s?.comparison?.ratio)}${s?.comparison && s.comparison.ratioInterval95.lo !== null && s.comparison.ratioInterval95.hi !== null ? ` <span class="muted">(${fmt(s.comparison.ratioInterval95.lo, 4)}–${fmt(s.comparison.ratioInterval95.hi, 4)})</span>` : ''}</td>`,
     `<td>${esc(s?.comparison?.verdict ?? '')}</td>`,
     `<td>${esc(note)}</td>`,
   ];

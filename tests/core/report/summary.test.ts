@@ -96,7 +96,7 @@ describe('views built on the summary', () => {
     expect(row).toContain('533.1–621.3\u00a0µm');
     expect(row).toContain('4.5\u00a0µm/px');
     expect(row).toContain('554.5\u00a0µm');
-    expect(row).toContain('1.041');
+    expect(row).toContain('1.041 <span class="muted">(0.9889–1.093)</span>'); // with the interval its verdict used
     expect(row).toContain('<td class="quality-ok">ok</td>');
   });
 
