@@ -277,19 +277,13 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
     const lo = (n - 1) >> 1;
     const hi = n >> 1;
     const block = Math.max(1, Math.min(n, Math.round(tau)));
-    if (block === 1) {
-      for (let b = 0; b < B; b++) {
-        count.fill(0);
-        for (let i = 0; i < n; i++) count[Math.floor(rnd() * n)]++;
-        meds[b] = bootstrapMedian(sorted, count, lo, hi);
-      }
-    } else {
-      const rank = ranksOf(fin);
-      for (let b = 0; b < B; b++) {
-        count.fill(0);
-        blockResampleCounts(rank, block, rnd, count);
-        meds[b] = bootstrapMedian(sorted, count, lo, hi);
-      }
+    const rank = block > 1 ? ranksOf(fin) : null;
+    for (let b = 0; b < B; b++) {
+      count.fill(0);
+      // single rays are drawn as ranks directly (the numbers of the single-ray bootstrap before blocks)
+      if (rank) blockResampleCounts(rank, block, rnd, count);
+      else for (let i = 0; i < n; i++) count[Math.floor(rnd() * n)]++;
+      meds[b] = bootstrapMedian(sorted, count, lo, hi);
     }
     meds.sort();
     const m = Array.from(meds);

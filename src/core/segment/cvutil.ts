@@ -315,68 +315,6 @@ function fillUnseen(data: Uint8Array, seen: Uint8Array): void {
   for (let i = 0; i < data.length; i++) if (!data[i] && !seen[i]) data[i] = 1;
 }
 
-/**
- * Keep one connected component (8-connectivity): among components of at least `minFraction` of
- * the largest one, the one whose centroid is nearest `target` (or containing it). Returns the
- * kept mask, or null when the mask is empty.
- */
-export function keepComponent(mask: Mask, target: PointPx, minFraction = 0.25): Mask | null {
-  const cv = getCv();
-  const m = maskToMat(mask);
-  const labels = new cv.Mat();
-  const stats = new cv.Mat();
-  const cents = new cv.Mat();
-  try {
-    const n = cv.connectedComponentsWithStats(m, labels, stats, cents, 8, cv.CV_32S);
-    if (n <= 1) return null;
-    const lab = labels.data32S as Int32Array;
-    const best = chosenComponent(n, (l) => stats.intAt(l, cv.CC_STAT_AREA), (l) => ({ x: cents.doubleAt(l, 0), y: cents.doubleAt(l, 1) }), lab, mask.width, mask.height, target, minFraction);
-    const out = createMask(mask.width, mask.height);
-    labelMask(lab, best, out.data);
-    return out;
-  } finally {
-    m.delete();
-    labels.delete();
-    stats.delete();
-    cents.delete();
-  }
-}
-
-/**
- * The component {@link keepComponent} keeps among labels 1 … n − 1 (`lab` the label image, W × H):
- * the one under the target pixel when its area is at least `minFraction` of the largest, else the
- * one of those whose centroid is nearest the target; −1 when there is none. Shared with
- * components.ts `keepLabelled`, which labels once for several callers.
- */
-export function chosenComponent(n: number, area: (l: number) => number, centroid: (l: number) => PointPx, lab: Int32Array, W: number, H: number, target: PointPx, minFraction: number): number {
-  let maxA = 0;
-  for (let l = 1; l < n; l++) maxA = Math.max(maxA, area(l));
-  const tx = Math.min(W - 1, Math.max(0, Math.round(target.x)));
-  const ty = Math.min(H - 1, Math.max(0, Math.round(target.y)));
-  const atTarget = lab[ty * W + tx];
-  if (atTarget > 0 && area(atTarget) >= minFraction * maxA) return atTarget;
-  let best = -1;
-  let bestD = Infinity;
-  for (let l = 1; l < n; l++) {
-    if (area(l) < minFraction * maxA) continue;
-    const c = centroid(l);
-    const d = Math.hypot(c.x - target.x, c.y - target.y);
-    if (d < bestD) {
-      bestD = d;
-      best = l;
-    }
-  }
-  return best;
-}
-
-/**
- * out[i] = 1 where lab[i] = label, else 0. A loop of its own: inside `keepComponent` V8 reached it
- * only by on-stack replacement (self time ≈ 130 ms in a 12-MP profile, issue 16).
- */
-export function labelMask(lab: Int32Array, label: number, out: Uint8Array): void {
-  for (let i = 0; i < lab.length; i++) out[i] = lab[i] === label ? 1 : 0;
-}
-
 /** Outer contour (largest external contour, every boundary pixel) of a mask, px. */
 export function outerContour(mask: Mask): PointPx[] {
   const cv = getCv();

@@ -9,7 +9,8 @@ import { createMask, createRaster, type GrayRaster, type Mask } from '../image/r
 import { markAboveSectors, sectorPositions, sectorThresholds } from './rimCoreSectors.js';
 import type { PixelBox, PointPx } from '../image/geometry.js';
 import { buildRayIndex, castRay } from '../measure/geometry.js';
-import { fillHoles, keepComponent, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, setBox } from './cvutil.js';
+import { fillHoles, maskToMat, matToMask, morphDisc, otsuThreshold, outerContour, setBox } from './cvutil.js';
+import { keepComponent } from './components.js';
 import { quantiles } from './quantiles.js';
 import type { Specimen } from './specimen.js';
 import { logClampedInto } from './fastLog.js';

@@ -3,8 +3,7 @@
  * listSpecimens and findSpecimen) against cvutil's keepComponent on the same masks.
  */
 import { describe, expect, it } from 'vitest';
-import { keepComponent } from '../../../src/core/segment/cvutil.js';
-import { keepLabelled, labelledComponents } from '../../../src/core/segment/components.js';
+import { keepComponent, keepLabelled, labelledComponents } from '../../../src/core/segment/components.js';
 import { createMask } from '../../../src/core/image/raster.js';
 
 function lcg(seed: number): () => number {

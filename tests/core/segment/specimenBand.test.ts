@@ -5,7 +5,8 @@
  */
 import { describe, expect, it } from 'vitest';
 import { getCv } from '../../../src/core/cv.js';
-import { fillHoles, keepComponent, outerContour, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
+import { fillHoles, outerContour, rectMorph, setBox } from '../../../src/core/segment/cvutil.js';
+import { keepComponent } from '../../../src/core/segment/components.js';
 import { decideBand, filledKeptInBox, grownBox, outerContourInBox } from '../../../src/core/segment/specimen.js';
 import { gaussian1 } from '../../../src/core/segment/smooth.js';
 import { createMask, createRaster } from '../../../src/core/image/raster.js';
