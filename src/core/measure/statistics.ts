@@ -259,10 +259,14 @@ export function widthStatistics(values: readonly number[], opts: WidthStatistics
   if (n > 1) {
     tq = studentTInv(0.975, Math.max(nEff - 1, 1));
     const h = (tq * sd) / Math.sqrt(nEff);
-    ci95Mean = [mean - h, mean + h];
+    // A profile with no negative value (widths: band.ts passes valid rays only, each ≥ minWidthPx)
+    // has a non-negative process mean, so the lower end is cut at 0 — the cut interval covers that
+    // mean at least as often (seen: −41.2–1674.0 µm on a defocused scene under a high light).
+    const floor = sorted[0] >= 0 ? 0 : -Infinity;
+    ci95Mean = [Math.max(floor, mean - h), mean + h];
     const tn = studentTInv(0.975, n - 1);
     const hn = (tn * sd) / Math.sqrt(n);
-    ci95MeanNaive = [mean - hn, mean + hn];
+    ci95MeanNaive = [Math.max(floor, mean - hn), mean + hn];
   }
   const B = opts.bootstrap ?? 2000;
   let ci95Median: [number, number] | null = null;

@@ -41,11 +41,13 @@ export function overlayLabel(s: ResultSummary, result?: MeasureResult): string[]
   const label = [
     s.file,
     `quality: ${s.quality.verdict}${s.quality.reasons.length ? ` (${s.quality.reasons.map((w) => w.code).join(', ')})` : ''}`,
-    // name the interval: the CI of the mean over the circumference is not the measurement interval
-    b.detected ? `band width mean ${f1(b.mean.value)} µm, 95% CI (circumference) ${f1(b.ci95.lo)}-${f1(b.ci95.hi)} µm` : `no smooth rim band: ${b.reason}`,
+    // name each interval as every other view does, the measurement interval (this specimen's
+    // uncertainty, the one the verdict uses) first, then the circumferential one
+    b.detected ? `band width mean ${f1(b.mean.value)} µm` : `no smooth rim band: ${b.reason}`,
     b.detected && b.uncertainty && b.uncertainty.measurement.lo !== null
       ? `95% measurement interval ${f1(b.uncertainty.measurement.lo)}-${f1(b.uncertainty.measurement.hi)} µm`
       : '',
+    b.detected ? `95% circumferential interval ${f1(b.ci95.lo)}-${f1(b.ci95.hi)} µm` : '',
     b.detected ? `median ${f1(b.median.value)} µm, sd ${f1(b.sd.value)} µm, n = ${b.n} rays` : '',
     `pixel ${(s.scale.umPerPx.value ?? NaN).toPrecision(4)} µm (${s.scale.source})`,
   ];

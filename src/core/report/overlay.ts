@@ -13,7 +13,7 @@
 import type { GrayRaster } from '../image/raster.js';
 import type { RgbaImage, Ink, PointPx } from '../draw/index.js';
 import type { MeasureResult, RayResult } from '../pipeline/result.js';
-import { createRgbaImage, drawLine, drawPolyline, drawText, fillRect, measureText, fillDisc } from '../draw/index.js';
+import { createRgbaImage, drawLine, drawPolyline, drawText, fillRect, measureText, fillDisc, GLYPH_ADVANCE } from '../draw/index.js';
 
 export interface OverlayRay {
   angleDeg: number;
@@ -189,6 +189,33 @@ function blockRow(src: Float32Array, W: number, y0: number, ny: number, xa: Int3
   }
 }
 
+/**
+ * The caption's lines wrapped to at most `maxChars` characters (the font is fixed-width): a long
+ * line breaks after its last ", " or space that fits, continuation lines indented by two spaces; a
+ * word longer than the line is cut. Before 2026-12-03 long lines ran off the right edge, so the
+ * quality line lost the last warning codes (seen on scenes under a high light with five codes).
+ */
+export function wrapCaption(lines: readonly string[], maxChars: number): string[] {
+  const max = Math.max(8, maxChars);
+  const out: string[] = [];
+  for (const line of lines) {
+    let rest = Array.from(line); // characters, not UTF-16 units
+    let indent = '';
+    while (indent.length + rest.length > max) {
+      const room = max - indent.length;
+      const head = rest.slice(0, room + 1).join('');
+      const comma = head.lastIndexOf(', ');
+      const space = head.lastIndexOf(' ');
+      const cut = comma > 0 && comma + 1 <= room ? comma + 1 : space > 0 ? space : room;
+      out.push(indent + rest.slice(0, cut).join('').trimEnd());
+      rest = Array.from(rest.slice(cut).join('').trimStart());
+      indent = '  ';
+    }
+    out.push(indent + rest.join(''));
+  }
+  return out;
+}
+
 /** Draws the overlay; see the module comment for what is drawn. */
 export function renderOverlay(o: OverlayInput): RgbaImage {
   const maxSide = o.maxSidePx ?? 1600;
@@ -197,8 +224,9 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
   const H = Math.max(1, Math.round(o.raster.height * k));
   const ts = Math.max(1, Math.round(Math.min(W, H) / 400));
   const lineH = 9 * ts;
-  // caption band above the image, as tall as the label
-  const top = o.label.length ? o.label.length * lineH + 6 * ts : 0;
+  // caption band above the image, as tall as the label wrapped to the image's width
+  const label = wrapCaption(o.label, Math.floor((W - 8 * ts) / (GLYPH_ADVANCE * ts)));
+  const top = label.length ? label.length * lineH + 6 * ts : 0;
   const img = grayToRgba(o.raster, W, H, top);
   // Map full-resolution pixel centres to overlay pixel centres (below the caption band).
   const m = (p: PointPx): PointPx => ({ x: (p.x + 0.5) * k - 0.5, y: (p.y + 0.5) * k - 0.5 + top });
@@ -215,7 +243,7 @@ export function renderOverlay(o: OverlayInput): RgbaImage {
   }
 
   // Label in the caption band (black already).
-  o.label.forEach((s, i) => drawText(img, s, 4 * ts, 3 * ts + i * lineH, ts, { rgb: [255, 255, 255] }));
+  label.forEach((s, i) => drawText(img, s, 4 * ts, 3 * ts + i * lineH, ts, { rgb: [255, 255, 255] }));
 
   // Our own scale bar, bottom-left on a dark plate: a round length near 1/5 of the width.
   const umPerOverlayPx = o.umPerPx / k;

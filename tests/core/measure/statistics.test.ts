@@ -37,6 +37,19 @@ describe('widthStatistics', () => {
     expect(s.ci95Mean[1] - s.ci95Mean[0]).toBeGreaterThan(3 * (s.ci95MeanNaive[1] - s.ci95MeanNaive[0]));
   });
 
+  it('cuts the lower end of the CI of the mean at 0 for non-negative widths, not for signed values', () => {
+    // a few huge widths among small ones (a core sector taken as rim): mean − t·sd/√nEff < 0
+    const v = Array.from({ length: 360 }, (_, i) => (i >= 300 && i < 310 ? 20000 : 400));
+    const s = widthStatistics(v, { bootstrap: 0 });
+    const h = (s.tQuantile * s.sd) / Math.sqrt(s.nEff);
+    expect(s.mean - h).toBeLessThan(0); // the uncut interval would reach below 0
+    expect(s.ci95Mean).toEqual([0, s.mean + h]);
+    // signed values (differences) keep the plain interval
+    const d = v.map((x) => x - 1000);
+    const sd = widthStatistics(d, { bootstrap: 0 });
+    expect(sd.ci95Mean[0]).toBeCloseTo(sd.mean - (sd.tQuantile * sd.sd) / Math.sqrt(sd.nEff), 9);
+  });
+
   it('lag-1 autocorrelation: hand value for a short series', () => {
     // x = [1,2,3,4] (non-circular): mean 2.5, dev = [-1.5,-.5,.5,1.5], Σdev² = 5,
     // Σ dev_i·dev_{i+1} = .75 - .25 + .75 = 1.25 over 3 pairs → (1.25/3)·4/5 = 0.3333

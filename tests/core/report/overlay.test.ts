@@ -3,7 +3,7 @@
  * the outline and a scale bar the photograph carries in its corner stay visible.
  */
 import { describe, expect, it } from 'vitest';
-import { renderOverlay } from '../../../src/core/report/overlay.js';
+import { renderOverlay, wrapCaption } from '../../../src/core/report/overlay.js';
 
 /** A 400 × 300 gray ramp (value = x / 399) with an outline near the top edge. */
 function input(label: string[]) {
@@ -48,6 +48,30 @@ describe('overlay caption band', () => {
       if (b > 200 && r < 150 && g > 150) blue++;
     }
     expect(blue).toBeGreaterThan(0);
+  });
+
+  it('wraps a line longer than the image after a comma, so every warning code stays in the picture', () => {
+    const codes = ['OUTLINE_AMBIGUOUS', 'OUTLINE_INNER_ROUND_EDGE', 'WEAK_TEXTURE_CONTRAST', 'TEXTURE_OVERLAP', 'WIDTH_SPREAD_INFLATED'];
+    const quality = `quality: check (${codes.join(', ')})`; // 121 characters, 400 px hold (400 − 8) / 6 = 65
+    const lines = wrapCaption(['a.png', quality], 65);
+    expect(lines[0]).toBe('a.png');
+    expect(lines.length).toBe(3);
+    expect(lines[1]).toBe('quality: check (OUTLINE_AMBIGUOUS, OUTLINE_INNER_ROUND_EDGE,');
+    expect(lines[2].startsWith('  WEAK_TEXTURE_CONTRAST, ')).toBe(true);
+    for (const l of lines) expect(l.length).toBeLessThanOrEqual(65);
+    // nothing lost: the pieces joined give the line back
+    expect(lines.slice(1).map((l) => l.trim()).join(' ')).toBe(quality);
+    // the band grows by the extra line; no text pixel in the last 3 columns
+    const img2 = renderOverlay(input(['a.png', quality]));
+    expect(img2.height - 300).toBe(3 * 9 + 6);
+    let right = 0;
+    for (let y = 0; y < img2.height - 300; y++) for (let x = 397; x < 400; x++) if (img2.data[(y * 400 + x) * 4] > 128) right++;
+    expect(right).toBe(0);
+  });
+
+  it('cuts a word longer than the line, and leaves short lines alone', () => {
+    expect(wrapCaption(['x'.repeat(20)], 8)).toEqual(['xxxxxxxx', '  xxxxxx', '  xxxxxx']);
+    expect(wrapCaption(['short line'], 65)).toEqual(['short line']);
   });
 });
 

@@ -58,7 +58,8 @@ describe('views built on the summary', () => {
     expect(label).toEqual([
       'a.png',
       'quality: ok',
-      'band width mean 577.3 µm, 95% CI (circumference) 533.1-621.3 µm',
+      'band width mean 577.3 µm',
+      '95% circumferential interval 533.1-621.3 µm',
       'median 577.3 µm, sd 5.0 µm, n = 360 rays',
       'pixel 4.500 µm (typed)',
       'w/L = 1.04: agrees',
@@ -69,7 +70,7 @@ describe('views built on the summary', () => {
     expect(overlayLabel(summarise(none))).toEqual(['b.png', 'quality: check (NO_BAND_FOUND)', 'no smooth rim band: no smooth rim', 'pixel 2.500 µm (typed)']);
   });
 
-  it('the overlay label names the circumferential CI and adds the measurement interval when there is one', () => {
+  it('the overlay label gives the measurement interval first, then the circumferential interval, each by its name', () => {
     const r = makeResult({ file: 'u.png', meanUm: 577.25, ci95: [533.1, 621.3], umPerPx: 4.5 });
     const src = { sdUm: 1, sharePct: 50 };
     r.band.uncertainty = {
@@ -81,8 +82,11 @@ describe('views built on the summary', () => {
       budget: { boundary: src, outerEdge: src, scale: src } as NonNullable<typeof r.band.uncertainty>['budget'],
     };
     const label = overlayLabel(summarise(r));
-    expect(label[2]).toBe('band width mean 577.3 µm, 95% CI (circumference) 533.1-621.3 µm');
-    expect(label[3]).toBe('95% measurement interval 560.0-594.5 µm');
+    expect(label.slice(2, 5)).toEqual([
+      'band width mean 577.3 µm',
+      '95% measurement interval 560.0-594.5 µm',
+      '95% circumferential interval 533.1-621.3 µm',
+    ]);
   });
 
   it('the batch report summary row shows the same figures (4 significant digits, units)', () => {
