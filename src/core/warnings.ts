@@ -45,6 +45,7 @@ export const WARNINGS = {
   BAND_MISSING_IN_PLACES: { severity: 'check', description: 'the rough core comes within about one texture window of the outer edge on more than 20 % of the circumference' },
   GLINTS_SUPPRESSED: { severity: 'info', description: 'bright specks (glints) on the specimen were replaced by their surroundings before the texture was measured' },
   SCAN_LINES_REMOVED: { severity: 'info', description: 'scan-line noise (each line of an SEM scan offset by its own amount) was found and the line offsets were removed before the texture was measured' },
+  TONE_BOUNDARY_USED: { severity: 'check', description: 'the texture contrast was weak and the rim/core boundary follows the brightness step instead (rim brighter than core, as under a ring light or other light from high above); check it on the overlay' },
   FINER_WINDOW_USED: { severity: 'info', description: 'the band was narrow for the texture window (or did not separate with it) and was found again with a window half as large; the result reports that window' },
   // pixel classifier (measure --model; learn/segment.ts)
   LOW_MODEL_CONFIDENCE: { severity: 'check', description: 'the pixel classifier is unsure along the boundary or the outer edge it gives (mean class probability beside it below 0.75): the model may not fit this image' },

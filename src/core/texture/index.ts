@@ -13,6 +13,7 @@ export {
 export { gradientEnergy, gradientEnergyPointwise } from './gradientEnergy.js';
 export { highPassEnergy, highPassEnergyPointwise } from './highPassEnergy.js';
 export { boxMean } from './boxMean.js';
+export { localDarkness, DARKNESS_FLOOR } from './localDarkness.js';
 export { downsample } from './resample.js';
 export {
   windowPxFromUm,
@@ -33,5 +34,7 @@ export {
   isFeatureName,
   checkFeatureNames,
   parseFeatureList,
+  toneOnly,
+  TONE_FEATURES,
   type FeatureName,
 } from './registry.js';

@@ -6,6 +6,7 @@ import { FractozoneError } from '../errors.js';
 import type { GrayRaster } from '../image/raster.js';
 import { gradientEnergyFeature } from './gradientEnergy.js';
 import { highPassEnergyFeature } from './highPassEnergy.js';
+import { localDarknessFeature } from './localDarkness.js';
 import { localEntropyFeature } from './localEntropy.js';
 import { localStdFeature, localVarianceFeature } from './localStd.js';
 import type { FeatureDefinition, FeatureOptions } from './types.js';
@@ -17,6 +18,7 @@ export const FEATURES = {
   gradientEnergy: gradientEnergyFeature,
   localVariance: localVarianceFeature,
   highPassEnergy: highPassEnergyFeature,
+  localDarkness: localDarknessFeature,
 } as const satisfies Record<string, FeatureDefinition>;
 
 /** Name of a registered feature. */
@@ -27,6 +29,14 @@ export type FeatureName = keyof typeof FEATURES;
  * parameters, the command line (`--features`), the app and the README.
  */
 export const DEFAULT_FEATURES: readonly FeatureName[] = ['localStd', 'localEntropy', 'gradientEnergy'];
+
+/** The tone cue the pipeline tries when the texture contrast is weak (pipeline/stages/band.ts). */
+export const TONE_FEATURES: readonly FeatureName[] = ['localDarkness'];
+
+/** True when every feature of the list reads tone, not texture (then the boundary is refined on brightness). */
+export function toneOnly(names: readonly FeatureName[]): boolean {
+  return names.length > 0 && names.every((n) => FEATURES[n].cue === 'tone');
+}
 
 /** Every registered feature name, in registry order. */
 export const FEATURE_NAMES = Object.keys(FEATURES) as FeatureName[];

@@ -45,6 +45,12 @@ export interface FeatureDefinition {
    * uses log f − p·log(local mean), so shading and vignetting do not read as texture.
    */
   readonly gainPower: number;
+  /**
+   * What the feature reads: 'texture' (roughness; the default) or 'tone' (brightness,
+   * texture/localDarkness.ts). A boundary classified on tone features only is refined on the local
+   * mean brightness instead of the texture step (pipeline/stages/refineBoundary.ts).
+   */
+  readonly cue?: 'texture' | 'tone';
   /** Rule for the window side when none is given (texture/window.ts). */
   readonly defaultWindow: WindowRule;
   /** Compute the feature map (same size as `r`). */

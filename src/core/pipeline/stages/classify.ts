@@ -40,7 +40,8 @@ export function classifyTexture(input: ClassifyInput): Classification {
       center: location.centerWork,
       transforms: defs.map((d) => d.transform),
       brightness: texture.brightness,
-      gainPowers: defs.map((d) => d.gainPower),
+      // a tone feature IS the brightness: normalising it by the brightness would cancel it (texture/localDarkness.ts)
+      gainPowers: defs.map((d) => (d.cue === 'tone' ? 0 : d.gainPower)),
       shareScores: input.shareScores,
     },
   );

@@ -4,7 +4,9 @@
  * copy, and mapped to full-resolution px. A boundary given by a person skips stages 3 to 5.
  */
 import type { PointPx } from '../../image/geometry.js';
-import type { GrayRaster } from '../../image/raster.js';
+import { createRaster, type GrayRaster } from '../../image/raster.js';
+import { boxMean } from '../../texture/boxMean.js';
+import { oncePerRaster } from '../../segment/memo.js';
 import { refineBoundary, type Separability } from '../../segment/index.js';
 import type { WorkingFrame } from '../frame.js';
 import type { BoundarySource } from '../result.js';
@@ -22,6 +24,8 @@ export interface RimBoundary {
   reason?: string;
   /** Separability of the two textures (null for a manual boundary). */
   separability: Separability | null;
+  /** Present when the boundary follows the brightness step rather than the texture (stages/band.ts). */
+  cue?: 'tone';
 }
 
 /** Input of {@link refineRimBoundary}. */
@@ -40,6 +44,13 @@ export interface RefineInput {
   level?: 'mean' | 'log' | 'std';
   /** Refine on exactly this many rays (the parameter range's quick runs); default max(nRays, 360). */
   exactRays?: number;
+  /**
+   * 'tone': the classification read brightness (texture/localDarkness.ts), so the boundary is put
+   * where the window's mean brightness crosses the midpoint of the rim's and the core's levels
+   * (segment/refine.ts method 'box' on 1 − mean: linear in the area fraction, so the midpoint is
+   * crossed on a straight boundary itself); default 'texture' (the step of the arc variance).
+   */
+  cue?: 'texture' | 'tone';
 }
 
 /** Refines the classified boundary, or reports why there is none. */
@@ -54,9 +65,25 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
     nRays: input.exactRays ?? Math.max(input.nRays, 360),
     level: input.level,
     missing: input.missing,
+    ...(input.cue === 'tone' ? { method: 'box' as const, energy: lightDeficit(input.source ?? frame.work, input.window.windowPxWork) } : {}),
   });
-  return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
+  return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability, ...(input.cue === 'tone' ? { cue: 'tone' as const } : {}) };
 }
+
+/**
+ * 1 − the box mean over the window (odd, ≥ 3): higher in the darker core, linear in the area
+ * fraction; once per working copy and window (the measurement and its variations share it).
+ */
+function lightDeficit(r: GrayRaster, windowPx: number): GrayRaster {
+  const w = Math.max(3, windowPx | 1);
+  return oncePerRaster(DEFICIT, r, String(w), () => {
+    const m = boxMean(r, w).data;
+    const d = new Float32Array(m.length);
+    for (let i = 0; i < d.length; i++) d[i] = 1 - m[i];
+    return createRaster(r.width, r.height, d);
+  });
+}
+const DEFICIT = new WeakMap<GrayRaster, Map<string, GrayRaster>>();
 
 /** A boundary drawn or given by a person (px), taken as it is. */
 export function manualBoundary(polygon: readonly PointPx[]): RimBoundary {

@@ -58,6 +58,8 @@ export interface VariationInput {
   classification: Classification;
   marks: readonly BoxPx[];
   params: MeasureParams;
+  /** 'tone' when the boundary follows the brightness step (stages/band.ts): the variations refine it so too. */
+  cue?: 'tone';
 }
 
 /**
@@ -69,7 +71,7 @@ export const VARIATION_RAYS = 120;
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
 function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
   const full = rays !== VARIATION_RAYS;
-  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level });
+  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level, cue: v.cue ?? 'texture' });
   if (!boundary.polygon) return null;
   const geometry = storedGeometry(v.location, boundary, v.marks);
   const m = measureWidths({
@@ -165,7 +167,8 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
       windowPxWork: windowPxFromUm(windowUm, v.scale.umPerPx * v.frame.lengthScale),
       windowPxFull: windowPxFromUm(windowUm, v.scale.umPerPx),
     };
-    const texture = computeTexture({ frame: v.frame, window, features: v.params.features, region: specimenBox(v.location, REGION_MARGIN_PX) });
+    // the features the boundary was classified on (the tone cue's when stages/band.ts took it)
+    const texture = computeTexture({ frame: v.frame, window, features: v.texture.maps.map((m) => m.name), region: specimenBox(v.location, REGION_MARGIN_PX) });
     out.push(shifted(`window ×${f}`, classifyBinned(v, texture.maps, texture.brightness, window), window));
   }
   if (v.texture.maps.length > 1) {
