@@ -9,28 +9,16 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { encodeRender, findScene, renderFractograph } from '../../../src/core/render/index.js';
-import { analyseImage, defaultParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
+import type { MeasureResult } from '../../../src/core/pipeline/index.js';
+import { measureBytes, measureScene } from '../../helpers/measureScene.js';
 
 const EXT = join(__dirname, '../../fixtures/external/scenes');
 
-async function measure(bytes: Uint8Array, file: string, umPerPx: number): Promise<MeasureResult> {
-  const p = defaultParams();
-  p.scale.pixelSizeUm = umPerPx;
-  p.bootstrap = 200;
-  return (await analyseImage(bytes, { file, sha256: 'test' }, p)).result;
-}
-
-async function ourScene(name: string): Promise<{ r: MeasureResult; truthUm: number }> {
-  const c = findScene(name)!;
-  const out = renderFractograph(c.options);
-  const bytes = encodeRender(out, { format: c.format, bitDepth: c.bitDepth ?? 8, jpegQuality: c.jpegQuality ?? 92 });
-  return { r: await measure(bytes, `${name}.${c.format}`, out.truth.umPerPxX), truthUm: out.truth.band.meanWidthUm! };
-}
+const ourScene = (name: string) => measureScene(name);
 
 async function externalScene(file: string): Promise<{ r: MeasureResult; truthUm: number }> {
   const t = JSON.parse(readFileSync(join(EXT, file.replace(/\.\w+$/, '.truth.json')), 'utf8')) as { umPerPx: number; band: { meanWidthUm: number } };
-  return { r: await measure(new Uint8Array(readFileSync(join(EXT, file))), file, t.umPerPx), truthUm: t.band.meanWidthUm };
+  return { r: await measureBytes(new Uint8Array(readFileSync(join(EXT, file))), file, t.umPerPx), truthUm: t.band.meanWidthUm };
 }
 
 function check(r: MeasureResult, truthUm: number, tolPct: number, ciCovers: boolean): void {

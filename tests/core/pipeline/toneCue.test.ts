@@ -11,29 +11,17 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { encodeRender, findScene, renderFractograph } from '../../../src/core/render/index.js';
-import { analyseImage, defaultParams, type MeasureResult } from '../../../src/core/pipeline/index.js';
+import type { MeasureResult } from '../../../src/core/pipeline/index.js';
+import { measureBytes, measureScene } from '../../helpers/measureScene.js';
 import { splitFisher } from '../../../src/core/pipeline/stages/band.js';
 import { createMask, createRaster } from '../../../src/core/image/raster.js';
 import { DARKNESS_FLOOR, localDarkness } from '../../../src/core/texture/index.js';
 
 const EXT = join(__dirname, '../../fixtures/external/scenes');
 
-async function measure(bytes: Uint8Array, file: string, umPerPx: number): Promise<MeasureResult> {
-  const p = defaultParams();
-  p.scale.pixelSizeUm = umPerPx;
-  p.bootstrap = 200;
-  return (await analyseImage(bytes, { file, sha256: 'test' }, p)).result;
-}
-
 /** A scene of the set, with the light's elevation replaced when given. */
-async function scene(name: string, elevationDeg?: number): Promise<{ r: MeasureResult; truthUm: number }> {
-  const c = findScene(name)!;
-  const options = elevationDeg === undefined ? c.options : { ...c.options, light: { ...(c.options.light ?? {}), elevationDeg } };
-  const out = renderFractograph(options);
-  const bytes = encodeRender(out, { format: c.format, bitDepth: c.bitDepth ?? 8, jpegQuality: c.jpegQuality ?? 92 });
-  return { r: await measure(bytes, `${name}.${c.format}`, out.truth.umPerPxX), truthUm: out.truth.band.meanWidthUm! };
-}
+const scene = (name: string, elevationDeg?: number) =>
+  measureScene(name, elevationDeg === undefined ? undefined : (o) => ({ ...o, light: { ...(o.light ?? {}), elevationDeg } }));
 
 const codes = (r: MeasureResult): string[] => r.warnings.map((w) => w.code);
 const errPct = (r: MeasureResult, truthUm: number): number => (100 * (r.band.widthUm!.mean - truthUm)) / truthUm;
@@ -97,7 +85,7 @@ describe('the texture boundary stays where the tone would be wrong', () => {
   it('defocus_one_side.jpg (independent generator: texture right, tone 1.2 points worse) keeps the texture', async () => {
     const file = 'defocus_one_side.jpg';
     const t = JSON.parse(readFileSync(join(EXT, 'defocus_one_side.truth.json'), 'utf8')) as { umPerPx: number; band: { meanWidthUm: number } };
-    const r = await measure(new Uint8Array(readFileSync(join(EXT, file))), file, t.umPerPx);
+    const r = await measureBytes(new Uint8Array(readFileSync(join(EXT, file))), file, t.umPerPx);
     expect(codes(r)).not.toContain('TONE_BOUNDARY_USED');
     expect(Math.abs(errPct(r, t.band.meanWidthUm))).toBeLessThanOrEqual(2);
   });
