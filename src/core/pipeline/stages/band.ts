@@ -195,7 +195,7 @@ export interface ToneEvidence {
  *   Fisher ratio ≥ {@link TONE_AT_TEXTURE_SPLIT_MIN}, the texture separates the tone's split at
  *   least {@link TEXTURE_KEEPS_TONE_SPLIT} as well as its own, and the tone separates ≥
  *   {@link TONE_OVER_TEXTURE} times better than the texture (the tone then places the boundary more
- *   sharply; ring-light renders 4.2–26 times; the independent generator's one-sided defocus, where
+ *   sharply; ring-light renders 4.2–39 times; the independent generator's one-sided defocus, where
  *   the texture is right and the tone 1.2 points worse, 1.5 times and 0.65), or
  * - the texture failed: its Fisher < {@link TEXTURE_FAILED_FISHER} (or no band), and the texture
  *   itself separates the tone's split ≥ {@link TEXTURE_PREFERS_TONE_SPLIT} times better than its
@@ -210,7 +210,6 @@ function withToneCue(input: BandInput, texture: BandFinding, source: GrayRaster,
   const textureFisher = texture.boundary.detected ? tx.separability.fisher : 0;
   if (textureFisher >= TONE_TRY_BELOW_FISHER) return texture;
   const window = texture.window;
-  const tInput: BandInput = { ...input, features: TONE_FEATURES };
   const tTexture = computeTexture({ frame: input.frame, window, features: TONE_FEATURES, source, region: specimenBox(input.location, REGION_MARGIN_PX) });
   const tClass = classifyTexture({ location: input.location, texture: tTexture });
   const tc = tClass.rimCore;
@@ -228,7 +227,7 @@ function withToneCue(input: BandInput, texture: BandFinding, source: GrayRaster,
   const agree = ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher && ev.textureAtToneSplit >= TEXTURE_KEEPS_TONE_SPLIT * ev.textureAtOwnSplit;
   const failed = textureFisher < TEXTURE_FAILED_FISHER && ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit;
   if (!agree && !failed) return texture;
-  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification: tClass, window, nRays: tInput.nRays, source, missing, cue: 'tone' });
+  const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification: tClass, window, nRays: input.nRays, source, missing, cue: 'tone' });
   if (!boundary.detected) return texture;
   const f = (v: number): string => v.toFixed(1);
   const why = agree
@@ -241,6 +240,8 @@ function withToneCue(input: BandInput, texture: BandFinding, source: GrayRaster,
     classification: tClass,
     pass: texture.pass,
     warnings: [
+      // the window is the texture's (a finer second pass says so); the texture's contrast warnings no longer apply
+      ...texture.warnings.filter((w) => w.code === 'FINER_WINDOW_USED'),
       ...tClass.warnings,
       warn('TONE_BOUNDARY_USED', `the rim/core boundary follows the brightness step (rim brighter than core, Fisher ratio ${f(ev.toneFisher)}), as under a light from high above: ${why}; check it on the overlay`),
     ],
