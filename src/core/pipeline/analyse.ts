@@ -110,7 +110,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
     const own = [...loc.warnings];
     let boundary: RimBoundary;
     let window: TextureWindow = window0;
-    let auto: { texture: TextureMaps; classification: Classification; cue?: 'tone' } | null = null;
+    let auto: { texture: TextureMaps; classification: Classification } | null = null;
     if (first && p.boundaryPolygon) {
       boundary = manualBoundary(p.boundaryPolygon);
       T.lap('texture', 'band width', 0.8);
@@ -123,7 +123,7 @@ export function analyseDecoded(decoded: DecodedImage, input: InputInfo, params: 
       own.push(...found.warnings);
       boundary = found.boundary;
       window = found.window;
-      auto = { texture: found.texture, classification: found.classification, ...(found.boundary.cue ? { cue: found.boundary.cue } : {}) };
+      auto = { texture: found.texture, classification: found.classification };
       if (first) T.lap('texture+boundary', 'band width', 0.85);
     }
     const geometry = storedGeometry(loc, boundary, calibration.marks);

@@ -5,14 +5,13 @@
  */
 import type { PointPx } from '../../image/geometry.js';
 import { createRaster, type GrayRaster } from '../../image/raster.js';
-import { boxMean } from '../../texture/boxMean.js';
 import { oncePerRaster } from '../../segment/memo.js';
 import { refineBoundary, type Separability } from '../../segment/index.js';
 import type { WorkingFrame } from '../frame.js';
 import type { BoundarySource } from '../result.js';
 import type { Classification } from './classify.js';
 import type { SpecimenLocation } from './locateSpecimen.js';
-import type { TextureWindow } from './texture.js';
+import { windowMean, type TextureWindow } from './texture.js';
 
 /** The rim/core boundary the band is measured to. */
 export interface RimBoundary {
@@ -24,8 +23,6 @@ export interface RimBoundary {
   reason?: string;
   /** Separability of the two textures (null for a manual boundary). */
   separability: Separability | null;
-  /** Present when the boundary follows the brightness step rather than the texture (stages/band.ts). */
-  cue?: 'tone';
 }
 
 /** Input of {@link refineRimBoundary}. */
@@ -67,17 +64,17 @@ export function refineRimBoundary(input: RefineInput): RimBoundary {
     missing: input.missing,
     ...(input.cue === 'tone' ? { method: 'box' as const, energy: lightDeficit(input.source ?? frame.work, input.window.windowPxWork) } : {}),
   });
-  return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability, ...(input.cue === 'tone' ? { cue: 'tone' as const } : {}) };
+  return { source: 'auto', polygon: refined.polygon.map((q) => frame.toFull(q)), detected: true, separability: rc.separability };
 }
 
 /**
- * 1 − the box mean over the window (odd, ≥ 3): higher in the darker core, linear in the area
- * fraction; once per working copy and window (the measurement and its variations share it).
+ * 1 − the window's mean brightness (texture.ts `windowMean`, shared with the classification):
+ * higher in the darker core, linear in the area fraction; once per working copy and window (the
+ * measurement and its variations share it).
  */
 function lightDeficit(r: GrayRaster, windowPx: number): GrayRaster {
-  const w = Math.max(3, windowPx | 1);
-  return oncePerRaster(DEFICIT, r, String(w), () => {
-    const m = boxMean(r, w).data;
+  return oncePerRaster(DEFICIT, r, String(windowPx), () => {
+    const m = windowMean(r, windowPx).data;
     const d = new Float32Array(m.length);
     for (let i = 0; i < d.length; i++) d[i] = 1 - m[i];
     return createRaster(r.width, r.height, d);

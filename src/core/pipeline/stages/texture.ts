@@ -103,13 +103,22 @@ export function computeTexture(input: TextureInput): TextureMaps {
   // once per working copy, window and features: every specimen of an image (both halves) uses the same
   const { maps, brightness } = oncePerRaster(TEXTURES, src, `${window.windowPxWork}|${input.features.join(',')}|${box ? 'box' : 'all'}`, () => ({
     maps: input.features.map((name) => ({ name, raster: inBox(name) ? null : computeFeature(name, src, window.windowPxWork) })),
-    brightness: boxMean(src, window.windowPxWork),
+    brightness: windowMean(src, window.windowPxWork),
   }));
   // the entropy inside the region: once per working copy, window and region
   const own = (name: FeatureName): GrayRaster =>
     oncePerRaster(TEXTURES_IN_BOX, src, `${window.windowPxWork}|${name}|${box!.x0},${box!.y0},${box!.x1},${box!.y1}`, () => localEntropyInBox(src, window.windowPxWork, box!));
   return { window, maps: maps.map((m) => ({ name: m.name, raster: m.raster ?? own(m.name) })), brightness };
 }
+
+/**
+ * The local mean brightness over the window, once per raster and window: the texture and the tone
+ * pass (stages/band.ts) normalise by it and the tone boundary is refined on it (stages/refineBoundary.ts).
+ */
+export function windowMean(src: GrayRaster, windowPx: number): GrayRaster {
+  return oncePerRaster(MEANS, src, String(windowPx), () => boxMean(src, windowPx));
+}
+const MEANS = new WeakMap<GrayRaster, Map<string, GrayRaster>>();
 
 /** Texture maps per working copy (segment/memo.ts); never written to. Maps left to {@link TEXTURES_IN_BOX} are null. */
 const TEXTURES = new WeakMap<GrayRaster, Map<string, { maps: { name: FeatureName; raster: GrayRaster | null }[]; brightness: GrayRaster }>>();

@@ -21,7 +21,7 @@
  * - outer edge: {@link OUTER_FLOOR_PX} full-resolution px (sub-pixel edge on the lightly smoothed
  *   intensity; assumption, see DEVELOPERS.md).
  */
-import { windowPxFromUm } from '../../texture/index.js';
+import { toneOnly, windowPxFromUm } from '../../texture/index.js';
 import { localisationTerm, measurementInterval, scaleRelativeSd, type LocalisationTerm } from '../../measure/uncertainty.js';
 import type { BoxPx } from '../../image/geometry.js';
 import type { Scale } from '../../calibrate/index.js';
@@ -58,8 +58,6 @@ export interface VariationInput {
   classification: Classification;
   marks: readonly BoxPx[];
   params: MeasureParams;
-  /** 'tone' when the boundary follows the brightness step (stages/band.ts): the variations refine it so too. */
-  cue?: 'tone';
 }
 
 /**
@@ -71,7 +69,9 @@ export const VARIATION_RAYS = 120;
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
 function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
   const full = rays !== VARIATION_RAYS;
-  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level, cue: v.cue ?? 'texture' });
+  // classified on tone features (stages/band.ts took the tone cue): refined on brightness, as the measurement was
+  const cue = toneOnly(v.texture.maps.map((m) => m.name)) ? 'tone' : 'texture';
+  const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level, cue });
   if (!boundary.polygon) return null;
   const geometry = storedGeometry(v.location, boundary, v.marks);
   const m = measureWidths({
