@@ -102,9 +102,10 @@ export interface RefineBoundaryOptions {
   /** Precomputed energy at full resolution: box-averaged for 'box', pointwise for 'step'. */
   energy?: GrayRaster;
   /**
-   * 'step' only: where the level sits between its two candidates (see {@link stepLevel}): 'mean'
-   * (default), 'log' (the log-variance midpoint, one end of the level's tolerance) or 'std' (the
-   * standard-deviation midpoint, the other end). The ends are used for the parameter range.
+   * Where the level sits between its two candidates (see {@link stepLevel}): 'mean' (default),
+   * 'log' (the log-variance midpoint, one end of the level's tolerance) or 'std' (the
+   * standard-deviation midpoint, the other end); for 'box' the ends are the midpoint ∓
+   * {@link BOX_LEVEL_TOLERANCE} of the step. The ends are used for the parameter range.
    */
   level?: 'mean' | 'log' | 'std';
   /**
@@ -255,7 +256,22 @@ function pooled(arr: readonly number[], i: number, halfSector: number): number {
 }
 
 /**
- * The level the boundary is put at. 'box': midpoint of the linear energy levels. 'step': the
+ * 'box': the ends of the level's tolerance, as a fraction of the step from its midpoint: 'log' puts
+ * the level at 0.5 − this of the way from the rim's to the core's level, 'std' at 0.5 + this. The
+ * box mean is linear in the area fraction, so for a sharp step the midpoint is unbiased; but where
+ * the brightness changes across a blend of the two surfaces (a roughness ramp, a defocused step)
+ * it is not linear in the blend, and where on the ramp the boundary lies is not known from the
+ * brightness alone. Measured on our renderer under a light from 75–85° (11 scenes where the tone
+ * cue was taken, 2026-12-03): the mean width moves ≈ 2 % per 0.1 of the step and the true boundary
+ * sat between 0.5 and ≈ 0.75 of it (midpoint: +0.3 … −4.6 %); the ends at ±0.1 give those scenes a
+ * level spread h of ≈ 2 % of the width. An assumption of the same kind as the step fit's two ends,
+ * checked on one generator only.
+ */
+export const BOX_LEVEL_TOLERANCE = 0.1;
+
+/**
+ * The level the boundary is put at. 'box': midpoint of the linear energy levels (the ends of its
+ * tolerance: {@link BOX_LEVEL_TOLERANCE}). 'step': the
  * profile is a log-variance (robust to outliers); the level is the mean of two midpoints — of the
  * log-variances (geometric mean of the variances) and of the standard deviations mapped back to
  * log-variance. Across a fuzzy boundary where the two textures blend as b·core + (1 − b)·rim the
@@ -266,9 +282,12 @@ function pooled(arr: readonly number[], i: number, halfSector: number): number {
  * (single-ray fits; fitted to the pooled profile, segment/rayPool.ts, it sits 0.33 px rimward on plain).
  */
 function stepLevel(eR: number, eC: number, method: 'step' | 'box', level: 'mean' | 'log' | 'std' = 'mean'): number {
+  if (method === 'box') {
+    if (level === 'mean') return 0.5 * (eR + eC);
+    return eR + (level === 'log' ? 0.5 - BOX_LEVEL_TOLERANCE : 0.5 + BOX_LEVEL_TOLERANCE) * (eC - eR);
+  }
   const logMid = 0.5 * (eR + eC);
   const stdMid = 2 * Math.log(0.5 * (Math.exp(eR / 2) + Math.exp(eC / 2)));
-  if (method === 'box') return 0.5 * (eR + eC);
   return level === 'log' ? logMid : level === 'std' ? stdMid : 0.5 * (logMid + stdMid);
 }
 

@@ -60,6 +60,18 @@ describe('band width under a light from high above', () => {
     expect(codes(r)).toContain('TONE_BOUNDARY_USED');
     expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
     expect(r.quality.verdict).toBe('check');
+    // the level's tolerance on the brightness step (segment/refine.ts BOX_LEVEL_TOLERANCE): the two
+    // ends bracket the mean and spread it (before: both ends were the midpoint, h = 0, and the
+    // measurement interval of the V flank shallow at 85° missed its truth)
+    const u = r.band.uncertainty!;
+    const ends = u.variations.filter((v) => v.name.startsWith('boundary level')).map((v) => v.meanUm!);
+    expect(u.variations.map((v) => v.name)).toEqual(expect.arrayContaining(['boundary level: 40 % of the brightness step', 'boundary level: 60 % of the brightness step']));
+    const mean = r.band.widthUm!.mean;
+    expect(ends[0]).toBeLessThan(mean);
+    expect(ends[1]).toBeGreaterThan(mean);
+    expect((ends[1] - ends[0]) / mean).toBeGreaterThan(0.02);
+    const [lo, hi] = u.measurementCi95Um;
+    expect(lo <= truthUm && truthUm <= hi).toBe(true);
   });
 
   it('V flank at 85°: within 4 % (texture alone −12.6 %)', async () => {

@@ -5,6 +5,8 @@
 import { describe, expect, it } from 'vitest';
 import { measureBand } from '../../../src/core/measure/index.js';
 import { findSpecimen, refineBoundary } from '../../../src/core/segment/index.js';
+import { BOX_LEVEL_TOLERANCE } from '../../../src/core/segment/refine.js';
+import { createRaster } from '../../../src/core/image/raster.js';
 import { makeDiscImage, testLocalStd } from '../../helpers/discImages.js';
 import { runStages } from '../../helpers/stages.js';
 
@@ -91,6 +93,30 @@ describe('refineBoundary', () => {
     expect(Math.abs(sectorError(masked.radiiPx))).toBeLessThan(1.5);
     // elsewhere the mask changes nothing
     for (let i = 120; i < 330; i++) expect(masked.radiiPx[i]).toBe(plain.radiiPx[i]);
+  });
+
+  it("'box' level ends: on a brightness ramp the boundary moves by ∓ BOX_LEVEL_TOLERANCE of the ramp", () => {
+    // energy (as the tone cue's 1 − window mean) rising linearly from the rim (0, r ≥ 190 px) to the
+    // core (1, r ≤ 170 px): the midpoint crossing at r = 180 (width 60 px to the outer edge at 240);
+    // the ends at 0.5 ∓ 0.1 of the step sit 0.1 × 20 px further out / further in: widths 58 and 62 px
+    const img = makeDiscImage({ seed: 5 });
+    const r = img.raster;
+    const energy = createRaster(r.width, r.height);
+    for (let y = 0; y < r.height; y++) for (let x = 0; x < r.width; x++) energy.data[y * r.width + x] = Math.min(1, Math.max(0, (190 - Math.hypot(x - img.cx, y - img.cy)) / 20));
+    const sp = findSpecimen(r);
+    const c = { x: img.cx, y: img.cy };
+    const coarse = Array.from({ length: 360 }, (_, i) => {
+      const t = (i * Math.PI) / 180;
+      return { x: c.x + 183 * Math.cos(t), y: c.y - 183 * Math.sin(t) };
+    });
+    const width = (level: 'mean' | 'log' | 'std'): number => {
+      const b = refineBoundary(r, sp.contour, coarse, c, { windowPx: W, method: 'box', energy, level });
+      return measureBand({ outer: sp.contour, boundary: b.polygon, center: c, umPerPx: 1, bootstrap: 0 }).stats.mean;
+    };
+    const shift = BOX_LEVEL_TOLERANCE * 20;
+    expect(width('mean')).toBeCloseTo(img.meanWidthPx, 0);
+    expect(width('log') - width('mean')).toBeCloseTo(-shift, 1);
+    expect(width('std') - width('mean')).toBeCloseTo(shift, 1);
   });
 
   it('refuses a window under 1 px', () => {

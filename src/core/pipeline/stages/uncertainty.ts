@@ -9,7 +9,8 @@
  *   texture window ×0.7 and ×1.4 (features, classification, refinement again), each feature left
  *   out in turn (classification and refinement again, the other maps reused), and the boundary
  *   level at either end of its tolerance (refinement only; segment/refine.ts `level`: the
- *   log-variance and the standard-deviation midpoints whose mean is the level used). The range is
+ *   log-variance and the standard-deviation midpoints whose mean is the level used; for a tone
+ *   boundary 40 % and 60 % of the brightness step, `BOX_LEVEL_TOLERANCE`). The range is
  *   [min, max] over the variations and the mean itself.
  *
  * Systematic parts (standard uncertainties common to every ray):
@@ -22,6 +23,7 @@
  *   intensity; assumption, see DEVELOPERS.md).
  */
 import { toneOnly, windowPxFromUm } from '../../texture/index.js';
+import { BOX_LEVEL_TOLERANCE } from '../../segment/refine.js';
 import { localisationTerm, measurementInterval, scaleRelativeSd, type LocalisationTerm } from '../../measure/uncertainty.js';
 import type { BoxPx } from '../../image/geometry.js';
 import type { Scale } from '../../calibrate/index.js';
@@ -65,6 +67,8 @@ export interface VariationInput {
  * only the shift counts; a third of the usual 360 keeps the stage cheap.
  */
 export const VARIATION_RAYS = 120;
+
+const pct = (f: number): string => `${Math.round(100 * f)} %`;
 
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
 function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
@@ -179,8 +183,11 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
   }
   // the level ends enter the measurement interval (h): refined on the measurement's own rays
   const rays = Math.max(v.params.nRays, 360);
-  out.push({ name: 'boundary level: log-variance midpoint', meanUm: variationMean(v, v.classification, v.window, 'log', rays) });
-  out.push({ name: 'boundary level: standard-deviation midpoint', meanUm: variationMean(v, v.classification, v.window, 'std', rays) });
+  const [low, high] = toneOnly(v.texture.maps.map((m) => m.name))
+    ? [`${pct(0.5 - BOX_LEVEL_TOLERANCE)} of the brightness step`, `${pct(0.5 + BOX_LEVEL_TOLERANCE)} of the brightness step`]
+    : ['log-variance midpoint', 'standard-deviation midpoint'];
+  out.push({ name: `boundary level: ${low}`, meanUm: variationMean(v, v.classification, v.window, 'log', rays) });
+  out.push({ name: `boundary level: ${high}`, meanUm: variationMean(v, v.classification, v.window, 'std', rays) });
   return out;
 }
 
