@@ -272,9 +272,12 @@ function choose(rings: Ring[], center: PointPx, sectionRadiusPx: number | null, 
     // the surface is not fracture surface: a machined flank or the background; at most one step
     // across a rim band from the core edge, two without one
     // Without a core edge, a partial one inside the innermost clear ring (see isWeakCoreEdge: heavy
-    // noise flattens the roughness step) still says that ring is the first edge outside the core.
+    // noise flattens the roughness step) still says that ring is the first edge outside the core;
+    // so does the innermost clear ring itself when it is one (a light from high above fades the
+    // core's texture: independent ring_high_flank.jpg, step −0.69 on every ray; taken as the first
+    // clear ring, its smooth rim with beach marks outside it had read as a machined flank).
     const firstClear = rings.findIndex(counts);
-    const weak = core < 0 && firstClear > 0 ? rings.findIndex((r, k) => k < firstClear && isWeakCoreEdge(r, coreRoughness)) : -1;
+    const weak = core < 0 && firstClear >= 0 ? rings.findIndex((r, k) => k <= firstClear && isWeakCoreEdge(r, coreRoughness)) : -1;
     if (weak >= 0) verdicts[weak].note = 'roughness drops outward across it on part of the circumference: a partial rim/core boundary';
     const from = core >= 0 ? core : weak;
     const start = core >= 0 ? core : weak >= 0 ? weak : firstClear;

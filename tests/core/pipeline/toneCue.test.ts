@@ -87,6 +87,37 @@ describe('band width under a light from high above', () => {
   });
 });
 
+/** An image of the independent generator (scripts/fixtures/make_external_scenes.py) at its true pixel size, with its truth. */
+async function external(file: string) {
+  const t = JSON.parse(readFileSync(join(EXT, file.replace(/\.\w+$/, '.truth.json')), 'utf8')) as { umPerPx: number; band: { meanWidthUm: number }; outline: { semiMajorUm: number } };
+  const r = await measureBytes(new Uint8Array(readFileSync(join(EXT, file))), file, t.umPerPx);
+  return { r, truthUm: t.band.meanWidthUm, radiusUm: t.outline.semiMajorUm };
+}
+
+describe('a light from high above in the independent generator (its own shading model: relief shaded at its true amplitude)', () => {
+  it('ring_high.jpg (85°, a steep relief): the texture holds, the tone is not taken, within 2 %', async () => {
+    const { r, truthUm } = await external('ring_high.jpg');
+    expect(codes(r)).not.toContain('TONE_BOUNDARY_USED');
+    expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
+  });
+
+  it('ring_high_shallow.jpg (85°, a shallow relief: its shading nearly gone): the tone is taken, within 2 %, the measurement interval covers the truth', async () => {
+    const { r, truthUm } = await external('ring_high_shallow.jpg');
+    expect(codes(r)).toContain('TONE_BOUNDARY_USED');
+    expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
+    const [lo, hi] = r.band.uncertainty!.measurementCi95Um;
+    expect(lo <= truthUm && truthUm <= hi).toBe(true);
+  });
+
+  it('ring_high_flank.jpg (80°, shallow relief, V flank): the outline on the notch root within 1 % (was on the rim/core boundary: "no band"), within 4 %', async () => {
+    const { r, truthUm, radiusUm } = await external('ring_high_flank.jpg');
+    expect(Math.abs((100 * (r.specimen.radiusUm - radiusUm)) / radiusUm)).toBeLessThan(1);
+    expect(r.specimen.edgeSearch?.rule).toBe('first-edge-outside-partial-core-edge');
+    expect(codes(r)).toContain('TONE_BOUNDARY_USED');
+    expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(4);
+  });
+});
+
 describe('the texture boundary stays where the tone would be wrong', () => {
   it('sem-strip-noise-flank (SEM: brightness follows the electron yield; tone would give −31 %) keeps the texture', async () => {
     const { r, truthUm } = await scene('sem-strip-noise-flank');
