@@ -20,6 +20,39 @@ describe('refineOuterEdge', () => {
     expect(Math.abs(meanErr)).toBeLessThan(0.3);
   });
 
+  it('a dark groove past the edge (a notch root seen end on under a light from above): the edge is the step into it', () => {
+    // rim 0.55 inside R = 200 px, a groove 0.10 for 2 px (the root fillet turned away from the
+    // light), then a flank 0.45 nearly as bright as the rim out to R + 30, background 0.08; pixel
+    // values are 4 × 4-supersampled area means. The midpoint between the rim and the flank (0.50)
+    // is crossed ≈ 1.2 px inside R on the fall into the groove; between the rim and the groove's
+    // floor it is the step itself (within 0.5 px; the σ = 1 smoothing raises the floor of so
+    // narrow a groove, which pulls the level ≈ 0.3 px inward)
+    const n = 500;
+    const cx = 250.3;
+    const cy = 249.6;
+    const R = 200;
+    const level = (rad: number): number => (rad < R ? 0.55 : rad < R + 2 ? 0.1 : rad < R + 30 ? 0.45 : 0.08);
+    const data = new Float32Array(n * n);
+    for (let y = 0; y < n; y++) {
+      for (let x = 0; x < n; x++) {
+        let s = 0;
+        for (let j = 0; j < 4; j++) for (let i = 0; i < 4; i++) s += level(Math.hypot(x - 0.375 + i / 4 - cx, y - 0.375 + j / 4 - cy));
+        data[y * n + x] = s / 16;
+      }
+    }
+    const raster = { width: n, height: n, data };
+    const contour = Array.from({ length: 720 }, (_, i) => {
+      const t = (i * Math.PI) / 360;
+      return { x: cx + (R - 0.5) * Math.cos(t), y: cy - (R - 0.5) * Math.sin(t) };
+    });
+    const r = refineOuterEdge(raster, contour, { x: cx, y: cy }, { nRays: 360 });
+    const errs = r.radiiPx.map((rad) => rad! - R);
+    const meanErr = errs.reduce((a, b) => a + b, 0) / errs.length;
+    expect(r.nFallback).toBe(0);
+    expect(Math.abs(meanErr)).toBeLessThan(0.5);
+    for (const e of errs) expect(Math.abs(e)).toBeLessThan(0.7);
+  });
+
   it('falls back to the contour radius + 0.5 px where there is no edge to find (flat image)', () => {
     const img = makeDiscImage({ seed: 12 });
     const flat = { ...img.raster, data: new Float32Array(img.raster.data.length).fill(0.5) };
