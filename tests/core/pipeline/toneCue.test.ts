@@ -60,7 +60,7 @@ describe('band width under a light from high above', () => {
     expect(codes(r)).toContain('TONE_BOUNDARY_USED');
     expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
     expect(r.quality.verdict).toBe('check');
-    // the level's tolerance on the brightness step (segment/refine.ts BOX_LEVEL_TOLERANCE): the two
+    // the level's tolerance on the brightness step (segment/stepLevel.ts BOX_LEVEL_TOLERANCE): the two
     // ends bracket the mean and spread it (before: both ends were the midpoint, h = 0, and the
     // measurement interval of the V flank shallow at 85° missed its truth)
     const u = r.band.uncertainty!;

@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { measureBand } from '../../../src/core/measure/index.js';
 import { findSpecimen, refineBoundary } from '../../../src/core/segment/index.js';
-import { BOX_LEVEL_TOLERANCE } from '../../../src/core/segment/refine.js';
+import { BOX_LEVEL_TOLERANCE } from '../../../src/core/segment/stepLevel.js';
 import { createRaster } from '../../../src/core/image/raster.js';
 import { makeDiscImage, testLocalStd } from '../../helpers/discImages.js';
 import { runStages } from '../../helpers/stages.js';

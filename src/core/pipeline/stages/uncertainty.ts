@@ -17,13 +17,13 @@
  * - automatic boundary: √(({@link BOUNDARY_FLOOR_WORK_PX} working px)² + h²), h = half the spread of
  *   the mean between the two level ends (an image whose boundary is a soft blend has a larger h);
  *   the floor is the residual bias of the step fit measured on two independent generators
- *   (segment/refine.ts, `stepLevel`: within ≈ 0.3 working px), taken as its standard uncertainty;
+ *   (segment/stepLevel.ts, `stepLevel`: within ≈ 0.3 working px), taken as its standard uncertainty;
  * - a boundary drawn by a person: {@link MANUAL_BOUNDARY_SD_PX} full-resolution px (assumption);
  * - outer edge: {@link OUTER_FLOOR_PX} full-resolution px (sub-pixel edge on the lightly smoothed
  *   intensity; assumption, see DEVELOPERS.md).
  */
 import { toneOnly, windowPxFromUm } from '../../texture/index.js';
-import { BOX_LEVEL_TOLERANCE } from '../../segment/refine.js';
+import { BOX_LEVEL_TOLERANCE } from '../../segment/stepLevel.js';
 import { localisationTerm, measurementInterval, scaleRelativeSd, type LocalisationTerm } from '../../measure/uncertainty.js';
 import type { BoxPx } from '../../image/geometry.js';
 import type { Scale } from '../../calibrate/index.js';
