@@ -8,7 +8,7 @@
 import { copyFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { afterEach, describe, expect, it } from 'vitest';
-import { SKIP_E2E, launchApp, repoRoot, waitCurrent, waitForStart, type AppSession } from './harness.js';
+import { SKIP_E2E, launchApp, openImage, repoRoot, setPixelSize, waitCurrent, waitForStart, type AppSession } from './harness.js';
 
 const SIZES = [
   { width: 1024, height: 768 },
@@ -54,4 +54,23 @@ describe.skipIf(SKIP_E2E)('layout', () => {
       expect(s.foreignRequests).toEqual([]);
     });
   }
+
+  it('1024×768: a quality box with the verdict "check" reads as a heading over its warnings', async () => {
+    // the verdict's class once collided with the checkbox rows' `.check` (display: flex): the heading
+    // stood in a narrow column beside the list, one word per line
+    s = await launchApp({ viewport: SIZES[0] });
+    const { page } = s;
+    await waitForStart(page);
+    await openImage(page, join(repoRoot, 'tests/fixtures/external/scenes/ring_high_flank.jpg'));
+    await setPixelSize(page, 5);
+    await page.getByTestId('find-boundary').click();
+    await waitCurrent(page, 120_000);
+    const box = page.getByTestId('quality');
+    expect(await box.getAttribute('data-verdict')).toBe('check');
+    const [b, head, list] = [await box.boundingBox(), await box.locator('strong').boundingBox(), await box.locator('ul').boundingBox()];
+    if (!b || !head || !list) throw new Error('quality box incomplete');
+    expect(head.y + head.height).toBeLessThanOrEqual(list.y + 1);
+    expect(list.width).toBeGreaterThan(0.8 * b.width);
+    expect(s.consoleErrors).toEqual([]);
+  });
 });

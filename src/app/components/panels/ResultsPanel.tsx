@@ -23,7 +23,7 @@ const span = (f: IntervalFigure): string => (f.lo !== null && f.hi !== null ? `$
 function QualityBox({ s, stale }: { s: ResultSummary; stale: boolean }) {
   const q = s.quality;
   return (
-    <div className={`quality ${q.verdict}${stale ? ' stale' : ''}`} data-testid="quality" data-verdict={q.verdict}>
+    <div className={`quality quality-${q.verdict}${stale ? ' stale' : ''}`} data-testid="quality" data-verdict={q.verdict}>
       <strong>Quality: {q.headline}</strong>
       {q.reasons.length > 0 && (
         <ul>
