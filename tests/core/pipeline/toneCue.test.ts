@@ -87,6 +87,16 @@ describe('band width under a light from high above', () => {
   });
 });
 
+describe('the outer edge at a notch root lit from above (segment/outerEdge.ts grooveFloor)', () => {
+  it('V flank shallow at 60°: the texture boundary, within 2 % (was −3.6 % with verdict OK: the edge 1.3 px inside the root), the measurement interval covers the truth', async () => {
+    const { r, truthUm } = await scene('flank-v-shallow', 60);
+    expect(codes(r)).not.toContain('TONE_BOUNDARY_USED');
+    expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
+    const [lo, hi] = r.band.uncertainty!.measurementCi95Um;
+    expect(lo <= truthUm && truthUm <= hi).toBe(true);
+  });
+});
+
 /** An image of the independent generator (scripts/fixtures/make_external_scenes.py) at its true pixel size, with its truth. */
 async function external(file: string) {
   const t = JSON.parse(readFileSync(join(EXT, file.replace(/\.\w+$/, '.truth.json')), 'utf8')) as { umPerPx: number; band: { meanWidthUm: number }; outline: { semiMajorUm: number } };
