@@ -119,6 +119,12 @@ describe('a light from high above in the independent generator (its own shading 
     expect(lo <= truthUm && truthUm <= hi).toBe(true);
   });
 
+  it('ring_high_defocus.jpg (80°, shallow relief, one side out of focus): the texture failed and the brightness steps across its split: the tone, within 2 % (texture −4.4 %)', async () => {
+    const { r, truthUm } = await external('ring_high_defocus.jpg');
+    expect(codes(r)).toContain('TONE_BOUNDARY_USED');
+    expect(Math.abs(errPct(r, truthUm))).toBeLessThanOrEqual(2);
+  });
+
   it('ring_high_flank.jpg (80°, shallow relief, V flank): the outline on the notch root within 1 % (was on the rim/core boundary: "no band"), within 4 %', async () => {
     const { r, truthUm, radiusUm } = await external('ring_high_flank.jpg');
     expect(Math.abs((100 * (r.specimen.radiusUm - radiusUm)) / radiusUm)).toBeLessThan(1);

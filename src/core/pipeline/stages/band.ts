@@ -197,9 +197,13 @@ export interface ToneEvidence {
  *   {@link TONE_OVER_TEXTURE} times better than the texture (the tone then places the boundary more
  *   sharply; ring-light renders 4.2–39 times; the independent generator's one-sided defocus, where
  *   the texture is right and the tone 1.2 points worse, 1.5 times and 0.65), or
- * - the texture failed: its Fisher < {@link TEXTURE_FAILED_FISHER} (or no band), and the texture
- *   itself separates the tone's split ≥ {@link TEXTURE_PREFERS_TONE_SPLIT} times better than its
- *   own (and by ≥ 1).
+ * - the texture failed: its Fisher < {@link TEXTURE_FAILED_FISHER} (or no band), and either the
+ *   texture itself separates the tone's split ≥ {@link TEXTURE_PREFERS_TONE_SPLIT} times better than
+ *   its own (and by ≥ 1), or the brightness steps across the texture's own split as in the first
+ *   case (≥ {@link TONE_AT_TEXTURE_SPLIT_MIN}, tone ≥ {@link TONE_OVER_TEXTURE} × texture) — the
+ *   texture too weak to confirm the tone's split (independent ring_high_defocus.jpg: texture 1.16,
+ *   0.60 on the tone's split, tone 27.6 and 26.2 across the texture's split; texture −4.4 %, tone
+ *   +1.1 %; the rule was widened on that image, so it checks this code, not the rule's reach).
  * On the rendered scene set (light at 40° or lower, SEM) the brightness never steps at the texture
  * boundary (Fisher 0.01–1.2 there) and SEM images, whose brightness follows the electron yield, fail
  * the second test (1.18–1.19 times) — where tone would be wrong (sem-strip-noise-flank −31 %).
@@ -225,14 +229,21 @@ function withToneCue(input: BandInput, texture: BandFinding, source: GrayRaster,
     textureAtToneSplit: splitFisher(tx.combined, spec, tc.coreMask, half),
   };
   const agree = ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher && ev.textureAtToneSplit >= TEXTURE_KEEPS_TONE_SPLIT * ev.textureAtOwnSplit;
-  const failed = textureFisher < TEXTURE_FAILED_FISHER && ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit;
+  // the texture failed and either prefers the tone's split itself, or is too weak to judge it while the
+  // brightness steps across the texture's own split (the two cues locate the same boundary)
+  const failed =
+    textureFisher < TEXTURE_FAILED_FISHER &&
+    ((ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit) ||
+      (ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher));
   if (!agree && !failed) return texture;
   const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification: tClass, window, nRays: input.nRays, source, missing, cue: 'tone' });
   if (!boundary.detected) return texture;
   const f = (v: number): string => v.toFixed(1);
   const why = agree
     ? `the brightness steps where the weak texture step is (Fisher ratio ${f(ev.toneAtTextureSplit)} across the texture's boundary) and places it more sharply`
-    : `the texture contrast is too weak to place it (Fisher ratio ${f(textureFisher)}) and the texture agrees better with the brightness boundary (${f(ev.textureAtToneSplit)} against ${f(ev.textureAtOwnSplit)})`;
+    : ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit
+      ? `the texture contrast is too weak to place it (Fisher ratio ${f(textureFisher)}) and the texture agrees better with the brightness boundary (${f(ev.textureAtToneSplit)} against ${f(ev.textureAtOwnSplit)})`
+      : `the texture contrast is too weak to place it (Fisher ratio ${f(textureFisher)}) and the brightness steps where the texture's weak boundary is (Fisher ratio ${f(ev.toneAtTextureSplit)} across it)`;
   return {
     boundary,
     window,
