@@ -189,12 +189,15 @@ function logTicks(lo: number, hi: number): number[] {
   return out.filter((t) => t >= lo * 0.999 && t <= hi * 1.001);
 }
 
+/** Height of the series plot when it has nothing to show, px. */
+const EMPTY_SERIES_HEIGHT = 40;
+
 /**
  * Series plot: mean band width (µm) against strain rate (1/s, log10 axis), one colour and marker
  * per notch, 95 % error bars, dashed fitted power law w = A·ε̇^B per notch and the material's
  * L(ε̇) as a black line with square markers.
  * @param series the output of `analyseSeries`
- * @param opts size in px (default 780 × 400)
+ * @param opts size in px (default 780 × 400; {@link EMPTY_SERIES_HEIGHT} high when there is nothing to plot)
  * @returns an `<svg>` element as text
  */
 export function seriesPlotSvg(series: SeriesAnalysis, opts: { width?: number; height?: number } = {}): string {
@@ -202,7 +205,8 @@ export function seriesPlotSvg(series: SeriesAnalysis, opts: { width?: number; he
   const H = opts.height ?? 400;
   const groups = series.notches.flatMap((n) => n.groups);
   if (groups.length === 0 && series.lCurve.length === 0) {
-    return emptyPlot(W, H, 'no image with both a strain rate and a band width', 'series plot', 'series');
+    // one line, not a blank plot of the full size (a batch without strain rates is common)
+    return emptyPlot(W, EMPTY_SERIES_HEIGHT, 'no image with both a strain rate and a band width', 'series plot', 'series');
   }
   const rates = [...groups.map((g) => g.strainRatePerS), ...series.lCurve.map((p) => p.strainRatePerS)];
   const ys = [

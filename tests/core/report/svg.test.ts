@@ -54,6 +54,12 @@ describe('svg plots', () => {
     expect(svg).toContain('log scale');
   });
 
+  it('a series without strain rates is one line, not a blank plot of full height', () => {
+    const svg = seriesPlotSvg(analyseSeries([]));
+    expect(svg).toContain('no image with both a strain rate and a band width');
+    expect(Number(/height="(\d+)"/.exec(svg)![1])).toBeLessThanOrEqual(40);
+  });
+
   it('the HTML report holds the caution, one row per entry, no script and no external resource', () => {
     const html = buildReportHtml({
       entries: [
