@@ -107,8 +107,29 @@ const LARGE: SceneCase[] = [
   scene('large-combo', 'U flank + putty + shadow + tint + glints + rule + label, 2000 × 1520 px at 5.5 µm/px (RGB)', ['flank', 'holder', 'shadow', 'tint', 'glints', 'rule', 'label', 'large'], typical(62, 5.5, { widthPx: 2000, heightPx: 1520, flank: { kind: 'U', diameterRatio: 1.2 }, background: 'putty', shadow: {}, colour: {}, glints: {}, rule: { side: 'left', visibleUm: 1400 }, label: { corner: 'tr', text: 'FZ7-U-62\nINVENTED' } })),
 ];
 
+/** A scene of SINGLE again with the light raised to `elevationDeg` (same seed, so the same specimen). */
+function underRingLight(name: string, elevationDeg: number, description: string): SceneCase {
+  const base = SINGLE.find((s) => s.name === name);
+  if (!base) throw new Error(`no scene ${name}`);
+  const options: RenderOptions = { ...base.options, light: { ...(base.options.light ?? {}), elevationDeg } };
+  return { ...base, name: `ring-${name}-${elevationDeg}`, description, elements: [...base.elements, 'ring-light'], options };
+}
+
+/**
+ * A light from high above (a ring or coaxial light; the scenes above are lit at 40° or lower): the
+ * core's shading texture fades with the elevation while the core turns darker than the rim
+ * (pipeline/stages/band.ts, the tone cue; segment/outerEdge.ts, the notch root's groove). Added
+ * 2026-12-03 after measuring ten scenes at 60/75/85° (README "Light from high above").
+ */
+const RING: SceneCase[] = [
+  underRingLight('plain', 85, 'the typical specimen under a light from 85° (ring light): the core\'s shading texture nearly gone'),
+  underRingLight('flank-v-bright', 85, 'V flank (45°, ratio 1.3) under a light from 85°'),
+  underRingLight('flank-v-shallow', 60, 'V flank (30°, ratio 1.15) under a light from 60°: the root fillet a dark groove, the flank as bright as the rim'),
+  underRingLight('defocus', 75, 'one-sided defocus under a light from 75°: the blurred core loses its texture'),
+];
+
 /** Every scene of the set, in a fixed order. */
-export const SCENE_SET: readonly SceneCase[] = [...SINGLE, ...COMBINED, ...LARGE];
+export const SCENE_SET: readonly SceneCase[] = [...SINGLE, ...COMBINED, ...LARGE, ...RING];
 
 /** The scene of that name, or undefined. */
 export function findScene(name: string): SceneCase | undefined {
