@@ -228,20 +228,21 @@ function withToneCue(input: BandInput, texture: BandFinding, source: GrayRaster,
     textureAtOwnSplit: ownCore ? splitFisher(tx.combined, spec, ownCore, half) : 0,
     textureAtToneSplit: splitFisher(tx.combined, spec, tc.coreMask, half),
   };
-  const agree = ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher && ev.textureAtToneSplit >= TEXTURE_KEEPS_TONE_SPLIT * ev.textureAtOwnSplit;
-  // the texture failed and either prefers the tone's split itself, or is too weak to judge it while the
-  // brightness steps across the texture's own split (the two cues locate the same boundary)
-  const failed =
-    textureFisher < TEXTURE_FAILED_FISHER &&
-    ((ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit) ||
-      (ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher));
+  // the brightness steps across the texture's own split and separates clearly better than the texture
+  const stepsAtTextureSplit = ev.toneAtTextureSplit >= TONE_AT_TEXTURE_SPLIT_MIN && ev.toneFisher >= TONE_OVER_TEXTURE * textureFisher;
+  // the texture itself separates the tone's split better than its own
+  const prefersToneSplit = ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit;
+  const agree = stepsAtTextureSplit && ev.textureAtToneSplit >= TEXTURE_KEEPS_TONE_SPLIT * ev.textureAtOwnSplit;
+  // the texture failed: it prefers the tone's split, or is too weak to judge it while the brightness
+  // steps across its own split (the two cues locate the same boundary)
+  const failed = textureFisher < TEXTURE_FAILED_FISHER && (prefersToneSplit || stepsAtTextureSplit);
   if (!agree && !failed) return texture;
   const boundary = refineRimBoundary({ frame: input.frame, location: input.location, classification: tClass, window, nRays: input.nRays, source, missing, cue: 'tone' });
   if (!boundary.detected) return texture;
   const f = (v: number): string => v.toFixed(1);
   const why = agree
     ? `the brightness steps where the weak texture step is (Fisher ratio ${f(ev.toneAtTextureSplit)} across the texture's boundary) and places it more sharply`
-    : ev.textureAtToneSplit >= 1 && ev.textureAtToneSplit >= TEXTURE_PREFERS_TONE_SPLIT * ev.textureAtOwnSplit
+    : prefersToneSplit
       ? `the texture contrast is too weak to place it (Fisher ratio ${f(textureFisher)}) and the texture agrees better with the brightness boundary (${f(ev.textureAtToneSplit)} against ${f(ev.textureAtOwnSplit)})`
       : `the texture contrast is too weak to place it (Fisher ratio ${f(textureFisher)}) and the brightness steps where the texture's weak boundary is (Fisher ratio ${f(ev.toneAtTextureSplit)} across it)`;
   return {

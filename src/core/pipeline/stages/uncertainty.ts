@@ -70,11 +70,14 @@ export const VARIATION_RAYS = 120;
 
 const pct = (f: number): string => `${Math.round(100 * f)} %`;
 
+/** The boundary was classified on tone features only (stages/band.ts took the tone cue). */
+const toneCue = (v: VariationInput): boolean => toneOnly(v.texture.maps.map((m) => m.name));
+
 /** Mean width of the band measured on a refined boundary of one variation ({@link VARIATION_RAYS} rays), or null. */
 function variationMean(v: VariationInput, classification: Classification, window: TextureWindow, level: 'mean' | 'log' | 'std', rays = VARIATION_RAYS): number | null {
   const full = rays !== VARIATION_RAYS;
   // classified on tone features (stages/band.ts took the tone cue): refined on brightness, as the measurement was
-  const cue = toneOnly(v.texture.maps.map((m) => m.name)) ? 'tone' : 'texture';
+  const cue = toneCue(v) ? 'tone' : 'texture';
   const boundary = refineRimBoundary({ frame: v.frame, location: v.location, classification, window, nRays: full ? v.params.nRays : rays, exactRays: full ? undefined : rays, level, cue });
   if (!boundary.polygon) return null;
   const geometry = storedGeometry(v.location, boundary, v.marks);
@@ -183,7 +186,7 @@ export function methodVariations(v: VariationInput, meanUm: number): ParameterVa
   }
   // the level ends enter the measurement interval (h): refined on the measurement's own rays
   const rays = Math.max(v.params.nRays, 360);
-  const [low, high] = toneOnly(v.texture.maps.map((m) => m.name))
+  const [low, high] = toneCue(v)
     ? [`${pct(0.5 - BOX_LEVEL_TOLERANCE)} of the brightness step`, `${pct(0.5 + BOX_LEVEL_TOLERANCE)} of the brightness step`]
     : ['log-variance midpoint', 'standard-deviation midpoint'];
   out.push({ name: `boundary level: ${low}`, meanUm: variationMean(v, v.classification, v.window, 'log', rays) });
